@@ -1,0 +1,17 @@
+// SPDX-License-Identifier: MIT
+// The table of commands.
+#include "gate/cli/commands.hpp"
+
+namespace tollgate {
+
+const std::vector<CommandEntry>& command_table() {
+    static const std::vector<CommandEntry> table = {
+        {"measure", "Per-function Halstead measures of files or a whole tree at a revision",
+         &attach_measure},
+        {"explain", "Operator and operand tables of one function, and its measures",
+         &attach_explain},
+    };
+    return table;
+}
+
+} // namespace tollgate

@@ -1,0 +1,33 @@
+// SPDX-License-Identifier: MIT
+// The table of commands: each command attaches its options and its handler to a CLI11 subcommand.
+#pragma once
+
+#include <CLI/CLI.hpp>
+
+#include <functional>
+#include <string>
+#include <vector>
+
+namespace tollgate {
+
+// Options every command shares.
+struct GlobalOptions {
+    bool verbose = false; // log stage by stage on stderr
+};
+
+// One command of the table.
+struct CommandEntry {
+    const char* name;    // e.g. "measure"
+    const char* summary; // one line for "tollgate --help"
+    // Add options to `sub` and, when the command is chosen, set `selected` to its handler.
+    void (*attach)(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
+};
+
+// Return every command, in the order "tollgate --help" lists them.
+const std::vector<CommandEntry>& command_table();
+
+// Attach functions, one per command file.
+void attach_measure(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
+void attach_explain(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
+
+} // namespace tollgate

@@ -1,0 +1,46 @@
+// SPDX-License-Identifier: MIT
+// C/C++ file recognition by extension.
+#include "gate/common/source.hpp"
+
+#include <algorithm>
+#include <array>
+#include <cctype>
+#include <string_view>
+
+namespace tollgate {
+
+namespace {
+
+std::string lower_extension(const std::string& path) {
+    const auto slash = path.find_last_of('/');
+    const auto dot = path.find_last_of('.');
+    if (dot == std::string::npos || (slash != std::string::npos && dot < slash)) {
+        return {};
+    }
+    std::string ext = path.substr(dot);
+    std::transform(ext.begin(), ext.end(), ext.begin(),
+                   [](unsigned char c) { return static_cast<char>(std::tolower(c)); });
+    return ext;
+}
+
+constexpr std::array<std::string_view, 7> k_header_extensions = {".h",   ".hh",  ".hpp", ".hxx",
+                                                                 ".inl", ".ipp", ".tpp"};
+constexpr std::array<std::string_view, 5> k_source_extensions = {".c", ".cc", ".cpp", ".cxx",
+                                                                 ".c++"};
+
+} // namespace
+
+bool is_header_path(const std::string& path) {
+    const std::string ext = lower_extension(path);
+    return std::find(k_header_extensions.begin(), k_header_extensions.end(), ext) !=
+           k_header_extensions.end();
+}
+
+bool is_c_family_path(const std::string& path) {
+    const std::string ext = lower_extension(path);
+    return is_header_path(path) || std::find(k_source_extensions.begin(),
+                                             k_source_extensions.end(),
+                                             ext) != k_source_extensions.end();
+}
+
+} // namespace tollgate

@@ -1,0 +1,28 @@
+// SPDX-License-Identifier: MIT
+// Plain value types that pass source text between the walker and the lexer.
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace tollgate {
+
+// One file's bytes as stored at a revision (or in the working tree).
+struct SourceFile {
+    std::string path;    // path relative to the repository root, '/' separated
+    std::string content; // the file's bytes, unmodified (BOM, CRLF and all)
+
+    bool operator==(const SourceFile& other) const {
+        return path == other.path && content == other.content;
+    }
+};
+
+// Return true when `path` has an extension Tollgate measures as C or C++ (.c .cc .cpp .cxx .c++
+// .h .hh .hpp .hxx .inl .ipp .tpp, case-insensitive).
+bool is_c_family_path(const std::string& path);
+
+// Return true when `path` is a header (.h .hh .hpp .hxx .inl .ipp .tpp), supplied to the parser
+// as an in-memory file.
+bool is_header_path(const std::string& path);
+
+} // namespace tollgate

@@ -1,0 +1,63 @@
+// SPDX-License-Identifier: MIT
+// libclang front end: parse one C/C++ file from memory and list its functions' tokens.
+#pragma once
+
+#include "gate/common/source.hpp"
+#include "gate/lexer/function_span.hpp"
+#include "tollgate/core/convention.hpp"
+
+#include <map>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace tollgate::lexer {
+
+enum class Language { c, cxx };
+
+// Return the language of `path` by extension (.c is C; .cc .cpp .cxx .c++ and headers are C++),
+// or nothing when the extension is not C/C++. `force` overrides the extension when given.
+std::optional<Language> language_for_path(const std::string& path,
+                                          std::optional<Language> force = std::nullopt);
+
+// Everything one revision's files share when they are parsed: built once per revision.
+struct ParseContext {
+    std::vector<SourceFile> headers;        // every header of the revision, repository-relative
+    std::vector<std::string> include_dirs;  // repository-relative include folders to search
+    std::map<std::string, std::vector<std::string>> file_flags; // per repository-relative path:
+                                            // extra flags (-D, -I made repository-relative,
+                                            // -std) taken from compile_commands.json
+    std::optional<Language> force_language; // override the extension rule
+    core::Convention convention;            // counting convention switches
+    std::string cache_dir;                  // where precompiled standard headers are kept;
+                                            // empty disables the cache
+};
+
+// Build the shared parse context of one revision: keep the headers of `files`, and derive include
+// folders (the repository root and every folder named include/). `compile_commands_json`, when
+// non-empty, is the text of a compile_commands.json whose directory is `build_root`
+// (an absolute path in the user's checkout) used to map its flags to repository paths.
+ParseContext make_parse_context(const std::vector<SourceFile>& files,
+                                const std::string& compile_commands_json = {},
+                                const std::string& repository_root = {});
+
+// A libclang front end. One per thread: it owns a CXIndex. Not copyable.
+class Lexer {
+public:
+    Lexer();
+    ~Lexer();
+    Lexer(const Lexer&) = delete;
+    Lexer& operator=(const Lexer&) = delete;
+
+    // Parse `file` (with the headers of `context` as in-memory files) and return every function
+    // definition in it with classified tokens. Never throws for bad source: syntax errors become
+    // warnings and what can be measured is measured. Throws Failure when libclang itself fails.
+    FileFunctions lex_functions(const SourceFile& file, const ParseContext& context);
+
+private:
+    struct Impl;
+    std::unique_ptr<Impl> m_impl;
+};
+
+} // namespace tollgate::lexer

@@ -1,0 +1,80 @@
+// SPDX-License-Identifier: MIT
+// libgit2 access: open a repository, resolve revisions, list trees and read blobs.
+#pragma once
+
+#include "gate/common/source.hpp"
+
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace tollgate::walker {
+
+// A full 40-hex object id.
+struct ObjectId {
+    std::string hex; // 40 lowercase hex digits
+    bool operator==(const ObjectId& other) const { return hex == other.hex; }
+    bool operator!=(const ObjectId& other) const { return hex != other.hex; }
+    bool operator<(const ObjectId& other) const { return hex < other.hex; }
+    std::string short_hex() const { return hex.substr(0, 7); } // first 7 digits
+};
+
+// One file of a tree.
+struct TreeFile {
+    std::string path; // repository-relative, '/' separated
+    ObjectId blob;    // its blob id
+    bool operator==(const TreeFile& other) const {
+        return path == other.path && blob == other.blob;
+    }
+};
+
+// An open git repository (work tree or bare). Move-only; owns the git_repository.
+class Repository {
+public:
+    // Open the repository containing `path` (searching parent folders). Throws UsageError
+    // "not a git repository: PATH (...)" when there is none.
+    static Repository open(const std::string& path);
+
+    Repository(Repository&&) noexcept;
+    Repository& operator=(Repository&&) noexcept;
+    ~Repository();
+
+    // Return the working tree's absolute path ('/'-terminated), or empty for a bare repository.
+    std::string workdir() const;
+    // Return true for a bare repository.
+    bool is_bare() const;
+
+    // Resolve `revision` (any git revision syntax) to a commit id. Throws UsageError naming the
+    // revision, with "did you mean" among branch and tag names, when it does not resolve.
+    ObjectId resolve_commit(const std::string& revision) const;
+
+    // Return the C/C++ files (by is_c_family_path) of `commit`'s tree, sorted by path.
+    std::vector<TreeFile> list_c_family_files(const ObjectId& commit) const;
+
+    // Return the bytes of blob `blob`. Throws Failure when it is missing.
+    std::string read_blob(const ObjectId& blob) const;
+
+    // Return the file at `path` in `commit`, or nothing when the tree has no such file.
+    std::optional<SourceFile> read_file(const ObjectId& commit, const std::string& path) const;
+
+    // Return every C/C++ file of `commit` with its content, sorted by path.
+    std::vector<SourceFile> read_c_family_files(const ObjectId& commit) const;
+
+    // Return every C/C++ file of the working tree (tracked or untracked, not ignored), with its
+    // content read from disk, sorted by path. Throws UsageError for a bare repository.
+    std::vector<SourceFile> read_worktree_c_family_files() const;
+
+    // Return the short names of local branches, remote branches and tags, sorted.
+    std::vector<std::string> reference_names() const;
+
+    // The libgit2 handle, for other walker code (git_repository*).
+    void* raw() const;
+
+private:
+    struct Impl;
+    explicit Repository(std::unique_ptr<Impl> impl);
+    std::unique_ptr<Impl> m_impl;
+};
+
+} // namespace tollgate::walker
