@@ -15,6 +15,8 @@ const char* to_string(Basis basis) {
         return "syntax tree";
     case Basis::previous_token:
         return "previous token";
+    case Basis::next_token:
+        return "next token";
     case Basis::lexical:
         return "lexical";
     }
@@ -22,8 +24,7 @@ const char* to_string(Basis basis) {
 }
 
 bool is_operand_keyword(const std::string& spelling) {
-    return spelling == "true" || spelling == "false" || spelling == "nullptr" ||
-           spelling == "this";
+    return spelling == "true" || spelling == "false" || spelling == "nullptr" || spelling == "this";
 }
 
 bool is_unary_binary_ambiguous(const std::string& spelling) {
@@ -198,8 +199,8 @@ std::optional<Token> classify_token(const RawToken& raw, const Convention& conve
             token.form = "namespace name";
             break;
         case NameKind::defined:
-            token.role = convention.function_name_as_operand ? Role::operand_token
-                                                             : Role::operator_token;
+            token.role =
+                convention.function_name_as_operand ? Role::operand_token : Role::operator_token;
             token.form = "defined function";
             break;
         case NameKind::value:

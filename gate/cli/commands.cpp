@@ -6,6 +6,8 @@ namespace tollgate {
 
 const std::vector<CommandEntry>& command_table() {
     static const std::vector<CommandEntry> table = {
+        {"check", "Gate a change: measure the functions it touched, before and after",
+         &attach_check},
         {"measure", "Per-function Halstead measures of files or a whole tree at a revision",
          &attach_measure},
         {"explain", "Operator and operand tables of one function, and its measures",

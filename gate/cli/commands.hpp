@@ -27,6 +27,7 @@ struct CommandEntry {
 const std::vector<CommandEntry>& command_table();
 
 // Attach functions, one per command file.
+void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_measure(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_explain(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 

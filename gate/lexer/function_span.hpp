@@ -27,32 +27,31 @@ struct FunctionSpan {
     unsigned end_line = 0;      // line of the closing brace (inclusive)
     ExtentMode mode = ExtentMode::syntax_tree; // how the extent was found
     std::uint64_t potential_operands = 0;      // n2*: parameters plus one for a non-void result
-    core::TokenList tokens;     // counted tokens in source order (closing halves left out)
-    std::string token_hash;     // hex digest of the tokens' keys and roles (not lines)
+    core::TokenList tokens; // counted tokens in source order (closing halves left out)
+    std::string token_hash; // hex digest of the tokens' keys and roles (not lines)
 
     bool operator==(const FunctionSpan& other) const {
         return usr == other.usr && fallback_key == other.fallback_key &&
                qualified_name == other.qualified_name && signature == other.signature &&
-               path == other.path && start_line == other.start_line &&
-               end_line == other.end_line && mode == other.mode &&
-               potential_operands == other.potential_operands && tokens == other.tokens &&
-               token_hash == other.token_hash;
+               path == other.path && start_line == other.start_line && end_line == other.end_line &&
+               mode == other.mode && potential_operands == other.potential_operands &&
+               tokens == other.tokens && token_hash == other.token_hash;
     }
 };
 
 // A warning about one file: what could not be measured and why.
 struct LexWarning {
-    std::string path; // repository-relative path
-    unsigned line = 0; // 1-based, 0 when not tied to a line
+    std::string path;    // repository-relative path
+    unsigned line = 0;   // 1-based, 0 when not tied to a line
     std::string message; // lowercase sentence, e.g. "expected ';' after expression"
 };
 
 // The functions of one file.
 struct FileFunctions {
-    std::string path;                     // repository-relative path
-    std::vector<FunctionSpan> functions;  // ordered by start line, then fallback key
-    std::vector<LexWarning> warnings;     // parse errors and recovered regions
-    unsigned lexically_recovered = 0;     // functions whose extent came from the lexical check
+    std::string path;                    // repository-relative path
+    std::vector<FunctionSpan> functions; // ordered by start line, then fallback key
+    std::vector<LexWarning> warnings;    // parse errors and recovered regions
+    unsigned lexically_recovered = 0;    // functions whose extent came from the lexical check
 };
 
 } // namespace tollgate::lexer

@@ -1,12 +1,674 @@
 // SPDX-License-Identifier: MIT
-// Placeholder replaced by the libclang front end.
+// libclang front end: parse one C/C++ file from memory and list its functions' tokens.
 #include "gate/lexer/lexer.hpp"
+
 #include "gate/common/errors.hpp"
+#include "gate/lexer/clang_handles.hpp"
+#include "gate/lexer/lexical_scan.hpp"
+#include "gate/lexer/pch_cache.hpp"
+#include "gate/lexer/source_token.hpp"
+#include "gate/lexer/token_classifier.hpp"
+
+#include <algorithm>
+#include <cstdio>
+#include <map>
+#include <spdlog/spdlog.h>
+
 namespace tollgate::lexer {
-struct Lexer::Impl {};
-Lexer::Lexer() : m_impl(std::make_unique<Impl>()) {}
-Lexer::~Lexer() = default;
-FileFunctions Lexer::lex_functions(const SourceFile&, const ParseContext&) { throw Failure("lexer unavailable"); }
-ParseContext make_parse_context(const std::vector<SourceFile>&, const std::string&, const std::string&) { return {}; }
-std::optional<Language> language_for_path(const std::string&, std::optional<Language>) { return std::nullopt; }
+
+namespace {
+
+constexpr std::size_t k_npos = static_cast<std::size_t>(-1);
+
+// Parse errors reported per file; the rest are summed up in one more warning.
+constexpr std::size_t k_max_error_warnings = 20;
+
+// The unsaved-file list and include flags of one ParseContext, built once.
+struct PreparedContext {
+    const SourceFile* header_data = nullptr; // identifies the headers the list points into
+    std::size_t header_count = 0;
+    std::vector<std::string> virtual_paths; // one per header, under k_virtual_root
+    std::vector<CXUnsavedFile> unsaved;     // points into the context's headers
+    std::vector<std::string> include_flags; // -I for every include folder
+};
+
+// One function found by libclang, before its tokens are classified.
+struct FoundFunction {
+    CXCursor cursor;
+    std::size_t first = 0;
+    std::size_t last = 0;
+    std::size_t name = k_npos;
+};
+
+std::string folder_of(const std::string& path) {
+    const auto slash = path.find_last_of('/');
+    return slash == std::string::npos ? std::string() : path.substr(0, slash);
 }
+
+std::string hex64(std::uint64_t value) {
+    char text[17];
+    std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(value));
+    return text;
+}
+
+// Return the digest of the tokens' keys and roles, in order (lines left out).
+std::string hash_tokens(const core::TokenList& tokens) {
+    std::uint64_t hash = 1469598103934665603ULL;
+    auto mix = [&hash](unsigned char c) {
+        hash ^= c;
+        hash *= 1099511628211ULL;
+    };
+    for (const core::Token& token : tokens) {
+        for (unsigned char c : token.key) {
+            mix(c);
+        }
+        mix(0x1f);
+        mix(token.role == core::Role::operator_token ? 'o' : 'd');
+        mix(0x1e);
+    }
+    return hex64(hash);
+}
+
+bool is_function_cursor(CXCursorKind kind) {
+    return kind == CXCursor_FunctionDecl || kind == CXCursor_CXXMethod ||
+           kind == CXCursor_FunctionTemplate || kind == CXCursor_Constructor ||
+           kind == CXCursor_Destructor || kind == CXCursor_ConversionFunction;
+}
+
+bool is_container_cursor(CXCursorKind kind) {
+    return kind == CXCursor_Namespace || kind == CXCursor_ClassDecl ||
+           kind == CXCursor_StructDecl || kind == CXCursor_UnionDecl ||
+           kind == CXCursor_ClassTemplate || kind == CXCursor_ClassTemplatePartialSpecialization ||
+           kind == CXCursor_LinkageSpec || kind == CXCursor_UnexposedDecl ||
+           kind == CXCursor_FriendDecl;
+}
+
+// Return the enclosing namespaces and classes of `cursor` joined with "::", then its name.
+std::string qualified_name(CXCursor cursor) {
+    std::string name = take_string(clang_getCursorSpelling(cursor));
+    CXCursor parent = clang_getCursorSemanticParent(cursor);
+    while (!clang_Cursor_isNull(parent) && parent.kind != CXCursor_TranslationUnit &&
+           !clang_isInvalid(parent.kind)) {
+        if (is_container_cursor(parent.kind) && parent.kind != CXCursor_LinkageSpec &&
+            parent.kind != CXCursor_UnexposedDecl) {
+            std::string part = take_string(clang_getCursorSpelling(parent));
+            if (part.empty()) {
+                part = parent.kind == CXCursor_Namespace ? "(anonymous namespace)" : "(anonymous)";
+            }
+            name = part + "::" + name;
+        }
+        parent = clang_getCursorSemanticParent(parent);
+    }
+    return name;
+}
+
+struct ParameterList {
+    std::vector<std::string> types;
+};
+
+// Return the parameter type spellings of `cursor`.
+std::vector<std::string> parameter_types(CXCursor cursor) {
+    ParameterList list;
+    clang_visitChildren(
+        cursor,
+        [](CXCursor child, CXCursor, CXClientData data) {
+            if (child.kind == CXCursor_ParmDecl) {
+                static_cast<ParameterList*>(data)->types.push_back(
+                    take_string(clang_getTypeSpelling(clang_getCursorType(child))));
+            }
+            return CXChildVisit_Continue;
+        },
+        &list);
+    return list.types;
+}
+
+bool has_result(CXCursor cursor) {
+    if (cursor.kind == CXCursor_Constructor || cursor.kind == CXCursor_Destructor) {
+        return false;
+    }
+    CXType result = clang_getCursorResultType(cursor);
+    if (result.kind == CXType_Invalid) {
+        result = clang_getResultType(clang_getCursorType(cursor));
+    }
+    return result.kind != CXType_Void && result.kind != CXType_Invalid;
+}
+
+DirectiveKind directive_kind(const std::string& word) {
+    if (word == "if" || word == "ifdef" || word == "ifndef") {
+        return DirectiveKind::open_condition;
+    }
+    if (word == "elif" || word == "else" || word == "elifdef" || word == "elifndef") {
+        return DirectiveKind::alternative;
+    }
+    if (word == "endif") {
+        return DirectiveKind::close_condition;
+    }
+    return DirectiveKind::other;
+}
+
+core::LexKind lex_kind(CXTokenKind kind) {
+    switch (kind) {
+    case CXToken_Keyword:
+        return core::LexKind::keyword;
+    case CXToken_Identifier:
+        return core::LexKind::identifier;
+    case CXToken_Literal:
+        return core::LexKind::literal;
+    case CXToken_Punctuation:
+    case CXToken_Comment:
+        break;
+    }
+    return core::LexKind::punctuation;
+}
+
+// Line starts of `content`, for offset -> line.
+std::vector<unsigned> line_starts(const std::string& content) {
+    std::vector<unsigned> starts = {0};
+    for (std::size_t i = 0; i < content.size(); ++i) {
+        if (content[i] == '\n') {
+            starts.push_back(static_cast<unsigned>(i + 1));
+        }
+    }
+    return starts;
+}
+
+unsigned line_of(const std::vector<unsigned>& starts, unsigned offset) {
+    return static_cast<unsigned>(std::upper_bound(starts.begin(), starts.end(), offset) -
+                                 starts.begin());
+}
+
+// Return true when line `line` (1-based) ends with a backslash continuation.
+bool continues(const std::string& content, const std::vector<unsigned>& starts, unsigned line) {
+    if (line >= starts.size()) {
+        return false;
+    }
+    std::size_t end = starts[line] - 1; // the '\n'
+    while (end > starts[line - 1] && (content[end - 1] == '\r')) {
+        --end;
+    }
+    return end > starts[line - 1] && content[end - 1] == '\\';
+}
+
+// Everything one parse of one file produced.
+struct ParsedFile {
+    std::vector<SourceToken> tokens;
+    std::vector<CXCursor> cursors;
+    std::vector<DirectiveMark> directives;
+    std::vector<unsigned> lines;
+};
+
+// Tokenize and annotate the whole main file once; drop comments and directive lines.
+ParsedFile tokenize_file(CXTranslationUnit unit, CXFile main_file, const std::string& content) {
+    ParsedFile parsed;
+    parsed.lines = line_starts(content);
+    if (content.empty() || main_file == nullptr) {
+        return parsed;
+    }
+    const CXSourceRange whole = clang_getRange(
+        clang_getLocationForOffset(unit, main_file, 0),
+        clang_getLocationForOffset(unit, main_file, static_cast<unsigned>(content.size())));
+    TokenArray tokens(unit, whole);
+    std::vector<CXCursor> cursors(tokens.size());
+    if (tokens.size() > 0) {
+        clang_annotateTokens(unit, tokens.data(), tokens.size(), cursors.data());
+    }
+    parsed.tokens.reserve(tokens.size());
+    parsed.cursors.reserve(tokens.size());
+    unsigned previous_line = 0;
+    unsigned directive_end = 0; // last line of the directive being skipped
+    for (unsigned i = 0; i < tokens.size(); ++i) {
+        const CXToken token = tokens.data()[i];
+        const CXTokenKind kind = clang_getTokenKind(token);
+        if (kind == CXToken_Comment) {
+            continue;
+        }
+        const CXSourceRange extent = clang_getTokenExtent(unit, token);
+        unsigned begin = 0;
+        unsigned end = 0;
+        clang_getSpellingLocation(clang_getRangeStart(extent), nullptr, nullptr, nullptr, &begin);
+        clang_getSpellingLocation(clang_getRangeEnd(extent), nullptr, nullptr, nullptr, &end);
+        if (end < begin || end > content.size()) {
+            end = begin;
+        }
+        const unsigned line = line_of(parsed.lines, begin);
+        if (line <= directive_end) {
+            continue;
+        }
+        if (kind == CXToken_Punctuation && line != previous_line && end == begin + 1 &&
+            content[begin] == '#') {
+            directive_end = line;
+            while (continues(content, parsed.lines, directive_end)) {
+                ++directive_end;
+            }
+            std::string word;
+            if (i + 1 < tokens.size()) {
+                word = take_string(clang_getTokenSpelling(unit, tokens.data()[i + 1]));
+            }
+            parsed.directives.push_back({parsed.tokens.size(), directive_kind(word)});
+            previous_line = line;
+            continue;
+        }
+        previous_line = line;
+        SourceToken source;
+        source.kind = lex_kind(kind);
+        source.spelling = content.substr(begin, end - begin);
+        source.offset = begin;
+        source.line = line;
+        parsed.tokens.push_back(std::move(source));
+        parsed.cursors.push_back(cursors[i]);
+    }
+    return parsed;
+}
+
+struct Collector {
+    CXFile main_file = nullptr;
+    std::vector<CXCursor> functions;
+};
+
+bool in_main_file(CXCursor cursor, CXFile main_file) {
+    CXFile file = nullptr;
+    clang_getExpansionLocation(clang_getCursorLocation(cursor), &file, nullptr, nullptr, nullptr);
+    return file != nullptr && file == main_file;
+}
+
+CXChildVisitResult collect_functions(CXCursor cursor, CXCursor, CXClientData data) {
+    auto& collector = *static_cast<Collector*>(data);
+    const CXCursorKind kind = clang_getCursorKind(cursor);
+    if (!is_function_cursor(kind) && !is_container_cursor(kind)) {
+        return CXChildVisit_Continue;
+    }
+    if (!in_main_file(cursor, collector.main_file)) {
+        // A namespace or class opened in a header holds nothing of the main file; extern "C"
+        // blocks have no location of their own worth trusting, so look inside them.
+        return kind == CXCursor_LinkageSpec || kind == CXCursor_UnexposedDecl
+                   ? CXChildVisit_Recurse
+                   : CXChildVisit_Continue;
+    }
+    if (is_function_cursor(kind)) {
+        if (clang_isCursorDefinition(cursor) != 0) {
+            collector.functions.push_back(cursor);
+        }
+        return CXChildVisit_Continue; // lambdas and local classes belong to this function
+    }
+    return CXChildVisit_Recurse;
+}
+
+// Return the index of the first token whose offset is at least `offset`.
+std::size_t first_at(const std::vector<SourceToken>& tokens, unsigned offset) {
+    return static_cast<std::size_t>(
+        std::lower_bound(tokens.begin(), tokens.end(), offset,
+                         [](const SourceToken& t, unsigned o) { return t.offset < o; }) -
+        tokens.begin());
+}
+
+// Find the token range of a libclang function; an empty optional when it has no tokens here.
+std::optional<FoundFunction> locate(CXCursor cursor, CXFile main_file,
+                                    const std::vector<SourceToken>& tokens) {
+    const CXSourceRange extent = clang_getCursorExtent(cursor);
+    CXFile start_file = nullptr;
+    CXFile end_file = nullptr;
+    const unsigned start = expansion_offset(clang_getRangeStart(extent), &start_file);
+    const unsigned end = expansion_offset(clang_getRangeEnd(extent), &end_file);
+    if (start_file != main_file || tokens.empty()) {
+        return std::nullopt;
+    }
+    FoundFunction found;
+    found.cursor = cursor;
+    found.first = first_at(tokens, start);
+    if (found.first >= tokens.size()) {
+        return std::nullopt;
+    }
+    std::size_t after = end_file == main_file ? first_at(tokens, end) : tokens.size();
+    // A range end inside a macro expansion maps to the expansion's first token: keep it.
+    unsigned end_spelling = 0;
+    CXFile spelling_file = nullptr;
+    clang_getSpellingLocation(clang_getRangeEnd(extent), &spelling_file, nullptr, nullptr,
+                              &end_spelling);
+    if (after < tokens.size() && tokens[after].offset == end &&
+        (spelling_file != main_file || end_spelling != end)) {
+        ++after;
+    }
+    if (after <= found.first) {
+        // The whole function came out of one macro invocation: take the invocation.
+        after = found.first + 1;
+        if (after < tokens.size() && is_punct(tokens[after], "(")) {
+            after = std::min(match_bracket(tokens, after), tokens.size() - 1) + 1;
+        }
+    }
+    found.last = after - 1;
+    unsigned name_offset = 0;
+    CXFile name_file = nullptr;
+    clang_getSpellingLocation(clang_getCursorLocation(cursor), &name_file, nullptr, nullptr,
+                              &name_offset);
+    if (name_file == main_file) {
+        const std::size_t name = first_at(tokens, name_offset);
+        if (name < tokens.size() && tokens[name].offset == name_offset && name >= found.first &&
+            name <= found.last && tokens[name].kind == core::LexKind::identifier) {
+            found.name = name;
+        }
+    }
+    return found;
+}
+
+// Return the `{` that opens the body ending at `last`, or `first` when braces do not match.
+std::size_t body_open(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t last) {
+    if (!is_punct(tokens[last], "}")) {
+        return first;
+    }
+    int depth = 0;
+    for (std::size_t i = last + 1; i-- > first;) {
+        if (is_punct(tokens[i], "}")) {
+            ++depth;
+        } else if (is_punct(tokens[i], "{") && --depth == 0) {
+            return i;
+        }
+    }
+    return first;
+}
+
+bool inside_skipped(const std::vector<std::pair<unsigned, unsigned>>& skipped, unsigned begin,
+                    unsigned end) {
+    for (const auto& [from, to] : skipped) {
+        if (begin >= from && end <= to) {
+            return true;
+        }
+    }
+    return false;
+}
+
+std::string strip_virtual_root(std::string text) {
+    const std::string root = k_virtual_root;
+    for (auto at = text.find(root); at != std::string::npos; at = text.find(root, at)) {
+        text.erase(at, root.size());
+    }
+    return text;
+}
+
+} // namespace
+
+struct Lexer::Impl {
+    IndexHandle index{clang_createIndex(1, 0)};
+    std::map<const ParseContext*, PreparedContext> prepared;
+
+    const PreparedContext& prepare(const ParseContext& context) {
+        PreparedContext& entry = prepared[&context];
+        const SourceFile* data = context.headers.empty() ? nullptr : context.headers.data();
+        if (entry.header_data == data && entry.header_count == context.headers.size() &&
+            (data != nullptr || !entry.include_flags.empty())) {
+            return entry;
+        }
+        entry = PreparedContext{};
+        entry.header_data = data;
+        entry.header_count = context.headers.size();
+        entry.virtual_paths.reserve(context.headers.size());
+        for (const SourceFile& header : context.headers) {
+            entry.virtual_paths.push_back(k_virtual_root + header.path);
+        }
+        for (std::size_t i = 0; i < context.headers.size(); ++i) {
+            entry.unsaved.push_back(
+                {entry.virtual_paths[i].c_str(), context.headers[i].content.data(),
+                 static_cast<unsigned long>(context.headers[i].content.size())});
+        }
+        for (const std::string& folder : context.include_dirs) {
+            entry.include_flags.push_back("-I" + std::string(k_virtual_root) + folder);
+        }
+        if (entry.include_flags.empty()) {
+            entry.include_flags.push_back("-I" + std::string(k_virtual_root));
+        }
+        return entry;
+    }
+};
+
+Lexer::Lexer() : m_impl(std::make_unique<Impl>()) {
+    if (!m_impl->index) {
+        throw Failure("libclang could not create an index (check the libclang-14 installation)");
+    }
+}
+
+Lexer::~Lexer() = default;
+
+FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& context) {
+    FileFunctions result;
+    result.path = file.path;
+    const auto language = language_for_path(file.path, context.force_language);
+    if (!language) {
+        result.warnings.push_back({file.path, 0, "not a c or c++ file: nothing measured"});
+        return result;
+    }
+    const PreparedContext& prepared = m_impl->prepare(context);
+
+    // Language flags first: they also key the precompiled header.
+    std::vector<std::string> language_flags = {"-x", *language == Language::c ? "c" : "c++"};
+    std::vector<std::string> other_flags;
+    bool has_std = false;
+    bool has_include = false;
+    if (auto found = context.file_flags.find(file.path); found != context.file_flags.end()) {
+        const auto& flags = found->second;
+        for (std::size_t i = 0; i < flags.size(); ++i) {
+            const std::string& flag = flags[i];
+            if (flag.rfind("-std=", 0) == 0) {
+                has_std = true;
+                language_flags.push_back(flag);
+            } else if (flag.rfind("-D", 0) == 0 || flag.rfind("-U", 0) == 0) {
+                language_flags.push_back(flag);
+            } else {
+                has_include = has_include || flag == "-include";
+                other_flags.push_back(flag);
+            }
+        }
+    }
+    if (!has_std) {
+        language_flags.insert(language_flags.begin() + 2,
+                              *language == Language::c ? "-std=gnu11" : "-std=c++17");
+    }
+    std::vector<std::string> args = language_flags;
+    args.insert(args.end(), {"-w", "-ferror-limit=0"});
+    args.push_back("-I" + std::string(k_virtual_root) + folder_of(file.path));
+    args.insert(args.end(), other_flags.begin(), other_flags.end());
+    args.insert(args.end(), prepared.include_flags.begin(), prepared.include_flags.end());
+
+    std::string pch =
+        has_include ? std::string() : precompiled_header(language_flags, context.cache_dir);
+    const std::string main_path = k_virtual_root + file.path;
+    std::vector<CXUnsavedFile> unsaved;
+    unsaved.reserve(prepared.unsaved.size() + 1);
+    for (std::size_t i = 0; i < prepared.unsaved.size(); ++i) {
+        if (context.headers[i].path != file.path) {
+            unsaved.push_back(prepared.unsaved[i]);
+        }
+    }
+    unsaved.push_back(
+        {main_path.c_str(), file.content.data(), static_cast<unsigned long>(file.content.size())});
+
+    const unsigned options =
+        CXTranslationUnit_KeepGoing | CXTranslationUnit_DetailedPreprocessingRecord;
+    TranslationUnitHandle unit;
+    for (int attempt = 0; attempt < 2 && !unit; ++attempt) {
+        std::vector<std::string> attempt_args = args;
+        if (!pch.empty()) {
+            attempt_args.push_back("-include-pch");
+            attempt_args.push_back(pch);
+        }
+        std::vector<const char*> argv;
+        for (const std::string& arg : attempt_args) {
+            argv.push_back(arg.c_str());
+        }
+        CXTranslationUnit raw = nullptr;
+        const CXErrorCode code = clang_parseTranslationUnit2(
+            m_impl->index.get(), main_path.c_str(), argv.data(), static_cast<int>(argv.size()),
+            unsaved.data(), static_cast<unsigned>(unsaved.size()), options, &raw);
+        unit.reset(code == CXError_Success ? raw : nullptr);
+        if (code != CXError_Success && raw != nullptr) {
+            clang_disposeTranslationUnit(raw);
+        }
+        if (pch.empty()) {
+            break;
+        }
+        bool pch_refused = !unit;
+        for (unsigned i = 0; unit && i < clang_getNumDiagnostics(unit.get()); ++i) {
+            DiagnosticHandle diagnostic(clang_getDiagnostic(unit.get(), i));
+            if (clang_getDiagnosticSeverity(diagnostic.get()) != CXDiagnostic_Fatal) {
+                continue;
+            }
+            const std::string text = take_string(clang_getDiagnosticSpelling(diagnostic.get()));
+            if (text.find("precompiled") != std::string::npos ||
+                text.find("PCH") != std::string::npos ||
+                text.find("AST file") != std::string::npos) {
+                pch_refused = true;
+            }
+        }
+        if (pch_refused) {
+            spdlog::debug("precompiled header \"{}\" refused for \"{}\": parsing without it", pch,
+                          file.path);
+            discard_precompiled_header(pch);
+            pch.clear();
+            unit.reset();
+        }
+    }
+    if (!unit) {
+        throw Failure("libclang could not parse \"" + file.path +
+                      "\" (run with --verbose for details)");
+    }
+
+    // Parse errors become warnings.
+    CXFile main_file = clang_getFile(unit.get(), main_path.c_str());
+    std::size_t errors = 0;
+    const unsigned diagnostic_count = clang_getNumDiagnostics(unit.get());
+    for (unsigned i = 0; i < diagnostic_count; ++i) {
+        DiagnosticHandle diagnostic(clang_getDiagnostic(unit.get(), i));
+        if (clang_getDiagnosticSeverity(diagnostic.get()) < CXDiagnostic_Error) {
+            continue;
+        }
+        if (++errors > k_max_error_warnings) {
+            continue;
+        }
+        CXFile where = nullptr;
+        unsigned line = 0;
+        clang_getExpansionLocation(clang_getDiagnosticLocation(diagnostic.get()), &where, &line,
+                                   nullptr, nullptr);
+        std::string message =
+            strip_virtual_root(take_string(clang_getDiagnosticSpelling(diagnostic.get())));
+        if (where != main_file) {
+            const std::string header = strip_virtual_root(take_string(clang_getFileName(where)));
+            message = "in \"" + header + "\": " + message;
+            line = 0;
+        }
+        result.warnings.push_back({file.path, line, message});
+    }
+    if (errors > k_max_error_warnings) {
+        result.warnings.push_back(
+            {file.path, 0, std::to_string(errors - k_max_error_warnings) + " more errors"});
+    }
+
+    const ParsedFile parsed = tokenize_file(unit.get(), main_file, file.content);
+    const std::vector<SourceToken>& tokens = parsed.tokens;
+
+    Collector collector;
+    collector.main_file = main_file;
+    clang_visitChildren(clang_getTranslationUnitCursor(unit.get()), collect_functions, &collector);
+
+    struct Pending {
+        FunctionSpan span;
+        ClassifyRange range;
+        bool lexical = false;
+        std::size_t first = 0;
+    };
+    std::vector<Pending> pending;
+    std::vector<std::pair<std::size_t, std::size_t>> taken; // token ranges of parsed functions
+    for (const CXCursor& cursor : collector.functions) {
+        auto found = locate(cursor, main_file, tokens);
+        if (!found) {
+            continue;
+        }
+        const bool duplicate = std::any_of(taken.begin(), taken.end(), [&](const auto& range) {
+            return range.first == found->first && range.second == found->last;
+        });
+        if (duplicate) {
+            continue;
+        }
+        taken.emplace_back(found->first, found->last);
+        Pending item;
+        item.first = found->first;
+        item.span.usr = take_string(clang_getCursorUSR(cursor));
+        item.span.qualified_name = qualified_name(cursor);
+        const std::vector<std::string> types = parameter_types(cursor);
+        for (std::size_t i = 0; i < types.size(); ++i) {
+            item.span.signature += (i == 0 ? "" : ", ") + strip_virtual_root(types[i]);
+        }
+        item.span.potential_operands = types.size() + (has_result(cursor) ? 1 : 0);
+        item.span.start_line = tokens[found->first].line;
+        item.span.end_line = tokens[found->last].line;
+        item.span.mode = ExtentMode::syntax_tree;
+        item.range = {found->first, found->last, found->name};
+        pending.push_back(std::move(item));
+    }
+
+    // The lexical cross-check: definitions libclang did not report are measured lexically.
+    std::vector<std::pair<unsigned, unsigned>> skipped;
+    if (main_file != nullptr) {
+        SourceRangeListHandle ranges(clang_getSkippedRanges(unit.get(), main_file));
+        for (unsigned i = 0; ranges && i < ranges->count; ++i) {
+            unsigned from = 0;
+            unsigned to = 0;
+            clang_getSpellingLocation(clang_getRangeStart(ranges->ranges[i]), nullptr, nullptr,
+                                      nullptr, &from);
+            clang_getSpellingLocation(clang_getRangeEnd(ranges->ranges[i]), nullptr, nullptr,
+                                      nullptr, &to);
+            skipped.emplace_back(from, to);
+        }
+    }
+    for (const LexicalDefinition& definition : scan_definitions(tokens, parsed.directives)) {
+        const bool known = std::any_of(taken.begin(), taken.end(), [&](const auto& range) {
+            return range.second == definition.body_close ||
+                   (definition.first <= range.second && range.first <= definition.body_close);
+        });
+        if (known || inside_skipped(skipped, tokens[definition.first].offset,
+                                    tokens[definition.body_close].offset)) {
+            continue;
+        }
+        Pending item;
+        item.lexical = true;
+        item.first = definition.first;
+        item.span.qualified_name = definition.qualified_name;
+        item.span.signature = definition.signature;
+        item.span.potential_operands = definition.potential_operands;
+        item.span.start_line = tokens[definition.first].line;
+        item.span.end_line = tokens[definition.body_close].line;
+        item.span.mode = ExtentMode::lexical;
+        item.range = {definition.first, definition.body_close, definition.name};
+        ++result.lexically_recovered;
+        result.warnings.push_back(
+            {file.path, item.span.start_line,
+             "function \"" + definition.qualified_name +
+                 "\" measured lexically: the parser did not report it (check the macros and "
+                 "#if branches around it)"});
+        pending.push_back(std::move(item));
+    }
+
+    // Fallback keys number same-named functions in source order.
+    std::sort(pending.begin(), pending.end(),
+              [](const Pending& a, const Pending& b) { return a.first < b.first; });
+    std::map<std::string, unsigned> ordinals;
+    for (Pending& item : pending) {
+        FunctionSpan& span = item.span;
+        span.path = file.path;
+        const std::string base = span.qualified_name + "(" + span.signature + ")";
+        span.fallback_key = base + "#" + std::to_string(ordinals[base]++);
+        ClassifyRange range = item.range;
+        if (context.convention.body_only) {
+            range.begin = body_open(tokens, range.begin, range.end);
+        }
+        span.tokens = classify_tokens(tokens, item.lexical ? nullptr : &parsed.cursors, range,
+                                      context.convention);
+        span.token_hash = hash_tokens(span.tokens);
+        result.functions.push_back(std::move(span));
+    }
+    std::stable_sort(result.functions.begin(), result.functions.end(),
+                     [](const FunctionSpan& a, const FunctionSpan& b) {
+                         return a.start_line != b.start_line ? a.start_line < b.start_line
+                                                             : a.fallback_key < b.fallback_key;
+                     });
+    return result;
+}
+
+} // namespace tollgate::lexer

@@ -14,7 +14,11 @@
 
 namespace tollgate::lexer {
 
+// The language a file is parsed as.
 enum class Language { c, cxx };
+
+// The folder under which the revision's files are given to libclang (they exist only in memory).
+inline constexpr const char* k_virtual_root = "/tollgate-src/";
 
 // Return the language of `path` by extension (.c is C; .cc .cpp .cxx .c++ and headers are C++),
 // or nothing when the extension is not C/C++. `force` overrides the extension when given.
@@ -23,11 +27,13 @@ std::optional<Language> language_for_path(const std::string& path,
 
 // Everything one revision's files share when they are parsed: built once per revision.
 struct ParseContext {
-    std::vector<SourceFile> headers;        // every header of the revision, repository-relative
-    std::vector<std::string> include_dirs;  // repository-relative include folders to search
-    std::map<std::string, std::vector<std::string>> file_flags; // per repository-relative path:
-                                            // extra flags (-D, -I made repository-relative,
-                                            // -std) taken from compile_commands.json
+    std::vector<SourceFile> headers;       // every header of the revision, repository-relative
+    std::vector<std::string> include_dirs; // repository-relative include folders to search
+    std::map<std::string, std::vector<std::string>>
+        file_flags;                         // per repository-relative path:
+                                            // extra flags (-D, -U, -std, -I, -isystem, -iquote,
+                                            // -include; paths inside the repository moved under
+                                            // k_virtual_root) from compile_commands.json
     std::optional<Language> force_language; // override the extension rule
     core::Convention convention;            // counting convention switches
     std::string cache_dir;                  // where precompiled standard headers are kept;
@@ -35,9 +41,10 @@ struct ParseContext {
 };
 
 // Build the shared parse context of one revision: keep the headers of `files`, and derive include
-// folders (the repository root and every folder named include/). `compile_commands_json`, when
-// non-empty, is the text of a compile_commands.json whose directory is `build_root`
-// (an absolute path in the user's checkout) used to map its flags to repository paths.
+// folders (the repository root "" and every folder named include/). `compile_commands_json`, when
+// non-empty, is the text of a compile_commands.json; its file paths and path flags are made
+// relative to `repository_root` (an absolute path in the user's checkout); entries outside it are
+// left out. Throws UsageError when `compile_commands_json` is not a JSON list.
 ParseContext make_parse_context(const std::vector<SourceFile>& files,
                                 const std::string& compile_commands_json = {},
                                 const std::string& repository_root = {});

@@ -32,8 +32,9 @@ struct TreeFile {
 // An open git repository (work tree or bare). Move-only; owns the git_repository.
 class Repository {
 public:
-    // Open the repository containing `path` (searching parent folders). Throws UsageError
-    // "not a git repository: PATH (...)" when there is none.
+    // Open the repository containing `path` (searching parent folders; bare repositories too).
+    // Throws UsageError `not a git repository: "PATH" (...)` when there is none, and Failure when
+    // libgit2 cannot read the one it found.
     static Repository open(const std::string& path);
 
     Repository(Repository&&) noexcept;
@@ -45,30 +46,37 @@ public:
     // Return true for a bare repository.
     bool is_bare() const;
 
-    // Resolve `revision` (any git revision syntax) to a commit id. Throws UsageError naming the
-    // revision, with "did you mean" among branch and tag names, when it does not resolve.
-    ObjectId resolve_commit(const std::string& revision) const;
+    // Resolve `revision` (any git revision syntax: HEAD~2, a tag, a short id, main@{1}) to a
+    // commit id, peeling tags. Throws UsageError `cannot resolve ROLE "REVISION": CAUSE` (with
+    // "did you mean" among reference names) when it does not resolve to a commit; `role` (e.g.
+    // "base") is left out of the message when empty.
+    ObjectId resolve_commit(const std::string& revision, const std::string& role = {}) const;
 
-    // Return the C/C++ files (by is_c_family_path) of `commit`'s tree, sorted by path.
+    // Return the C/C++ files (by is_c_family_path) of `commit`'s tree, sorted by path; symlinks
+    // and submodules are left out. Throws Failure when the commit is missing.
     std::vector<TreeFile> list_c_family_files(const ObjectId& commit) const;
 
     // Return the bytes of blob `blob`. Throws Failure when it is missing.
     std::string read_blob(const ObjectId& blob) const;
 
-    // Return the file at `path` in `commit`, or nothing when the tree has no such file.
+    // Return the file at `path` in `commit`, or nothing when the tree has no such regular file
+    // (absent, a folder, a symlink or a submodule). Throws Failure when the commit is missing.
     std::optional<SourceFile> read_file(const ObjectId& commit, const std::string& path) const;
 
-    // Return every C/C++ file of `commit` with its content, sorted by path.
+    // Return every C/C++ file of `commit` with its content, sorted by path. Throws Failure when
+    // the commit or a blob is missing.
     std::vector<SourceFile> read_c_family_files(const ObjectId& commit) const;
 
     // Return every C/C++ file of the working tree (tracked or untracked, not ignored), with its
-    // content read from disk, sorted by path. Throws UsageError for a bare repository.
+    // content read from disk, sorted by path; files deleted from disk, symlinks and submodules are
+    // left out. Throws UsageError for a bare repository, Failure when a file cannot be read.
     std::vector<SourceFile> read_worktree_c_family_files() const;
 
-    // Return the short names of local branches, remote branches and tags, sorted.
+    // Return the short names of local branches, remote branches and tags, sorted; empty for a
+    // repository without references.
     std::vector<std::string> reference_names() const;
 
-    // The libgit2 handle, for other walker code (git_repository*).
+    // Return the libgit2 handle (a git_repository*), for other walker code only; never null.
     void* raw() const;
 
 private:

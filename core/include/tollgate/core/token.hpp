@@ -15,6 +15,8 @@ enum class Basis {
     spelling,       // the spelling alone decides (most tokens)
     syntax_tree,    // libclang's annotated cursor decided the form
     previous_token, // the annotation was only a container; the previous token decided
+    next_token,     // the annotation was only a container; the next token decided (a name
+                    // followed by `(` is called, one followed by `::` or a name is a type)
     lexical,        // the function was measured from lexical extents; previous token decided
 };
 
@@ -24,10 +26,10 @@ struct Token {
                           // distinct operator or operand
     std::string spelling; // the source spelling, e.g. "-", "(" or "count"
     Role role = Role::operator_token; // operator or operand
-    std::string form;     // human description of the form counted, empty when unambiguous,
-                          // e.g. "unary minus", "pointer declarator", "call"
+    std::string form;              // human description of the form counted, empty when unambiguous,
+                                   // e.g. "unary minus", "pointer declarator", "call"
     Basis basis = Basis::spelling; // what decided the form
-    unsigned line = 0;    // 1-based source line of the token
+    unsigned line = 0;             // 1-based source line of the token
 
     bool operator==(const Token& other) const {
         return key == other.key && spelling == other.spelling && role == other.role &&
@@ -37,7 +39,8 @@ struct Token {
 
 using TokenList = std::vector<Token>;
 
-// Return a readable name for `basis` ("spelling", "syntax tree", "previous token", "lexical").
+// Return a readable name for `basis` ("spelling", "syntax tree", "previous token", "next token",
+// "lexical").
 const char* to_string(Basis basis);
 
 } // namespace tollgate::core

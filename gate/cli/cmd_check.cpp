@@ -1,0 +1,140 @@
+// SPDX-License-Identifier: MIT
+// `tollgate check`: the gate. Measure the functions a change touched, before and after.
+#include "gate/cli/commands.hpp"
+#include "gate/cli/report_targets.hpp"
+#include "gate/cli/sources.hpp"
+#include "gate/common/errors.hpp"
+#include "gate/delta/measure_change.hpp"
+#include "gate/walker/change_set.hpp"
+#include "gate/walker/repository.hpp"
+#include "gate/walker/revision_range.hpp"
+
+#include <spdlog/spdlog.h>
+
+#include <filesystem>
+#include <fstream>
+#include <memory>
+#include <sstream>
+
+namespace tollgate {
+
+namespace {
+
+struct CheckOptions {
+    walker::RevisionRange range;        // --base, --head, --worktree, --default-branch
+    std::vector<std::string> reports;   // --report FORMAT:PATH
+    bool no_colour = false;             // --no-color
+    std::string link_template;          // --link-template
+    std::size_t markdown_rows = 10;     // --markdown-rows
+    unsigned jobs = 0;                  // --jobs
+    std::string compile_commands;       // --compile-commands
+    std::string cache_dir;              // --cache-dir
+    bool no_cache = false;              // --no-pch-cache
+    double stroud = 18.0;               // --stroud
+    std::size_t rename_limit = 400;     // --rename-limit
+};
+
+std::string read_compile_commands(const std::string& given, const std::string& workdir) {
+    namespace fs = std::filesystem;
+    std::string path = given;
+    if (path.empty() && !workdir.empty()) {
+        for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
+            if (fs::exists(fs::path(workdir) / candidate)) {
+                path = (fs::path(workdir) / candidate).string();
+                break;
+            }
+        }
+    }
+    if (path.empty()) {
+        return {};
+    }
+    std::ifstream in(path, std::ios::binary);
+    if (!in) {
+        throw UsageError("cannot read compile database \"" + path + "\"");
+    }
+    std::ostringstream text;
+    text << in.rdbuf();
+    return text.str();
+}
+
+int run_check(const CheckOptions& options) {
+    const auto targets = parse_report_targets(options.reports);
+    const auto repository = walker::Repository::open(std::filesystem::current_path().string());
+
+    walker::ChangeOptions change_options;
+    change_options.rename_limit = options.rename_limit;
+    delta::MeasureChangeSettings settings;
+    settings.measures.stroud = options.stroud;
+    settings.jobs = options.jobs;
+    settings.compile_commands_json =
+        read_compile_commands(options.compile_commands, repository.workdir());
+    settings.compile_commands_root = repository.workdir();
+    settings.cache_dir = options.no_cache ? std::string()
+                                          : (options.cache_dir.empty() ? default_cache_dir()
+                                                                       : options.cache_dir);
+
+    const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
+    const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
+    const delta::ChangeReport report = delta::measure_change(repository, changes, settings);
+
+    report::RenderOptions render;
+    render.link_template = options.link_template;
+    render.markdown_rows = options.markdown_rows;
+    write_reports(report, targets, render, options.no_colour);
+    return 0;
+}
+
+} // namespace
+
+void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<int()>& selected) {
+    auto options = std::make_shared<CheckOptions>();
+    sub.description(
+        "Gate a change: find the C/C++ functions touched between a base and a head commit, "
+        "measure each on both sides, and report the deltas (largest growth first).");
+    sub.add_option("--base", options->range.base,
+                   "Base revision (default: the merge base of head and the default branch)");
+    sub.add_option("--head", options->range.head, "Head revision")->capture_default_str();
+    sub.add_flag("--worktree", options->range.worktree,
+                 "Compare the working tree (staged, unstaged and untracked files) with HEAD, or "
+                 "with --base");
+    sub.add_option("--default-branch", options->range.default_branch,
+                   "Branch whose merge base with head is the default base (default: the remote's "
+                   "HEAD, else main, else master)");
+    sub.add_option("--report", options->reports,
+                   "FORMAT:PATH, repeatable; FORMAT is text, markdown or json; PATH \"-\" is "
+                   "stdout (default: the terminal table on stdout)");
+    sub.add_flag("--no-color", options->no_colour,
+                 "Never colour the terminal table (colour is used on a terminal unless NO_COLOR "
+                 "is set)");
+    sub.add_option("--link-template", options->link_template,
+                   "Link file:line cells of the Markdown table, e.g. "
+                   "\"https://git.example/team/repo/blob/{commit}/{path}#L{line}\"");
+    sub.add_option("--markdown-rows", options->markdown_rows,
+                   "Rows of the Markdown table shown before the rest is folded")
+        ->capture_default_str();
+    sub.add_option("-j,--jobs", options->jobs, "Parser threads (0 = all cores)")
+        ->capture_default_str();
+    sub.add_option("--compile-commands", options->compile_commands,
+                   "compile_commands.json to take -D/-I/-std flags from (default: the "
+                   "repository's own, at its root or in build/)");
+    sub.add_option("--cache-dir", options->cache_dir,
+                   "Folder for the precompiled standard-library headers");
+    sub.add_flag("--no-pch-cache", options->no_cache,
+                 "Parse without the precompiled standard-library headers");
+    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
+        ->check(CLI::Range(1.0, 100.0))
+        ->capture_default_str();
+    sub.add_option("--rename-limit", options->rename_limit,
+                   "Candidates compared per added file when looking for renames")
+        ->capture_default_str();
+    sub.footer("Examples:\n"
+               "  tollgate check                                  this branch against its merge "
+               "base with main\n"
+               "  tollgate check --base origin/main --head HEAD --report markdown:delta.md\n"
+               "  tollgate check --worktree                       uncommitted edits against "
+               "HEAD\n"
+               "  tollgate check --base v1.4 --report json:check.json --report text:-");
+    sub.callback([options, &selected] { selected = [options] { return run_check(*options); }; });
+}
+
+} // namespace tollgate

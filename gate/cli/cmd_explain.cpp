@@ -1,0 +1,160 @@
+// SPDX-License-Identifier: MIT
+// `tollgate explain`: the operator and operand tables behind one function's measures.
+#include "gate/cli/commands.hpp"
+#include "gate/cli/measure_span.hpp"
+#include "gate/cli/options.hpp"
+#include "gate/cli/sources.hpp"
+#include "gate/common/errors.hpp"
+#include "gate/lexer/lex_files.hpp"
+#include "tollgate/core/convention.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <iostream>
+#include <memory>
+
+namespace tollgate {
+
+namespace {
+
+struct ExplainOptions {
+    std::string target;          // PATH:FUNCTION or PATH:LINE
+    SourceOptions sources;       // --rev and parsing options
+    std::string format = "text"; // text or json
+    double stroud = 18.0;        // Stroud number
+};
+
+// Return true when `name` is `wanted` or ends with "::" + `wanted`.
+bool name_matches(const std::string& name, const std::string& wanted) {
+    if (name == wanted) {
+        return true;
+    }
+    const std::string suffix = "::" + wanted;
+    return name.size() > suffix.size() &&
+           name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0;
+}
+
+bool all_digits(const std::string& text) {
+    return !text.empty() &&
+           std::all_of(text.begin(), text.end(), [](unsigned char c) { return std::isdigit(c); });
+}
+
+// Pick the function `wanted` (a name or a line number) names among `spans`.
+const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>& spans,
+                                         const std::string& path, const std::string& wanted) {
+    std::vector<const lexer::FunctionSpan*> matches;
+    if (all_digits(wanted)) {
+        const unsigned line = static_cast<unsigned>(std::stoul(wanted));
+        for (const auto& span : spans) {
+            if (span.start_line <= line && line <= span.end_line) {
+                matches.push_back(&span);
+            }
+        }
+    } else {
+        std::string name = wanted;
+        const auto paren = name.find('(');
+        std::string signature;
+        if (paren != std::string::npos && name.back() == ')') {
+            signature = name.substr(paren + 1, name.size() - paren - 2);
+            name = name.substr(0, paren);
+        }
+        for (const auto& span : spans) {
+            if (name_matches(span.qualified_name, name) &&
+                (paren == std::string::npos || span.signature == signature)) {
+                matches.push_back(&span);
+            }
+        }
+    }
+    if (matches.size() == 1) {
+        return *matches.front();
+    }
+    if (matches.empty()) {
+        std::vector<std::string> names;
+        for (const auto& span : spans) {
+            names.push_back(span.qualified_name);
+            const auto colon = span.qualified_name.rfind("::");
+            if (colon != std::string::npos) {
+                names.push_back(span.qualified_name.substr(colon + 2));
+            }
+        }
+        const std::string suggestion = closest_match(wanted, names);
+        throw UsageError(fmt::format("no function \"{}\" in \"{}\"{}", wanted, path,
+                                     suggestion.empty()
+                                         ? " (run \"tollgate measure " + path +
+                                               "\" to list its functions)"
+                                         : " (did you mean \"" + suggestion + "\"?)"));
+    }
+    std::string candidates;
+    for (const auto* span : matches) {
+        candidates += fmt::format("\n  {}:{}  {}({})", path, span->start_line,
+                                  span->qualified_name, span->signature);
+    }
+    throw UsageError(fmt::format("\"{}\" matches {} functions in \"{}\" (name one as "
+                                 "PATH:LINE or PATH:NAME(SIGNATURE)):{}",
+                                 wanted, matches.size(), path, candidates));
+}
+
+int run_explain(const ExplainOptions& options) {
+    const auto colon = options.target.rfind(':');
+    if (colon == std::string::npos || colon == 0 || colon + 1 == options.target.size()) {
+        throw UsageError("expected PATH:FUNCTION, got \"" + options.target +
+                         "\" (for example \"src/filter.cpp:Kalman::update\")");
+    }
+    // A qualified name holds "::"; split at the first single colon after the path instead.
+    std::size_t split = options.target.find(':');
+    while (split != std::string::npos && split + 1 < options.target.size() &&
+           options.target[split + 1] == ':') {
+        split = options.target.find(':', split + 2);
+    }
+    const std::string path = options.target.substr(0, split);
+    const std::string wanted = options.target.substr(split + 1);
+
+    ExplainOptions adjusted = options;
+    adjusted.sources.paths = {path};
+    const LoadedSources loaded = load_sources(to_request(adjusted.sources));
+    if (loaded.selected.size() != 1) {
+        throw UsageError("\"" + path + "\" names " + std::to_string(loaded.selected.size()) +
+                         " files (explain takes one file)");
+    }
+    const auto files = lexer::lex_files(loaded.selected, loaded.context, 1);
+    const auto& span = pick_function(files.front().functions, path, wanted);
+    core::MeasureSettings settings;
+    settings.stroud = options.stroud;
+    const auto measured = measure_span(span, settings);
+    const std::string convention = core::fingerprint(loaded.context.convention);
+    if (options.format == "json") {
+        report::write_explain_json(std::cout, measured, loaded.label, convention);
+    } else {
+        report::write_explain_text(std::cout, measured, loaded.label, convention,
+                                   options.stroud);
+    }
+    return 0;
+}
+
+} // namespace
+
+void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
+                    std::function<int()>& selected) {
+    auto options = std::make_shared<ExplainOptions>();
+    sub.description("Show one function's operators and operands (each distinct token, how often "
+                    "it occurs, and which form an ambiguous punctuator was counted as) and every "
+                    "measure computed from them.");
+    sub.add_option("target", options->target,
+                   "PATH:FUNCTION (a name, a qualified name, NAME(SIGNATURE)) or PATH:LINE")
+        ->required();
+    add_source_options(sub, options->sources, "");
+    sub.add_option("--format", options->format, "Output format")
+        ->check(CLI::IsMember({"text", "json"}))
+        ->capture_default_str();
+    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
+        ->check(CLI::Range(1.0, 100.0))
+        ->capture_default_str();
+    sub.footer("Examples:\n"
+               "  tollgate explain src/filter.cpp:Kalman::update\n"
+               "  tollgate explain src/crc.c:crc16 --rev HEAD~1\n"
+               "  tollgate explain src/ring.cpp:42           the function holding line 42");
+    sub.callback([options, &selected] { selected = [options] { return run_explain(*options); }; });
+}
+
+} // namespace tollgate

@@ -1,0 +1,42 @@
+// SPDX-License-Identifier: MIT
+// Shared command-line options.
+#include "gate/cli/options.hpp"
+
+namespace tollgate {
+
+void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help) {
+    sub.add_option("--rev", options.revision,
+                   "Read sources at this git revision from the object database (default: the "
+                   "working tree)");
+    if (!paths_help.empty()) {
+        sub.add_option("paths", options.paths, paths_help);
+    }
+    sub.add_option("--compile-commands", options.compile_commands,
+                   "compile_commands.json to take -D/-I/-std flags from (default: the "
+                   "repository's own, if any, at its root or in build/)");
+    sub.add_option("--cache-dir", options.cache_dir,
+                   "Folder for the precompiled standard-library headers (default: "
+                   "$XDG_CACHE_HOME/tollgate or ~/.cache/tollgate)");
+    sub.add_flag("--no-pch-cache", options.no_cache,
+                 "Parse without the precompiled standard-library headers");
+    sub.add_option("--lang", options.language,
+                   "Parse every file as this language instead of by extension")
+        ->check(CLI::IsMember({"c", "c++"}));
+}
+
+SourceRequest to_request(const SourceOptions& options) {
+    SourceRequest request;
+    request.revision = options.revision;
+    request.paths = options.paths;
+    request.compile_commands = options.compile_commands;
+    request.cache_dir = options.cache_dir;
+    request.no_cache = options.no_cache;
+    if (options.language == "c") {
+        request.force_language = lexer::Language::c;
+    } else if (options.language == "c++") {
+        request.force_language = lexer::Language::cxx;
+    }
+    return request;
+}
+
+} // namespace tollgate

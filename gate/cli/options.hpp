@@ -1,0 +1,30 @@
+// SPDX-License-Identifier: MIT
+// Command-line options that several commands share.
+#pragma once
+
+#include "gate/cli/sources.hpp"
+
+#include <CLI/CLI.hpp>
+
+#include <string>
+#include <vector>
+
+namespace tollgate {
+
+// The options that pick sources (`--rev`, paths, `--compile-commands`, cache, `--lang`).
+struct SourceOptions {
+    std::string revision;               // --rev
+    std::vector<std::string> paths;     // positional
+    std::string compile_commands;       // --compile-commands
+    std::string cache_dir;              // --cache-dir
+    bool no_cache = false;              // --no-pch-cache
+    std::string language;               // --lang c|c++ (empty: by extension)
+};
+
+// Add the source options to `sub`; `paths_help` describes the positional paths.
+void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help);
+
+// Turn parsed source options into a request for load_sources.
+SourceRequest to_request(const SourceOptions& options);
+
+} // namespace tollgate

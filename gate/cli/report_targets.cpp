@@ -1,0 +1,126 @@
+// SPDX-License-Identifier: MIT
+// Report targets and writing reports to them.
+#include "gate/cli/report_targets.hpp"
+
+#include "gate/common/errors.hpp"
+
+#include <cstdio>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <iostream>
+#include <sstream>
+#include <unistd.h>
+
+namespace tollgate {
+
+namespace {
+
+const std::vector<std::pair<std::string, ReportFormat>>& format_names() {
+    static const std::vector<std::pair<std::string, ReportFormat>> names = {
+        {"text", ReportFormat::text},
+        {"markdown", ReportFormat::markdown},
+        {"json", ReportFormat::json},
+    };
+    return names;
+}
+
+void render(std::ostream& out, ReportFormat format, const delta::ChangeReport& report,
+            const report::RenderOptions& options) {
+    switch (format) {
+    case ReportFormat::text:
+        report::write_change_text(out, report, options);
+        break;
+    case ReportFormat::markdown:
+        report::write_change_markdown(out, report, options);
+        break;
+    case ReportFormat::json:
+        report::write_change_json(out, report);
+        break;
+    }
+}
+
+void write_file_atomically(const std::string& path, const std::string& content) {
+    namespace fs = std::filesystem;
+    const fs::path target(path);
+    if (target.has_parent_path()) {
+        std::error_code ec;
+        fs::create_directories(target.parent_path(), ec);
+    }
+    const std::string temporary = path + ".tmp-" + std::to_string(::getpid());
+    {
+        std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
+        out << content;
+        out.flush();
+        if (!out) {
+            throw Failure("cannot write report \"" + path + "\"");
+        }
+    }
+    std::error_code ec;
+    fs::rename(temporary, target, ec);
+    if (ec) {
+        fs::remove(temporary, ec);
+        throw Failure("cannot write report \"" + path + "\": " + ec.message());
+    }
+}
+
+} // namespace
+
+std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& specs) {
+    std::vector<ReportTarget> targets;
+    for (const auto& spec : specs) {
+        const auto colon = spec.find(':');
+        const std::string name = spec.substr(0, colon);
+        const std::string path = colon == std::string::npos ? std::string() : spec.substr(colon + 1);
+        std::vector<std::string> known;
+        const ReportFormat* format = nullptr;
+        for (const auto& [candidate, value] : format_names()) {
+            known.push_back(candidate);
+            if (candidate == name) {
+                format = &value;
+            }
+        }
+        if (format == nullptr) {
+            const std::string suggestion = closest_match(name, known);
+            throw UsageError("unknown report format \"" + name + "\" in \"" + spec + "\"" +
+                             (suggestion.empty() ? " (expected text, markdown or json)"
+                                                 : " (did you mean \"" + suggestion + "\"?)"));
+        }
+        if (path.empty()) {
+            throw UsageError("report \"" + spec + "\" has no path (write FORMAT:PATH, or " +
+                             name + ":- for stdout)");
+        }
+        targets.push_back({*format, path});
+    }
+    return targets;
+}
+
+void write_reports(const delta::ChangeReport& report, const std::vector<ReportTarget>& targets,
+                   report::RenderOptions options, bool no_colour) {
+    const char* no_color_env = std::getenv("NO_COLOR");
+    const bool colour_stdout = !no_colour && (no_color_env == nullptr || *no_color_env == '\0') &&
+                               ::isatty(STDOUT_FILENO) == 1;
+    bool stdout_used = false;
+    for (const auto& target : targets) {
+        if (target.path == "-") {
+            stdout_used = true;
+            report::RenderOptions stdout_options = options;
+            stdout_options.colour = colour_stdout && target.format == ReportFormat::text
+                                        ? report::Colour::on
+                                        : report::Colour::off;
+            render(std::cout, target.format, report, stdout_options);
+        } else {
+            std::ostringstream buffer;
+            options.colour = report::Colour::off;
+            render(buffer, target.format, report, options);
+            write_file_atomically(target.path, buffer.str());
+        }
+    }
+    if (!stdout_used) {
+        options.colour = colour_stdout ? report::Colour::on : report::Colour::off;
+        report::write_change_text(std::cout, report, options);
+    }
+    std::cout.flush();
+}
+
+} // namespace tollgate

@@ -1,0 +1,191 @@
+// SPDX-License-Identifier: MIT
+// Reading the files a command measures, from git or from disk.
+#include "gate/cli/sources.hpp"
+
+#include "gate/common/errors.hpp"
+#include "gate/walker/repository.hpp"
+
+#include <spdlog/spdlog.h>
+
+#include <algorithm>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+
+namespace fs = std::filesystem;
+
+namespace tollgate {
+
+namespace {
+
+std::string read_disk_file(const fs::path& path) {
+    std::ifstream in(path, std::ios::binary);
+    if (!in) {
+        throw UsageError("cannot read \"" + path.string() + "\"");
+    }
+    std::ostringstream buffer;
+    buffer << in.rdbuf();
+    return buffer.str();
+}
+
+// Return `path` relative to `root` with '/' separators, or nothing when it lies outside.
+std::optional<std::string> relative_inside(const fs::path& path, const fs::path& root) {
+    const fs::path absolute = fs::weakly_canonical(fs::absolute(path));
+    const fs::path base = fs::weakly_canonical(root);
+    const fs::path relative = absolute.lexically_relative(base);
+    if (relative.empty() || *relative.begin() == "..") {
+        return std::nullopt;
+    }
+    std::string text = relative.generic_string();
+    return text == "." ? std::string() : text;
+}
+
+// Every C/C++ file under `root` (skipping hidden folders and build folders), from disk.
+std::vector<SourceFile> read_disk_tree(const fs::path& root) {
+    std::vector<SourceFile> files;
+    std::error_code ec;
+    fs::recursive_directory_iterator it(root, fs::directory_options::skip_permission_denied, ec);
+    for (; !ec && it != fs::recursive_directory_iterator(); it.increment(ec)) {
+        const fs::path& p = it->path();
+        const std::string name = p.filename().string();
+        if (it->is_directory() && (name.rfind('.', 0) == 0 || name.rfind("build", 0) == 0)) {
+            it.disable_recursion_pending();
+            continue;
+        }
+        if (it->is_regular_file() && is_c_family_path(name)) {
+            files.push_back({p.lexically_relative(root).generic_string(), read_disk_file(p)});
+        }
+    }
+    std::sort(files.begin(), files.end(),
+              [](const SourceFile& a, const SourceFile& b) { return a.path < b.path; });
+    return files;
+}
+
+// Keep the files of `all` that `paths` select (a file, or every file under a folder).
+std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
+                                     const std::vector<std::string>& relative_paths,
+                                     const std::vector<std::string>& as_given) {
+    if (relative_paths.empty()) {
+        return all;
+    }
+    std::vector<SourceFile> selected;
+    for (std::size_t i = 0; i < relative_paths.size(); ++i) {
+        const std::string& wanted = relative_paths[i];
+        bool found = false;
+        for (const auto& file : all) {
+            const bool same = file.path == wanted;
+            const bool under = wanted.empty() || (file.path.size() > wanted.size() &&
+                                                  file.path.compare(0, wanted.size(), wanted) == 0 &&
+                                                  file.path[wanted.size()] == '/');
+            if (same || under) {
+                found = true;
+                selected.push_back(file);
+            }
+        }
+        if (!found) {
+            throw UsageError("no C/C++ file at \"" + as_given[i] +
+                             "\" (give a .c, .cc, .cpp, .cxx, .c++ or header file, or a folder)");
+        }
+    }
+    std::sort(selected.begin(), selected.end(),
+              [](const SourceFile& a, const SourceFile& b) { return a.path < b.path; });
+    selected.erase(std::unique(selected.begin(), selected.end(),
+                               [](const SourceFile& a, const SourceFile& b) {
+                                   return a.path == b.path;
+                               }),
+                   selected.end());
+    return selected;
+}
+
+std::string find_compile_commands(const std::string& given, const fs::path& root) {
+    if (!given.empty()) {
+        if (!fs::exists(given)) {
+            throw UsageError("compile database \"" + given + "\" does not exist");
+        }
+        return read_disk_file(given);
+    }
+    for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
+        const fs::path path = root / candidate;
+        if (!root.empty() && fs::exists(path)) {
+            spdlog::debug("using compile database {}", path.string());
+            return read_disk_file(path);
+        }
+    }
+    return {};
+}
+
+} // namespace
+
+std::string default_cache_dir() {
+    if (const char* dir = std::getenv("TOLLGATE_CACHE_DIR"); dir != nullptr && *dir != '\0') {
+        return dir;
+    }
+    if (const char* xdg = std::getenv("XDG_CACHE_HOME"); xdg != nullptr && *xdg != '\0') {
+        return std::string(xdg) + "/tollgate";
+    }
+    if (const char* home = std::getenv("HOME"); home != nullptr && *home != '\0') {
+        return std::string(home) + "/.cache/tollgate";
+    }
+    return {};
+}
+
+LoadedSources load_sources(const SourceRequest& request) {
+    LoadedSources loaded;
+    std::vector<SourceFile> all;
+    fs::path root;
+
+    std::optional<walker::Repository> repository;
+    try {
+        repository.emplace(walker::Repository::open(fs::current_path().string()));
+    } catch (const UsageError&) {
+        if (!request.revision.empty()) {
+            throw;
+        }
+    }
+
+    if (repository) {
+        root = repository->is_bare() ? fs::current_path() : fs::path(repository->workdir());
+        if (!request.revision.empty()) {
+            const walker::ObjectId commit = repository->resolve_commit(request.revision);
+            all = repository->read_c_family_files(commit);
+            loaded.label = "revision " + commit.short_hex() + " (" + request.revision + ")";
+        } else {
+            all = repository->read_worktree_c_family_files();
+            loaded.label = "working tree";
+        }
+    } else {
+        root = fs::current_path();
+        all = read_disk_tree(root);
+        loaded.label = "folder " + root.string();
+    }
+    loaded.root = root.string();
+
+    std::vector<std::string> relative;
+    for (const auto& path : request.paths) {
+        const auto inside = relative_inside(path, root);
+        if (!inside) {
+            throw UsageError("\"" + path + "\" lies outside " + loaded.label + " at \"" +
+                             root.string() + "\" (run tollgate from inside the code base)");
+        }
+        std::string rel = *inside;
+        while (!rel.empty() && rel.back() == '/') {
+            rel.pop_back();
+        }
+        relative.push_back(rel);
+    }
+    loaded.selected = select_files(all, relative, request.paths);
+
+    const std::string compile_db = find_compile_commands(request.compile_commands, root);
+    loaded.context = lexer::make_parse_context(all, compile_db, root.string());
+    loaded.context.force_language = request.force_language;
+    loaded.context.cache_dir = request.no_cache
+                                   ? std::string()
+                                   : (request.cache_dir.empty() ? default_cache_dir()
+                                                                : request.cache_dir);
+    spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),
+                  loaded.selected.size(), loaded.context.headers.size());
+    return loaded;
+}
+
+} // namespace tollgate

@@ -1,0 +1,118 @@
+// SPDX-License-Identifier: MIT
+// One change, measured: read sides, lex in parallel, compare, total.
+#include "gate/delta/measure_change.hpp"
+
+#include "gate/delta/compare.hpp"
+#include "gate/lexer/lex_files.hpp"
+#include "gate/lexer/lexer.hpp"
+
+#include <spdlog/spdlog.h>
+
+#include <fmt/format.h>
+
+namespace tollgate::delta {
+
+namespace {
+
+std::string label_for(const std::string& name, const walker::ObjectId& id) {
+    if (id.hex.empty()) {
+        return name;
+    }
+    return name == id.hex || name.empty() ? id.short_hex()
+                                          : fmt::format("{} ({})", name, id.short_hex());
+}
+
+// Every file a side needs: the changed files' content and the side's headers.
+struct SideSources {
+    std::vector<SourceFile> tree;               // every C/C++ file of the side
+    lexer::ParseContext context;                // built from `tree`
+    std::vector<std::optional<SourceFile>> changed; // per changed file, its content on this side
+};
+
+SideSources read_side_sources(const walker::Repository& repository,
+                              const walker::ChangeSet& changes, Side side,
+                              const MeasureChangeSettings& settings) {
+    SideSources sources;
+    bool any = false;
+    for (const auto& file : changes.files) {
+        sources.changed.push_back(walker::read_side(repository, changes, file, side));
+        any = any || sources.changed.back().has_value();
+    }
+    if (any) {
+        sources.tree = walker::read_side_tree(repository, changes, side);
+    }
+    sources.context = lexer::make_parse_context(sources.tree, settings.compile_commands_json,
+                                                settings.compile_commands_root);
+    sources.context.convention = settings.convention;
+    sources.context.cache_dir = settings.cache_dir;
+    return sources;
+}
+
+} // namespace
+
+ChangeReport measure_change(const walker::Repository& repository,
+                            const walker::ChangeSet& changes,
+                            const MeasureChangeSettings& settings) {
+    ChangeReport report;
+    report.base_label = label_for(changes.range.base_name, changes.range.base);
+    report.head_label = changes.range.head_source == walker::HeadSource::worktree
+                            ? std::string("working tree")
+                            : label_for(changes.range.head_name, changes.range.head);
+    report.base_commit = changes.range.base.hex;
+    report.head_commit = changes.range.head.hex;
+    report.convention = core::fingerprint(settings.convention);
+    if (!changes.range.note.empty()) {
+        report.notes.push_back(changes.range.note);
+    }
+    report.notes.insert(report.notes.end(), changes.notes.begin(), changes.notes.end());
+    for (const auto& skipped : changes.skipped) {
+        report.skipped.push_back(
+            {skipped.head_path.empty() ? skipped.base_path : skipped.head_path,
+             walker::skip_reason_text(skipped.reason)});
+    }
+    report.measured_files = static_cast<unsigned>(changes.files.size());
+    if (changes.files.empty()) {
+        return report;
+    }
+
+    const SideSources base = read_side_sources(repository, changes, Side::base, settings);
+    const SideSources head = read_side_sources(repository, changes, Side::head, settings);
+
+    // One job per file and side; both sides go through one pool.
+    std::vector<lexer::LexJob> jobs;
+    std::vector<std::pair<std::size_t, Side>> job_owner;
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        if (base.changed[i]) {
+            jobs.push_back({&*base.changed[i], &base.context});
+            job_owner.emplace_back(i, Side::base);
+        }
+        if (head.changed[i]) {
+            jobs.push_back({&*head.changed[i], &head.context});
+            job_owner.emplace_back(i, Side::head);
+        }
+    }
+    spdlog::debug("lexing {} file sides of {} changed files", jobs.size(), changes.files.size());
+    const std::vector<lexer::FileFunctions> lexed = lexer::lex_jobs(jobs, settings.jobs);
+
+    std::vector<FileSides> sides(changes.files.size());
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        sides[i].base_path = file.base_path;
+        sides[i].head_path = file.head_path;
+        sides[i].base_lines = &file.base_lines;
+        sides[i].head_lines = &file.head_lines;
+    }
+    for (std::size_t j = 0; j < lexed.size(); ++j) {
+        const auto [index, side] = job_owner[j];
+        (side == Side::base ? sides[index].base : sides[index].head) = &lexed[j];
+        for (const auto& w : lexed[j].warnings) {
+            report.warnings.push_back({side == Side::base ? "base" : "head", w.path, w.line,
+                                       w.message});
+        }
+    }
+    report.functions = compare_functions(sides, settings.measures);
+    compute_totals(report);
+    return report;
+}
+
+} // namespace tollgate::delta

@@ -1,0 +1,34 @@
+// SPDX-License-Identifier: MIT
+// Lex many files in parallel, one libclang index per thread, with deterministic results.
+#pragma once
+
+#include "gate/common/source.hpp"
+#include "gate/lexer/lexer.hpp"
+
+#include <functional>
+#include <vector>
+
+namespace tollgate::lexer {
+
+// One file to lex with the context of its revision.
+struct LexJob {
+    const SourceFile* file = nullptr;      // the file (not owned)
+    const ParseContext* context = nullptr; // its revision's headers and flags (not owned)
+};
+
+// Lex every job of `jobs_list` on `jobs` threads (0 = all cores) and return one FileFunctions
+// per job, in the order of `jobs_list`: the same result for any `jobs`.
+std::vector<FileFunctions> lex_jobs(const std::vector<LexJob>& jobs_list, unsigned jobs = 0,
+                                    const std::function<void(const FileFunctions&)>& on_done = {});
+
+// Lex every file of `files` with the shared `context` on `jobs` threads (0 = all cores) and
+// return one FileFunctions per file, in the order of `files`: the same result for any `jobs`.
+// `on_done`, when set, is called (from worker threads, serialised) after each file.
+std::vector<FileFunctions> lex_files(const std::vector<SourceFile>& files,
+                                     const ParseContext& context, unsigned jobs = 0,
+                                     const std::function<void(const FileFunctions&)>& on_done = {});
+
+// Return the number of threads `jobs` stands for (0 = the machine's cores, at least 1).
+unsigned effective_jobs(unsigned jobs);
+
+} // namespace tollgate::lexer

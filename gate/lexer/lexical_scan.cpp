@@ -1,0 +1,581 @@
+// SPDX-License-Identifier: MIT
+// The lexical cross-check: function definitions found from balanced braces after a parameter list.
+#include "gate/lexer/lexical_scan.hpp"
+
+#include <array>
+#include <string_view>
+
+namespace tollgate::lexer {
+
+namespace {
+
+constexpr std::size_t k_npos = static_cast<std::size_t>(-1);
+
+// Qualifier scanning gives up after this many tokens: a real header never needs more.
+constexpr std::size_t k_max_qualifier_tokens = 256;
+
+bool is_open(const SourceToken& token) {
+    return is_punct(token, "(") || is_punct(token, "[") || is_punct(token, "{");
+}
+
+bool is_close(const SourceToken& token) {
+    return is_punct(token, ")") || is_punct(token, "]") || is_punct(token, "}");
+}
+
+// Names that look like calls at namespace scope but never name a function.
+bool is_attribute_name(const std::string& spelling) {
+    static constexpr std::array<std::string_view, 6> k_names = {
+        "__attribute__", "__attribute", "__declspec", "__asm__", "__asm", "_Pragma"};
+    for (auto name : k_names) {
+        if (spelling == name) {
+            return true;
+        }
+    }
+    return false;
+}
+
+// Skip a template argument list starting at `open` (`<`); return the index after its `>`.
+std::size_t skip_angles(const std::vector<SourceToken>& tokens, std::size_t open) {
+    int depth = 0;
+    for (std::size_t i = open; i < tokens.size(); ++i) {
+        const SourceToken& token = tokens[i];
+        if (is_punct(token, "<")) {
+            ++depth;
+        } else if (is_punct(token, ">")) {
+            --depth;
+        } else if (is_punct(token, ">>")) {
+            depth -= 2;
+        } else if (is_punct(token, ";") || is_punct(token, "{") || is_punct(token, "}")) {
+            return k_npos;
+        } else if (is_punct(token, "(")) {
+            i = match_bracket(tokens, i);
+            if (i >= tokens.size()) {
+                return k_npos;
+            }
+            continue;
+        }
+        if (depth <= 0) {
+            return i + 1;
+        }
+    }
+    return k_npos;
+}
+
+// Skip a constructor initializer list starting after `:`; return the index of the body's `{`.
+std::size_t skip_initializers(const std::vector<SourceToken>& tokens, std::size_t k) {
+    while (k < tokens.size()) {
+        // A member or base name, possibly qualified or with template arguments.
+        bool named = false;
+        while (k < tokens.size()) {
+            const SourceToken& token = tokens[k];
+            if (token.kind == core::LexKind::identifier || is_punct(token, "::") ||
+                is_keyword(token, "template") || is_keyword(token, "typename")) {
+                named = true;
+                ++k;
+            } else if (is_punct(token, "<") && named) {
+                k = skip_angles(tokens, k);
+                if (k == k_npos) {
+                    return k_npos;
+                }
+            } else {
+                break;
+            }
+        }
+        if (!named || k >= tokens.size()) {
+            return k_npos;
+        }
+        if (!is_punct(tokens[k], "(") && !is_punct(tokens[k], "{")) {
+            return k_npos;
+        }
+        k = match_bracket(tokens, k);
+        if (k >= tokens.size()) {
+            return k_npos;
+        }
+        ++k;
+        if (k < tokens.size() && is_punct(tokens[k], "...")) {
+            ++k;
+        }
+        if (k < tokens.size() && is_punct(tokens[k], ",")) {
+            ++k;
+            continue;
+        }
+        if (k < tokens.size() && is_punct(tokens[k], "{")) {
+            return k;
+        }
+        return k_npos;
+    }
+    return k_npos;
+}
+
+// From the `(` of a parameter list, return the index of the body's `{`, or k_npos when what
+// follows the list is not a function body (a declaration, a call, an initializer).
+std::size_t find_body(const std::vector<SourceToken>& tokens, std::size_t open) {
+    std::size_t k = match_bracket(tokens, open);
+    if (k >= tokens.size()) {
+        return k_npos;
+    }
+    ++k;
+    const std::size_t limit = k + k_max_qualifier_tokens;
+    while (k < tokens.size() && k < limit) {
+        const SourceToken& token = tokens[k];
+        if (is_punct(token, "{")) {
+            return k;
+        }
+        if (is_punct(token, ":")) {
+            return skip_initializers(tokens, k + 1);
+        }
+        if (is_punct(token, "->")) {
+            // Trailing return type: anything balanced up to the body.
+            ++k;
+            while (k < tokens.size() && k < limit) {
+                if (is_punct(tokens[k], "{")) {
+                    return k;
+                }
+                if (is_punct(tokens[k], ";") || is_punct(tokens[k], "=") ||
+                    is_punct(tokens[k], "}")) {
+                    return k_npos;
+                }
+                if (is_punct(tokens[k], "(") || is_punct(tokens[k], "[")) {
+                    k = match_bracket(tokens, k);
+                }
+                ++k;
+            }
+            return k_npos;
+        }
+        if (token.kind == core::LexKind::keyword) {
+            if (token.spelling == "const" || token.spelling == "volatile" ||
+                token.spelling == "noexcept" || token.spelling == "throw" ||
+                token.spelling == "mutable" || token.spelling == "constexpr" ||
+                token.spelling == "__attribute__") {
+                ++k;
+                if (k < tokens.size() && is_punct(tokens[k], "(")) {
+                    k = match_bracket(tokens, k) + 1;
+                }
+                continue;
+            }
+            if (token.spelling == "try") {
+                ++k;
+                continue;
+            }
+            return k_npos;
+        }
+        if (token.kind == core::LexKind::identifier) {
+            // override, final, and attribute macros such as NOEXCEPT_MACRO or API(x).
+            ++k;
+            if (k < tokens.size() && is_punct(tokens[k], "(")) {
+                k = match_bracket(tokens, k) + 1;
+            }
+            continue;
+        }
+        if (is_punct(token, "&") || is_punct(token, "&&")) {
+            ++k;
+            continue;
+        }
+        if (is_punct(token, "[") && k + 1 < tokens.size() && is_punct(tokens[k + 1], "[")) {
+            k = match_bracket(tokens, k) + 1;
+            continue;
+        }
+        return k_npos;
+    }
+    return k_npos;
+}
+
+// Find the name of the function whose parameter list opens at `open`: an identifier, or the
+// `operator` keyword a few tokens back. Return k_npos when there is none.
+std::size_t find_name(const std::vector<SourceToken>& tokens, std::size_t open,
+                      std::size_t statement_start) {
+    if (open == 0 || open <= statement_start) {
+        return k_npos;
+    }
+    // operator+ ( ... ), operator() ( ... ), operator new[] ( ... ), operator int ( ... )
+    for (std::size_t back = 1; back <= 5 && back <= open - statement_start; ++back) {
+        const SourceToken& token = tokens[open - back];
+        if (is_keyword(token, "operator")) {
+            return open - back;
+        }
+        if (is_punct(token, ";") || is_punct(token, "{") || is_punct(token, "}")) {
+            break;
+        }
+    }
+    const SourceToken& previous = tokens[open - 1];
+    if (previous.kind != core::LexKind::identifier || is_attribute_name(previous.spelling)) {
+        return k_npos;
+    }
+    if (open >= 2 && (is_punct(tokens[open - 2], ".") || is_punct(tokens[open - 2], "->"))) {
+        return k_npos;
+    }
+    return open - 1;
+}
+
+// Join tokens as a type is usually written: "const char *", "std::vector<int> &".
+std::string join_type(const std::vector<SourceToken>& tokens, std::size_t begin, std::size_t end) {
+    std::string text;
+    for (std::size_t i = begin; i < end; ++i) {
+        const std::string& s = tokens[i].spelling;
+        const bool glue_left = s == "::" || s == "," || s == ">" || s == ">>" || s == ")" ||
+                               s == "]" || s == "<" || s == "[";
+        const bool glue_right = !text.empty() && (text.back() == ':' || text.back() == '<' ||
+                                                  text.back() == '(' || text.back() == '[');
+        if (!text.empty() && !glue_left && !glue_right) {
+            text += ' ';
+        }
+        if (s == "," && !text.empty()) {
+            text += ", ";
+            continue;
+        }
+        text += s;
+    }
+    while (!text.empty() && text.back() == ' ') {
+        text.pop_back();
+    }
+    return text;
+}
+
+struct Parameters {
+    std::string signature;
+    std::uint64_t count = 0;
+};
+
+// Describe the parameter list opened at `open`: types without names or default values.
+Parameters describe_parameters(const std::vector<SourceToken>& tokens, std::size_t open) {
+    Parameters result;
+    const std::size_t close = match_bracket(tokens, open);
+    if (close >= tokens.size() || close == open + 1) {
+        return result;
+    }
+    if (close == open + 2 && is_keyword(tokens[open + 1], "void")) {
+        return result;
+    }
+    std::vector<std::string> types;
+    std::size_t begin = open + 1;
+    int depth = 0;
+    for (std::size_t i = open + 1; i <= close; ++i) {
+        const SourceToken& token = tokens[i];
+        if (i < close && (is_open(token) || is_punct(token, "<"))) {
+            ++depth;
+            continue;
+        }
+        if (i < close && (is_close(token) || is_punct(token, ">"))) {
+            --depth;
+            continue;
+        }
+        if (i < close && is_punct(token, ">>")) {
+            depth -= 2;
+            continue;
+        }
+        if (i == close || (depth == 0 && is_punct(token, ","))) {
+            std::size_t end = i;
+            for (std::size_t j = begin; j < i; ++j) {
+                if (is_punct(tokens[j], "=")) {
+                    end = j;
+                    break;
+                }
+            }
+            // Drop the parameter name: a final identifier after at least one type token.
+            if (end > begin + 1 && tokens[end - 1].kind == core::LexKind::identifier) {
+                --end;
+            }
+            types.push_back(join_type(tokens, begin, end));
+            begin = i + 1;
+        }
+    }
+    result.count = types.size();
+    for (std::size_t i = 0; i < types.size(); ++i) {
+        result.signature += (i == 0 ? "" : ", ") + types[i];
+    }
+    return result;
+}
+
+// Return the written name, from the start of its qualification to the parameter list:
+// "Box::put", "operator+", "~Box", "Box::operator int".
+std::string written_name(const std::vector<SourceToken>& tokens, std::size_t name, std::size_t open,
+                         std::size_t statement_start) {
+    std::string text;
+    if (is_keyword(tokens[name], "operator")) {
+        text = "operator";
+        for (std::size_t i = name + 1; i < open; ++i) {
+            const bool word = tokens[i].kind != core::LexKind::punctuation;
+            if (word) {
+                text += ' ';
+            }
+            text += tokens[i].spelling;
+        }
+    } else {
+        text = tokens[name].spelling;
+    }
+    // Walk back over `~` and `Qualifier<...>::` parts.
+    std::size_t i = name;
+    if (i > statement_start && is_punct(tokens[i - 1], "~")) {
+        text = "~" + text;
+        --i;
+    }
+    while (i >= statement_start + 2 && is_punct(tokens[i - 1], "::")) {
+        std::size_t q = i - 2;
+        if (is_punct(tokens[q], ">")) {
+            int depth = 0;
+            while (q > statement_start) {
+                if (is_punct(tokens[q], ">")) {
+                    ++depth;
+                } else if (is_punct(tokens[q], "<")) {
+                    if (--depth == 0) {
+                        break;
+                    }
+                }
+                --q;
+            }
+            if (q == statement_start) {
+                break;
+            }
+            --q;
+        }
+        if (tokens[q].kind != core::LexKind::identifier) {
+            break;
+        }
+        text = tokens[q].spelling + "::" + text;
+        i = q;
+    }
+    return text;
+}
+
+// Return true when the tokens before the name declare a result other than void.
+bool has_result(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t name,
+                std::size_t body_open, const std::string& written, const std::string& class_name) {
+    for (std::size_t i = name; i < body_open; ++i) {
+        if (is_punct(tokens[i], "->")) {
+            return !(i + 1 < body_open && is_keyword(tokens[i + 1], "void") && i + 2 == body_open);
+        }
+    }
+    const auto last = written.rfind("::");
+    const std::string base = last == std::string::npos ? written : written.substr(last + 2);
+    if (!base.empty() && base[0] == '~') {
+        return false;
+    }
+    if (last != std::string::npos) {
+        const std::string qualifier = written.substr(0, last);
+        const auto q = qualifier.rfind("::");
+        const std::string owner = q == std::string::npos ? qualifier : qualifier.substr(q + 2);
+        if (owner == base) {
+            return false; // constructor
+        }
+    } else if (!class_name.empty() && base == class_name) {
+        return false; // constructor declared in the class body
+    }
+    if (base.rfind("operator ", 0) == 0 &&
+        base.find_first_of("+-*/&|<>=!~%^[]()") == std::string::npos) {
+        return true; // conversion function
+    }
+    std::vector<std::string> words;
+    for (std::size_t i = first; i < name; ++i) {
+        const SourceToken& token = tokens[i];
+        if (is_keyword(token, "template") && i + 1 < name && is_punct(tokens[i + 1], "<")) {
+            const std::size_t after = skip_angles(tokens, i + 1);
+            if (after == k_npos) {
+                break;
+            }
+            i = after - 1;
+            continue;
+        }
+        if (token.kind == core::LexKind::keyword &&
+            (token.spelling == "static" || token.spelling == "inline" ||
+             token.spelling == "virtual" || token.spelling == "extern" ||
+             token.spelling == "constexpr" || token.spelling == "explicit" ||
+             token.spelling == "friend")) {
+            continue;
+        }
+        if (is_punct(token, "::") || is_punct(token, "~")) {
+            break; // the qualification of the name itself
+        }
+        words.push_back(token.spelling);
+    }
+    if (words.size() == 1 && words[0] == "void") {
+        return false;
+    }
+    // Nothing before the name: a constructor, or C89's implicit int.
+    return !words.empty() || class_name.empty();
+}
+
+enum class ScopeKind { container, function, block };
+
+struct Scope {
+    ScopeKind kind = ScopeKind::container;
+    std::string name; // namespace or class name, empty for others
+};
+
+struct ScanState {
+    std::vector<Scope> stack;
+    std::size_t statement_start = 0;
+    std::size_t pending_body = k_npos;
+    LexicalDefinition pending;
+    LexicalDefinition open_function;
+    int paren_depth = 0;
+};
+
+// Return the name of the namespace or class whose `{` is at `open`, or an empty string.
+std::string container_name(const std::vector<SourceToken>& tokens, std::size_t start,
+                           std::size_t open) {
+    for (std::size_t i = start; i < open; ++i) {
+        const SourceToken& token = tokens[i];
+        if (is_keyword(token, "namespace") || is_keyword(token, "class") ||
+            is_keyword(token, "struct") || is_keyword(token, "union")) {
+            // The last identifier before `{`, `:` or `final` names it.
+            std::string name;
+            for (std::size_t j = i + 1; j < open; ++j) {
+                if (is_punct(tokens[j], ":") || is_punct(tokens[j], "<")) {
+                    break;
+                }
+                if (tokens[j].kind == core::LexKind::identifier && tokens[j].spelling != "final") {
+                    name = name.empty() || !is_punct(tokens[j - 1], "::")
+                               ? tokens[j].spelling
+                               : name + "::" + tokens[j].spelling;
+                }
+            }
+            return name;
+        }
+    }
+    return {};
+}
+
+std::string scope_prefix(const std::vector<Scope>& stack) {
+    std::string prefix;
+    for (const Scope& scope : stack) {
+        if (scope.kind == ScopeKind::container && !scope.name.empty()) {
+            prefix += scope.name + "::";
+        }
+    }
+    return prefix;
+}
+
+std::string innermost_class(const std::vector<Scope>& stack) {
+    return stack.empty() ? std::string() : stack.back().name;
+}
+
+} // namespace
+
+std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t open) {
+    if (open >= tokens.size()) {
+        return tokens.size();
+    }
+    if (is_punct(tokens[open], "<")) {
+        const std::size_t after = skip_angles(tokens, open);
+        return after == k_npos ? tokens.size() : after - 1;
+    }
+    int depth = 0;
+    for (std::size_t i = open; i < tokens.size(); ++i) {
+        if (is_open(tokens[i])) {
+            ++depth;
+        } else if (is_close(tokens[i])) {
+            if (--depth == 0) {
+                return i;
+            }
+        }
+    }
+    return tokens.size();
+}
+
+std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& tokens,
+                                                const std::vector<DirectiveMark>& directives) {
+    std::vector<LexicalDefinition> found;
+    ScanState state;
+    std::vector<ScanState> saved; // the state at each open #if, restored by #else / #elif
+    std::size_t next_directive = 0;
+    for (std::size_t i = 0; i < tokens.size(); ++i) {
+        while (next_directive < directives.size() && directives[next_directive].before <= i) {
+            switch (directives[next_directive].kind) {
+            case DirectiveKind::open_condition:
+                saved.push_back(state);
+                break;
+            case DirectiveKind::alternative:
+                if (!saved.empty()) {
+                    state = saved.back();
+                }
+                break;
+            case DirectiveKind::close_condition:
+                if (!saved.empty()) {
+                    saved.pop_back();
+                }
+                break;
+            case DirectiveKind::other:
+                break;
+            }
+            ++next_directive;
+        }
+        const SourceToken& token = tokens[i];
+        const bool in_function =
+            !state.stack.empty() && state.stack.back().kind != ScopeKind::container;
+        if (in_function) {
+            if (is_punct(token, "{")) {
+                state.stack.push_back({ScopeKind::block, {}});
+            } else if (is_punct(token, "}")) {
+                const ScopeKind kind = state.stack.back().kind;
+                state.stack.pop_back();
+                if (kind == ScopeKind::function) {
+                    LexicalDefinition definition = state.open_function;
+                    definition.body_close = i;
+                    found.push_back(std::move(definition));
+                    state.statement_start = i + 1;
+                }
+            }
+            continue;
+        }
+        if (state.pending_body == i) {
+            state.stack.push_back({ScopeKind::function, {}});
+            state.open_function = state.pending;
+            state.pending_body = k_npos;
+            continue;
+        }
+        if (state.pending_body != k_npos && i < state.pending_body) {
+            continue; // parameters, qualifiers and initializers of a header already found
+        }
+        if (is_punct(token, "{")) {
+            state.stack.push_back(
+                {ScopeKind::container, container_name(tokens, state.statement_start, i)});
+            state.statement_start = i + 1;
+            state.pending_body = k_npos;
+            state.paren_depth = 0;
+        } else if (is_punct(token, "}")) {
+            if (!state.stack.empty()) {
+                state.stack.pop_back();
+            }
+            state.statement_start = i + 1;
+            state.pending_body = k_npos;
+            state.paren_depth = 0;
+        } else if (is_punct(token, ";")) {
+            state.statement_start = i + 1;
+            state.pending_body = k_npos;
+            state.paren_depth = 0;
+        } else if (is_punct(token, ":") && i > 0 &&
+                   (is_keyword(tokens[i - 1], "public") || is_keyword(tokens[i - 1], "private") ||
+                    is_keyword(tokens[i - 1], "protected"))) {
+            state.statement_start = i + 1;
+        } else if (is_punct(token, ")")) {
+            --state.paren_depth;
+        } else if (is_punct(token, "(")) {
+            if (state.paren_depth == 0 && state.pending_body == k_npos) {
+                const std::size_t name = find_name(tokens, i, state.statement_start);
+                const std::size_t body = name == k_npos ? k_npos : find_body(tokens, i);
+                if (body != k_npos) {
+                    LexicalDefinition definition;
+                    definition.first = state.statement_start;
+                    definition.name = name;
+                    definition.body_open = body;
+                    const std::string written =
+                        written_name(tokens, name, i, state.statement_start);
+                    definition.qualified_name = scope_prefix(state.stack) + written;
+                    const Parameters parameters = describe_parameters(tokens, i);
+                    definition.signature = parameters.signature;
+                    definition.potential_operands =
+                        parameters.count + (has_result(tokens, state.statement_start, name, body,
+                                                       written, innermost_class(state.stack))
+                                                ? 1
+                                                : 0);
+                    state.pending = std::move(definition);
+                    state.pending_body = body;
+                }
+            }
+            ++state.paren_depth;
+        }
+    }
+    return found;
+}
+
+} // namespace tollgate::lexer

@@ -1,0 +1,216 @@
+// SPDX-License-Identifier: MIT
+// The shared parse context of one revision: headers, include folders, compile database flags.
+#include "gate/common/errors.hpp"
+#include "gate/lexer/lexer.hpp"
+
+#include <algorithm>
+#include <cctype>
+#include <filesystem>
+#include <nlohmann/json.hpp>
+#include <set>
+
+namespace tollgate::lexer {
+
+namespace {
+
+namespace fs = std::filesystem;
+
+std::string lower_extension(const std::string& path) {
+    const auto slash = path.find_last_of('/');
+    const auto dot = path.find_last_of('.');
+    if (dot == std::string::npos || (slash != std::string::npos && dot < slash)) {
+        return {};
+    }
+    std::string ext = path.substr(dot);
+    std::transform(ext.begin(), ext.end(), ext.begin(),
+                   [](unsigned char c) { return static_cast<char>(std::tolower(c)); });
+    return ext;
+}
+
+// Split a shell command line into words (quotes and backslashes as a POSIX shell reads them).
+std::vector<std::string> split_command(const std::string& command) {
+    std::vector<std::string> words;
+    std::string word;
+    bool in_word = false;
+    char quote = 0;
+    for (std::size_t i = 0; i < command.size(); ++i) {
+        const char c = command[i];
+        if (quote != 0) {
+            if (c == quote) {
+                quote = 0;
+            } else if (c == '\\' && quote == '"' && i + 1 < command.size()) {
+                word += command[++i];
+            } else {
+                word += c;
+            }
+        } else if (c == '\'' || c == '"') {
+            quote = c;
+            in_word = true;
+        } else if (c == '\\' && i + 1 < command.size()) {
+            word += command[++i];
+            in_word = true;
+        } else if (std::isspace(static_cast<unsigned char>(c)) != 0) {
+            if (in_word) {
+                words.push_back(word);
+                word.clear();
+                in_word = false;
+            }
+        } else {
+            word += c;
+            in_word = true;
+        }
+    }
+    if (in_word) {
+        words.push_back(word);
+    }
+    return words;
+}
+
+// Return `path` relative to `root` with '/' separators, or nothing when it lies outside.
+std::optional<std::string> inside(const fs::path& path, const fs::path& root) {
+    if (root.empty()) {
+        return std::nullopt;
+    }
+    const fs::path relative = path.lexically_normal().lexically_relative(root.lexically_normal());
+    const std::string text = relative.generic_string();
+    if (relative.empty() || text == ".." || text.rfind("../", 0) == 0) {
+        return std::nullopt;
+    }
+    return text == "." ? std::string() : text;
+}
+
+// Map a path flag's value: inside the repository it moves to the virtual root.
+std::string map_path(const std::string& value, const fs::path& directory, const fs::path& root) {
+    fs::path path(value);
+    if (path.is_relative()) {
+        path = directory / path;
+    }
+    if (auto relative = inside(path, root)) {
+        return std::string(k_virtual_root) + *relative;
+    }
+    return path.lexically_normal().string();
+}
+
+std::vector<std::string> kept_flags(const std::vector<std::string>& words,
+                                    const fs::path& directory, const fs::path& root) {
+    std::vector<std::string> flags;
+    static const std::vector<std::string> k_path_flags = {"-I", "-isystem", "-include", "-iquote"};
+    for (std::size_t i = 0; i < words.size(); ++i) {
+        const std::string& word = words[i];
+        if (word.rfind("-std=", 0) == 0) {
+            flags.push_back(word);
+            continue;
+        }
+        if (word == "-D" || word == "-U") {
+            if (i + 1 < words.size()) {
+                flags.push_back(word + words[++i]);
+            }
+            continue;
+        }
+        if (word.rfind("-D", 0) == 0 || word.rfind("-U", 0) == 0) {
+            flags.push_back(word);
+            continue;
+        }
+        bool matched = false;
+        for (const std::string& flag : k_path_flags) {
+            if (word == flag) {
+                if (i + 1 < words.size()) {
+                    flags.push_back(flag);
+                    flags.push_back(map_path(words[++i], directory, root));
+                }
+                matched = true;
+                break;
+            }
+            if (flag == "-I" && word.rfind(flag, 0) == 0) {
+                flags.push_back("-I" + map_path(word.substr(2), directory, root));
+                matched = true;
+                break;
+            }
+        }
+        (void)matched;
+    }
+    return flags;
+}
+
+} // namespace
+
+std::optional<Language> language_for_path(const std::string& path, std::optional<Language> force) {
+    if (force) {
+        return force;
+    }
+    const std::string ext = lower_extension(path);
+    if (ext == ".c") {
+        return Language::c;
+    }
+    if (is_c_family_path(path)) {
+        return Language::cxx;
+    }
+    return std::nullopt;
+}
+
+ParseContext make_parse_context(const std::vector<SourceFile>& files,
+                                const std::string& compile_commands_json,
+                                const std::string& repository_root) {
+    ParseContext context;
+    std::set<std::string> include_dirs = {""};
+    for (const SourceFile& file : files) {
+        if (is_header_path(file.path)) {
+            context.headers.push_back(file);
+        }
+        // Every folder whose last component is include/, at any depth.
+        std::string::size_type slash = file.path.find('/');
+        while (slash != std::string::npos) {
+            const std::string folder = file.path.substr(0, slash);
+            const auto last = folder.find_last_of('/');
+            const std::string name = last == std::string::npos ? folder : folder.substr(last + 1);
+            if (name == "include") {
+                include_dirs.insert(folder);
+            }
+            slash = file.path.find('/', slash + 1);
+        }
+    }
+    context.include_dirs.assign(include_dirs.begin(), include_dirs.end());
+    if (compile_commands_json.empty()) {
+        return context;
+    }
+    nlohmann::json database;
+    try {
+        database = nlohmann::json::parse(compile_commands_json);
+    } catch (const nlohmann::json::exception& error) {
+        throw UsageError(std::string("compile_commands.json is not valid json: ") + error.what() +
+                         " (regenerate it with your build tool)");
+    }
+    if (!database.is_array()) {
+        throw UsageError("compile_commands.json is not a list of entries (regenerate it with "
+                         "your build tool)");
+    }
+    const fs::path root(repository_root);
+    for (const auto& entry : database) {
+        if (!entry.is_object() || !entry.contains("file") || !entry["file"].is_string()) {
+            continue;
+        }
+        const fs::path directory(entry.value("directory", std::string()));
+        fs::path file(entry["file"].get<std::string>());
+        if (file.is_relative()) {
+            file = directory / file;
+        }
+        const auto relative = inside(file, root);
+        if (!relative) {
+            continue;
+        }
+        std::vector<std::string> words;
+        if (entry.contains("arguments") && entry["arguments"].is_array()) {
+            for (const auto& word : entry["arguments"]) {
+                if (word.is_string()) {
+                    words.push_back(word.get<std::string>());
+                }
+            }
+        } else if (entry.contains("command") && entry["command"].is_string()) {
+            words = split_command(entry["command"].get<std::string>());
+        }
+        context.file_flags[*relative] = kept_flags(words, directory, root);
+    }
+    return context;
+}
+
+} // namespace tollgate::lexer

@@ -1,0 +1,209 @@
+// SPDX-License-Identifier: MIT
+// Precompiled standard headers: built once per libclang version, language and flags, reused.
+#include "gate/lexer/pch_cache.hpp"
+
+#include "gate/lexer/clang_handles.hpp"
+
+#include <atomic>
+#include <cstdint>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <map>
+#include <mutex>
+#include <spdlog/spdlog.h>
+#include <sstream>
+#include <thread>
+#include <unistd.h>
+
+namespace tollgate::lexer {
+
+namespace {
+
+namespace fs = std::filesystem;
+
+constexpr const char* k_c_headers[] = {"stdio.h",  "stdlib.h",  "string.h", "stdint.h",
+                                       "stddef.h", "stdbool.h", "math.h",   "ctype.h",
+                                       "errno.h",  "limits.h",  "assert.h"};
+
+constexpr const char* k_cxx_headers[] = {
+    "vector",     "string",   "map",           "memory",    "algorithm", "iostream",
+    "functional", "optional", "unordered_map", "utility",   "cstdint",   "cstring",
+    "cstdlib",    "cstdio",   "cmath",         "array",     "set",       "unordered_set",
+    "deque",      "list",     "sstream",       "stdexcept", "tuple",     "type_traits",
+    "limits",     "iterator", "numeric",       "chrono",    "mutex",     "atomic",
+    "cassert",    "cstddef",  "string_view",   "variant",   "fstream",   "thread"};
+
+std::mutex g_mutex;
+std::map<std::string, std::string> g_known; // key -> path, empty when it could not be built
+std::atomic<unsigned> g_builds{0};
+
+std::uint64_t fnv1a(const std::string& text) {
+    std::uint64_t hash = 1469598103934665603ULL;
+    for (unsigned char c : text) {
+        hash ^= c;
+        hash *= 1099511628211ULL;
+    }
+    return hash;
+}
+
+bool is_cxx(const std::vector<std::string>& flags) {
+    for (std::size_t i = 0; i + 1 < flags.size(); ++i) {
+        if (flags[i] == "-x") {
+            return flags[i + 1] == "c++";
+        }
+    }
+    return true;
+}
+
+std::string prefix_text(bool cxx) {
+    std::ostringstream out;
+    out << "// Tollgate's precompiled standard headers (generated).\n";
+    if (cxx) {
+        for (const char* header : k_cxx_headers) {
+            out << "#if __has_include(<" << header << ">)\n#include <" << header << ">\n#endif\n";
+        }
+    } else {
+        for (const char* header : k_c_headers) {
+            out << "#if __has_include(<" << header << ">)\n#include <" << header << ">\n#endif\n";
+        }
+    }
+    return out.str();
+}
+
+// Build the header at `path` from the prefix at `prefix_path`; return true on success.
+bool build(const std::vector<std::string>& flags, bool cxx, const std::string& prefix_path,
+           const std::string& path) {
+    std::vector<std::string> args;
+    for (std::size_t i = 0; i < flags.size(); ++i) {
+        if (flags[i] == "-x" && i + 1 < flags.size()) {
+            args.push_back("-x");
+            args.push_back(cxx ? "c++-header" : "c-header");
+            ++i;
+            continue;
+        }
+        args.push_back(flags[i]);
+    }
+    args.push_back("-w");
+    std::vector<const char*> argv;
+    for (const std::string& arg : args) {
+        argv.push_back(arg.c_str());
+    }
+    IndexHandle index(clang_createIndex(0, 0));
+    CXTranslationUnit raw = nullptr;
+    const CXErrorCode code = clang_parseTranslationUnit2(
+        index.get(), prefix_path.c_str(), argv.data(), static_cast<int>(argv.size()), nullptr, 0,
+        CXTranslationUnit_ForSerialization | CXTranslationUnit_DetailedPreprocessingRecord, &raw);
+    TranslationUnitHandle unit(raw);
+    if (code != CXError_Success || !unit) {
+        spdlog::debug("precompiled header: parse of \"{}\" failed with code {}", prefix_path,
+                      static_cast<int>(code));
+        return false;
+    }
+    const unsigned count = clang_getNumDiagnostics(unit.get());
+    for (unsigned i = 0; i < count; ++i) {
+        DiagnosticHandle diagnostic(clang_getDiagnostic(unit.get(), i));
+        if (clang_getDiagnosticSeverity(diagnostic.get()) >= CXDiagnostic_Error) {
+            spdlog::debug("precompiled header: {}",
+                          take_string(clang_getDiagnosticSpelling(diagnostic.get())));
+            return false;
+        }
+    }
+    // Write under a temporary name, then rename: a killed run leaves no half-written header.
+    std::ostringstream temporary;
+    temporary << path << ".tmp." << ::getpid() << "."
+              << std::hash<std::thread::id>{}(std::this_thread::get_id());
+    const int saved = clang_saveTranslationUnit(unit.get(), temporary.str().c_str(),
+                                                clang_defaultSaveOptions(unit.get()));
+    if (saved != CXSaveError_None) {
+        spdlog::debug("precompiled header: save to \"{}\" failed with code {}", temporary.str(),
+                      saved);
+        std::error_code ignored;
+        fs::remove(temporary.str(), ignored);
+        return false;
+    }
+    std::error_code error;
+    fs::rename(temporary.str(), path, error);
+    if (error) {
+        spdlog::debug("precompiled header: rename to \"{}\" failed: {}", path, error.message());
+        fs::remove(temporary.str(), error);
+        return false;
+    }
+    ++g_builds;
+    return true;
+}
+
+} // namespace
+
+std::string precompiled_header(const std::vector<std::string>& language_flags,
+                               const std::string& cache_dir) {
+    if (cache_dir.empty()) {
+        return {};
+    }
+    std::string key = take_string(clang_getClangVersion());
+    for (const std::string& flag : language_flags) {
+        key += '\x1f' + flag;
+    }
+    std::lock_guard<std::mutex> lock(g_mutex);
+    const std::string memo_key = cache_dir + '\x1e' + key;
+    if (auto found = g_known.find(memo_key); found != g_known.end()) {
+        return found->second;
+    }
+    std::string& result = g_known[memo_key];
+    char name[32];
+    std::snprintf(name, sizeof name, "%016llx", static_cast<unsigned long long>(fnv1a(key)));
+    std::error_code error;
+    fs::create_directories(cache_dir, error);
+    if (error) {
+        spdlog::debug("precompiled header: cannot create \"{}\": {}", cache_dir, error.message());
+        return result;
+    }
+    const std::string base = (fs::path(cache_dir) / (std::string("tollgate-std-") + name)).string();
+    const std::string path = base + ".pch";
+    if (fs::exists(path, error)) {
+        result = path;
+        return result;
+    }
+    const bool cxx = is_cxx(language_flags);
+    const std::string prefix_path = base + (cxx ? ".hpp" : ".h");
+    {
+        // The prefix lives on disk: a precompiled header records and checks its input files.
+        const std::string text = prefix_text(cxx);
+        std::ifstream existing(prefix_path, std::ios::binary);
+        std::ostringstream current;
+        current << existing.rdbuf();
+        if (!existing || current.str() != text) {
+            existing.close();
+            const std::string temporary = prefix_path + ".tmp." + std::to_string(::getpid());
+            std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
+            out << text;
+            out.close();
+            fs::rename(temporary, prefix_path, error);
+            if (!out || error) {
+                spdlog::debug("precompiled header: cannot write \"{}\"", prefix_path);
+                return result;
+            }
+        }
+    }
+    if (build(language_flags, cxx, prefix_path, path)) {
+        result = path;
+    }
+    return result;
+}
+
+void discard_precompiled_header(const std::string& path) {
+    std::lock_guard<std::mutex> lock(g_mutex);
+    for (auto& [key, known] : g_known) {
+        if (known == path) {
+            known.clear();
+        }
+    }
+    std::error_code ignored;
+    fs::remove(path, ignored);
+}
+
+unsigned precompiled_header_builds() {
+    return g_builds.load();
+}
+
+} // namespace tollgate::lexer

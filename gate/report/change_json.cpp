@@ -1,0 +1,94 @@
+// SPDX-License-Identifier: MIT
+// The change report as JSON, schema "tollgate.check/1".
+#include "gate/report/change_report.hpp"
+
+#include <nlohmann/json.hpp>
+
+namespace tollgate::report {
+
+namespace {
+
+using nlohmann::json;
+
+json side_json(const std::optional<delta::FunctionSide>& side) {
+    if (!side) {
+        return nullptr;
+    }
+    json measures = json::object();
+    for (const auto id : core::k_all_measures) {
+        measures[std::string(core::measure_name(id))] = core::measure_value(side->measures, id);
+    }
+    return {{"file", side->path},
+            {"line", side->start_line},
+            {"end_line", side->end_line},
+            {"extent", side->lexical ? "lexical" : "syntax-tree"},
+            {"token_hash", side->token_hash},
+            {"measures", measures}};
+}
+
+json delta_json(const delta::FunctionDelta& f) {
+    json deltas = json::object();
+    for (const auto id : core::k_all_measures) {
+        const auto d = f.delta(id);
+        deltas[std::string(core::measure_name(id))] = {
+            {"absolute", d.absolute},
+            {"percent", d.percent ? json(*d.percent) : json(nullptr)}};
+    }
+    return deltas;
+}
+
+json totals_json(const delta::Totals& t) {
+    return {{"functions", t.functions},
+            {"added", t.added},
+            {"changed", t.changed},
+            {"removed", t.removed},
+            {"volume", {{"base", t.base_volume}, {"head", t.head_volume}}},
+            {"effort", {{"base", t.base_effort}, {"head", t.head_effort}}},
+            {"difficulty_max", {{"base", t.base_difficulty_max}, {"head", t.head_difficulty_max}}}};
+}
+
+} // namespace
+
+void write_change_json(std::ostream& out, const delta::ChangeReport& report) {
+    json functions = json::array();
+    for (const auto& f : report.functions) {
+        functions.push_back({{"label", delta::label_name(f.label)},
+                             {"function", f.name},
+                             {"signature", f.signature},
+                             {"identity", f.identity},
+                             {"base", side_json(f.base)},
+                             {"head", side_json(f.head)},
+                             {"delta", delta_json(f)}});
+    }
+    json files = json::array();
+    for (const auto& file : report.files) {
+        files.push_back({{"file", file.path}, {"totals", totals_json(file.totals)}});
+    }
+    json skipped = json::array();
+    for (const auto& s : report.skipped) {
+        skipped.push_back({{"file", s.path}, {"reason", s.reason}});
+    }
+    json warnings = json::array();
+    for (const auto& w : report.warnings) {
+        warnings.push_back(
+            {{"side", w.side}, {"file", w.path}, {"line", w.line}, {"message", w.message}});
+    }
+    const json document = {
+        {"schema", "tollgate.check/1"},
+        {"convention", report.convention},
+        {"base", {{"label", report.base_label}, {"commit", report.base_commit}}},
+        {"head",
+         {{"label", report.head_label},
+          {"commit", report.head_commit.empty() ? json(nullptr) : json(report.head_commit)}}},
+        {"notes", report.notes},
+        {"measured_files", report.measured_files},
+        {"totals", totals_json(report.totals)},
+        {"files", files},
+        {"functions", functions},
+        {"skipped", skipped},
+        {"warnings", warnings},
+    };
+    out << document.dump(2) << "\n";
+}
+
+} // namespace tollgate::report

@@ -1,0 +1,148 @@
+// SPDX-License-Identifier: MIT
+// The Markdown delta table a reviewer reads in the merge request.
+#include "gate/report/change_report.hpp"
+#include "gate/report/measure_table.hpp"
+
+#include <fmt/format.h>
+
+namespace tollgate::report {
+
+namespace {
+
+using core::MeasureId;
+using delta::ChangeReport;
+using delta::FunctionDelta;
+
+// Escape text for a table cell: pipes split cells, backslashes and angle brackets need care.
+std::string cell_text(const std::string& text) {
+    std::string escaped;
+    for (char c : text) {
+        switch (c) {
+        case '|':
+            escaped += "\\|";
+            break;
+        case '<':
+            escaped += "&lt;";
+            break;
+        case '>':
+            escaped += "&gt;";
+            break;
+        case '\\':
+            escaped += "\\\\";
+            break;
+        case '*':
+        case '_':
+        case '`':
+        case '[':
+        case ']':
+            escaped += '\\';
+            escaped += c;
+            break;
+        default:
+            escaped += c;
+        }
+    }
+    return escaped;
+}
+
+std::string pair_cell(const FunctionDelta& f, MeasureId id, int decimals) {
+    const auto value = [&](const std::optional<delta::FunctionSide>& side) {
+        if (!side) {
+            return std::string("–");
+        }
+        const double v = core::measure_value(side->measures, id);
+        return decimals == 0 ? group_thousands(v) : format_number(v, decimals);
+    };
+    return value(f.base) + " → " + value(f.head);
+}
+
+std::string growth_cell(const FunctionDelta& f) {
+    const auto d = f.delta(MeasureId::effort);
+    if (f.label == delta::DeltaLabel::unchanged || d.absolute == 0.0) {
+        return "0";
+    }
+    return fmt::format("{}{} ({})", d.absolute > 0 ? "+" : "", group_thousands(d.absolute),
+                       format_percent(d.percent));
+}
+
+std::string location_cell(const FunctionDelta& f, const ChangeReport& report,
+                          const RenderOptions& options) {
+    const auto& side = f.shown_side();
+    const std::string text = fmt::format("{}:{}", side.path, side.start_line);
+    const std::string commit = f.head ? report.head_commit : report.base_commit;
+    const std::string link = make_link(options.link_template, commit.empty() ? "HEAD" : commit,
+                                       side.path, side.start_line);
+    if (link.empty()) {
+        return cell_text(text);
+    }
+    return "[" + cell_text(text) + "](" + link + ")";
+}
+
+void write_table(std::ostream& out, const ChangeReport& report, const RenderOptions& options,
+                 std::size_t first, std::size_t last) {
+    out << "| | function | location | volume | difficulty | effort | effort change |\n";
+    out << "|---|---|---|---:|---:|---:|---:|\n";
+    for (std::size_t i = first; i < last; ++i) {
+        const FunctionDelta& f = report.functions[i];
+        out << fmt::format("| {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
+                           cell_text(f.name), location_cell(f, report, options),
+                           pair_cell(f, MeasureId::volume, 1),
+                           pair_cell(f, MeasureId::difficulty, 2),
+                           pair_cell(f, MeasureId::effort, 0), growth_cell(f));
+    }
+}
+
+} // namespace
+
+void write_change_markdown(std::ostream& out, const ChangeReport& report,
+                           const RenderOptions& options) {
+    const auto& t = report.totals;
+    if (report.functions.empty()) {
+        out << (report.measured_files == 0
+                    ? "**Tollgate**: no C/C++ file changed, nothing to measure.\n"
+                    : "**Tollgate**: C/C++ files changed, but no function definition was "
+                      "touched.\n");
+    } else {
+        const auto effort = core::compute_delta(t.base_effort, t.head_effort);
+        const FunctionDelta& top = report.functions.front();
+        const auto top_growth = top.delta(MeasureId::effort);
+        std::string summary = fmt::format(
+            "**Tollgate**: {} function{} touched in {} file{}, effort {}{} ({})", t.functions,
+            t.functions == 1 ? "" : "s", report.files.size(), report.files.size() == 1 ? "" : "s",
+            effort.absolute >= 0 ? "+" : "", group_thousands(effort.absolute),
+            format_percent(effort.percent));
+        if (top_growth.absolute > 0) {
+            summary += fmt::format(", largest growth `{}` {}{}", top.name, "+",
+                                   group_thousands(top_growth.absolute));
+        }
+        out << summary << ".\n\n";
+        const std::size_t shown = std::min(options.markdown_rows, report.functions.size());
+        write_table(out, report, options, 0, shown);
+        if (shown < report.functions.size()) {
+            const std::size_t rest = report.functions.size() - shown;
+            out << fmt::format("\n<details><summary>{} more function{}</summary>\n\n", rest,
+                               rest == 1 ? "" : "s");
+            write_table(out, report, options, shown, report.functions.size());
+            out << "\n</details>\n";
+        }
+    }
+    out << fmt::format("\n<sub>base {} → head {} · convention {}</sub>\n",
+                       cell_text(report.base_label), cell_text(report.head_label),
+                       report.convention);
+    if (!report.notes.empty() || !report.skipped.empty() || !report.warnings.empty()) {
+        out << "\n";
+        for (const auto& note : report.notes) {
+            out << "- note: " << cell_text(note) << "\n";
+        }
+        for (const auto& s : report.skipped) {
+            out << fmt::format("- skipped `{}` ({})\n", s.path, s.reason);
+        }
+        for (const auto& w : report.warnings) {
+            out << fmt::format("- warning ({}) `{}{}`: {}\n", w.side, w.path,
+                               w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
+                               cell_text(w.message));
+        }
+    }
+}
+
+} // namespace tollgate::report

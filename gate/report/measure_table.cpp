@@ -1,0 +1,262 @@
+// SPDX-License-Identifier: MIT
+// Text and JSON renderers for per-function measures.
+#include "gate/report/measure_table.hpp"
+
+#include <fmt/format.h>
+#include <nlohmann/json.hpp>
+
+#include <algorithm>
+
+namespace tollgate::report {
+
+namespace {
+
+using core::MeasureId;
+
+struct Column {
+    const char* title; // header text
+    MeasureId id;      // the measure shown
+    int decimals;      // places after the point
+    bool summed;       // whether the total line sums it
+};
+
+const std::vector<Column>& columns_for(Columns columns) {
+    static const std::vector<Column> essential = {
+        {"n1", MeasureId::n1, 0, false},      {"n2", MeasureId::n2, 0, false},
+        {"N1", MeasureId::N1, 0, true},       {"N2", MeasureId::N2, 0, true},
+        {"V", MeasureId::volume, 1, true},    {"D", MeasureId::difficulty, 2, false},
+        {"E", MeasureId::effort, 0, true},
+    };
+    static const std::vector<Column> all = {
+        {"n1", MeasureId::n1, 0, false},
+        {"n2", MeasureId::n2, 0, false},
+        {"N1", MeasureId::N1, 0, true},
+        {"N2", MeasureId::N2, 0, true},
+        {"N", MeasureId::length, 0, true},
+        {"n", MeasureId::vocabulary, 0, false},
+        {"N^", MeasureId::estimated_length, 1, false},
+        {"V", MeasureId::volume, 1, true},
+        {"D", MeasureId::difficulty, 2, false},
+        {"L^", MeasureId::level, 3, false},
+        {"E", MeasureId::effort, 0, true},
+        {"T(s)", MeasureId::time, 1, true},
+        {"B(V)", MeasureId::bugs_volume, 3, true},
+        {"B(E)", MeasureId::bugs_effort, 3, true},
+        {"V*", MeasureId::potential_volume, 1, false},
+        {"V*/V", MeasureId::volume_ratio, 3, false},
+    };
+    return columns == Columns::all ? all : essential;
+}
+
+std::string location(const MeasuredFunction& f) {
+    return fmt::format("{}:{}", f.path, f.start_line);
+}
+
+std::string display_name(const MeasuredFunction& f) {
+    return f.lexical ? f.name + " [lexical]" : f.name;
+}
+
+nlohmann::json measures_json(const core::Measures& m) {
+    nlohmann::json object = nlohmann::json::object();
+    for (const auto id : core::k_all_measures) {
+        const double value = core::measure_value(m, id);
+        object[std::string(core::measure_name(id))] = value;
+    }
+    return object;
+}
+
+nlohmann::json function_json(const MeasuredFunction& f) {
+    return {
+        {"file", f.path},
+        {"line", f.start_line},
+        {"end_line", f.end_line},
+        {"function", f.name},
+        {"signature", f.signature},
+        {"extent", f.lexical ? "lexical" : "syntax-tree"},
+        {"measures", measures_json(f.measures)},
+    };
+}
+
+nlohmann::json warnings_json(const std::vector<SourceWarning>& warnings) {
+    nlohmann::json list = nlohmann::json::array();
+    for (const auto& w : warnings) {
+        list.push_back({{"file", w.path}, {"line", w.line}, {"message", w.message}});
+    }
+    return list;
+}
+
+} // namespace
+
+std::string format_number(double value, int decimals) {
+    if (decimals == 0) {
+        return fmt::format("{:.0f}", value);
+    }
+    return fmt::format("{:.{}f}", value, decimals);
+}
+
+void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& functions,
+                        const std::vector<SourceWarning>& warnings, Columns columns,
+                        const std::string& source_label) {
+    if (functions.empty()) {
+        out << "no function definitions found in " << source_label << "\n";
+    } else {
+        const auto& cols = columns_for(columns);
+        std::size_t where_width = std::string("location").size();
+        std::size_t name_width = std::string("function").size();
+        for (const auto& f : functions) {
+            where_width = std::max(where_width, location(f).size());
+            name_width = std::max(name_width, display_name(f).size());
+        }
+        std::vector<std::vector<std::string>> cells;
+        std::vector<double> totals(cols.size(), 0.0);
+        for (const auto& f : functions) {
+            std::vector<std::string> row;
+            for (std::size_t c = 0; c < cols.size(); ++c) {
+                const double value = core::measure_value(f.measures, cols[c].id);
+                totals[c] += value;
+                row.push_back(format_number(value, cols[c].decimals));
+            }
+            cells.push_back(std::move(row));
+        }
+        std::vector<std::size_t> widths;
+        std::vector<std::string> total_row;
+        for (std::size_t c = 0; c < cols.size(); ++c) {
+            std::string total = cols[c].summed ? format_number(totals[c], cols[c].decimals) : "";
+            std::size_t width = std::max(std::string(cols[c].title).size(), total.size());
+            for (const auto& row : cells) {
+                width = std::max(width, row[c].size());
+            }
+            widths.push_back(width);
+            total_row.push_back(std::move(total));
+        }
+        auto write_row = [&](const std::string& where, const std::string& name,
+                             const std::vector<std::string>& values) {
+            std::string line = fmt::format("{:<{}}  {:<{}}", where, where_width, name, name_width);
+            for (std::size_t c = 0; c < values.size(); ++c) {
+                line += fmt::format("  {:>{}}", values[c], widths[c]);
+            }
+            while (!line.empty() && line.back() == ' ') {
+                line.pop_back();
+            }
+            out << line << "\n";
+        };
+        std::vector<std::string> titles;
+        for (const auto& col : cols) {
+            titles.emplace_back(col.title);
+        }
+        write_row("location", "function", titles);
+        for (std::size_t i = 0; i < functions.size(); ++i) {
+            write_row(location(functions[i]), display_name(functions[i]), cells[i]);
+        }
+        write_row(fmt::format("total ({} functions)", functions.size()), "", total_row);
+    }
+    for (const auto& w : warnings) {
+        if (w.line > 0) {
+            out << fmt::format("warning: {}:{}: {}\n", w.path, w.line, w.message);
+        } else {
+            out << fmt::format("warning: {}: {}\n", w.path, w.message);
+        }
+    }
+}
+
+void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& functions,
+                        const std::vector<SourceWarning>& warnings,
+                        const std::string& source_label, const std::string& convention) {
+    nlohmann::json list = nlohmann::json::array();
+    double volume = 0, effort = 0;
+    std::uint64_t n1_total = 0, n2_total = 0;
+    for (const auto& f : functions) {
+        list.push_back(function_json(f));
+        n1_total += f.measures.N1;
+        n2_total += f.measures.N2;
+        volume += f.measures.volume;
+        effort += f.measures.effort;
+    }
+    nlohmann::json document = {
+        {"schema", "tollgate.measure/1"},
+        {"convention", convention},
+        {"source", source_label},
+        {"functions", list},
+        {"total",
+         {{"functions", functions.size()},
+          {"N1", n1_total},
+          {"N2", n2_total},
+          {"volume", volume},
+          {"effort", effort}}},
+        {"warnings", warnings_json(warnings)},
+    };
+    out << document.dump(2) << "\n";
+}
+
+void write_explain_text(std::ostream& out, const MeasuredFunction& f,
+                        const std::string& source_label, const std::string& convention,
+                        double stroud) {
+    out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line,
+                       f.name, f.signature, source_label, convention,
+                       f.lexical ? ", lexical extent" : "");
+    auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
+                           std::uint64_t distinct, std::uint64_t total) {
+        std::vector<std::pair<std::string, core::TableEntry>> rows(table.begin(), table.end());
+        // Most frequent first; ties by token so the order is deterministic.
+        std::stable_sort(rows.begin(), rows.end(), [](const auto& a, const auto& b) {
+            return a.second.count > b.second.count;
+        });
+        std::size_t width = std::string("token").size();
+        for (const auto& row : rows) {
+            width = std::max(width, row.first.size());
+        }
+        out << fmt::format("{} ({} distinct, {} in all)\n", title, distinct, total);
+        out << fmt::format("  {:<{}}  {:>5}  {}\n", "token", width, "count", "counted as");
+        for (const auto& [key, entry] : rows) {
+            std::string line =
+                fmt::format("  {:<{}}  {:>5}  {}", key, width, entry.count, entry.form);
+            while (!line.empty() && line.back() == ' ') {
+                line.pop_back();
+            }
+            out << line << "\n";
+        }
+        out << "\n";
+    };
+    write_table("operators, n1", f.counts.operators, f.counts.distinct_operators,
+                f.counts.total_operators);
+    write_table("operands, n2", f.counts.operands, f.counts.distinct_operands,
+                f.counts.total_operands);
+    const auto& m = f.measures;
+    out << "measures\n";
+    out << fmt::format("  n1 {}  n2 {}  N1 {}  N2 {}\n", m.n1, m.n2, m.N1, m.N2);
+    out << fmt::format("  length        N  = N1 + N2                = {}\n", m.length);
+    out << fmt::format("  vocabulary    n  = n1 + n2                = {}\n", m.vocabulary);
+    out << fmt::format("  est. length   N^ = n1 log2 n1 + n2 log2 n2 = {:.2f}\n",
+                       m.estimated_length);
+    out << fmt::format("  volume        V  = N log2 n               = {:.2f}\n", m.volume);
+    out << fmt::format("  difficulty    D  = (n1/2) (N2/n2)         = {:.2f}\n", m.difficulty);
+    out << fmt::format("  level         L^ = 1/D                    = {:.4f}\n", m.level);
+    out << fmt::format("  effort        E  = D V                    = {:.1f}\n", m.effort);
+    out << fmt::format("  time          T  = E / {:g}                = {:.1f} s\n", stroud,
+                       m.time);
+    out << fmt::format("  bugs          B  = V / 3000               = {:.4f}\n", m.bugs_volume);
+    out << fmt::format("  bugs (effort) B  = E^(2/3) / 3000         = {:.4f}\n", m.bugs_effort);
+    out << fmt::format("  potential vol V* = (2+n2*) log2 (2+n2*)   = {:.2f}  (n2* = {})\n",
+                       m.potential_volume, m.potential_operands);
+    out << fmt::format("  volume ratio  V*/V                        = {:.4f}\n", m.volume_ratio);
+}
+
+void write_explain_json(std::ostream& out, const MeasuredFunction& f,
+                        const std::string& source_label, const std::string& convention) {
+    auto table_json = [](const std::map<std::string, core::TableEntry>& table) {
+        nlohmann::json list = nlohmann::json::array();
+        for (const auto& [key, entry] : table) {
+            list.push_back({{"token", key}, {"count", entry.count}, {"form", entry.form}});
+        }
+        return list;
+    };
+    nlohmann::json document = function_json(f);
+    document["schema"] = "tollgate.explain/1";
+    document["convention"] = convention;
+    document["source"] = source_label;
+    document["operators"] = table_json(f.counts.operators);
+    document["operands"] = table_json(f.counts.operands);
+    out << document.dump(2) << "\n";
+}
+
+} // namespace tollgate::report

@@ -1,0 +1,59 @@
+// SPDX-License-Identifier: MIT
+// Renderers for `tollgate measure` and `tollgate explain`: text tables and JSON.
+#pragma once
+
+#include "tollgate/core/counts.hpp"
+#include "tollgate/core/measures.hpp"
+
+#include <ostream>
+#include <string>
+#include <vector>
+
+namespace tollgate::report {
+
+// One measured function, as the reports show it.
+struct MeasuredFunction {
+    std::string path;            // repository-relative path
+    unsigned start_line = 0;     // first line of the definition
+    unsigned end_line = 0;       // last line of the definition
+    std::string name;            // qualified name
+    std::string signature;       // parameter types
+    bool lexical = false;        // extent came from the lexical cross-check
+    core::Counts counts;         // per-token tables and n1, n2, N1, N2
+    core::Measures measures;     // every measure
+};
+
+// A warning shown under the table.
+struct SourceWarning {
+    std::string path;    // repository-relative path
+    unsigned line = 0;   // 0 when not tied to a line
+    std::string message; // lowercase sentence
+};
+
+// Which columns the measure table shows.
+enum class Columns { essential, all };
+
+// Write the per-function table with a total line to `out`. An empty list writes a one-line
+// "no functions" message instead of an empty table.
+void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& functions,
+                        const std::vector<SourceWarning>& warnings, Columns columns,
+                        const std::string& source_label);
+
+// Write the functions as JSON (schema "tollgate.measure/1") to `out`.
+void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& functions,
+                        const std::vector<SourceWarning>& warnings,
+                        const std::string& source_label, const std::string& convention);
+
+// Write one function's operator and operand tables and its measures as text.
+void write_explain_text(std::ostream& out, const MeasuredFunction& function,
+                        const std::string& source_label, const std::string& convention,
+                        double stroud);
+
+// Write one function's tables and measures as JSON (schema "tollgate.explain/1").
+void write_explain_json(std::ostream& out, const MeasuredFunction& function,
+                        const std::string& source_label, const std::string& convention);
+
+// Return `value` formatted for a table: integers plainly, others with `decimals` places.
+std::string format_number(double value, int decimals);
+
+} // namespace tollgate::report

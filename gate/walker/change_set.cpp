@@ -1,0 +1,316 @@
+// SPDX-License-Identifier: MIT
+// Collect the changed C/C++ files between a base and a head with libgit2's diff, and read them.
+#include "gate/walker/change_set.hpp"
+
+#include "gate/common/errors.hpp"
+#include "gate/walker/libgit2_api.hpp"
+
+#include <algorithm>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <tuple>
+
+namespace tollgate::walker {
+
+namespace {
+
+// Return the reason to skip `delta` before its content is loaded, or nothing to measure it.
+std::optional<SkipReason> skip_by_kind(const git_diff_delta& delta) {
+    if (delta.status == GIT_DELTA_TYPECHANGE) {
+        return SkipReason::type_change;
+    }
+    if (delta.status == GIT_DELTA_UNREADABLE) {
+        return SkipReason::unreadable;
+    }
+    if (delta.old_file.mode == GIT_FILEMODE_COMMIT || delta.new_file.mode == GIT_FILEMODE_COMMIT) {
+        return SkipReason::submodule;
+    }
+    if (delta.old_file.mode == GIT_FILEMODE_LINK || delta.new_file.mode == GIT_FILEMODE_LINK) {
+        return SkipReason::symlink;
+    }
+    return std::nullopt;
+}
+
+std::optional<ChangeStatus> status_of(git_delta_t status) {
+    switch (status) {
+    case GIT_DELTA_ADDED:
+    case GIT_DELTA_UNTRACKED:
+    case GIT_DELTA_COPIED:
+        return ChangeStatus::added;
+    case GIT_DELTA_DELETED:
+        return ChangeStatus::deleted;
+    case GIT_DELTA_MODIFIED:
+    case GIT_DELTA_CONFLICTED:
+        return ChangeStatus::modified;
+    case GIT_DELTA_RENAMED:
+        return ChangeStatus::renamed;
+    default:
+        return std::nullopt; // unmodified, ignored: not a change
+    }
+}
+
+// Return every line of `content` as a set (1..number of lines; a last line without a newline
+// counts).
+LineSet whole_file(const std::string& content) {
+    const auto newlines = static_cast<unsigned>(std::count(content.begin(), content.end(), '\n'));
+    const unsigned lines = newlines + ((content.empty() || content.back() == '\n') ? 0U : 1U);
+    LineSet set;
+    set.add(1, lines);
+    return set;
+}
+
+std::optional<std::string> read_disk_file(const std::string& path) {
+    std::error_code error;
+    if (!std::filesystem::is_regular_file(std::filesystem::symlink_status(path, error))) {
+        return std::nullopt;
+    }
+    std::ifstream in(path, std::ios::binary);
+    if (!in) {
+        return std::nullopt;
+    }
+    std::ostringstream buffer;
+    buffer << in.rdbuf();
+    return buffer.str();
+}
+
+bool working_tree_head(const ChangeSet& changes) {
+    return changes.range.head_source == HeadSource::worktree;
+}
+
+std::string sort_path(const std::string& base_path, const std::string& head_path) {
+    return head_path.empty() ? base_path : head_path;
+}
+
+std::string quoted_path(const ChangedFile& file) {
+    return "\"" + sort_path(file.base_path, file.head_path) + "\"";
+}
+
+// Build the diff of `range` with zero context lines; untracked files count in the working tree.
+git::Owned<git_diff> diff_range(const Repository& repository, const ResolvedRange& range) {
+    git_repository* repo = git::handle_of(repository);
+    const git::Owned<git_tree> base_tree = git::commit_tree(repository, range.base);
+    git_diff_options options = GIT_DIFF_OPTIONS_INIT;
+    options.context_lines = 0;
+    options.interhunk_lines = 0;
+    // The indent heuristic is git's default since 2.14; without it hunks may slide elsewhere.
+    options.flags = GIT_DIFF_INCLUDE_TYPECHANGE | GIT_DIFF_INDENT_HEURISTIC;
+    git_diff* raw = nullptr;
+    if (range.head_source == HeadSource::worktree) {
+        options.flags |= GIT_DIFF_INCLUDE_UNTRACKED | GIT_DIFF_RECURSE_UNTRACKED_DIRS |
+                         GIT_DIFF_SHOW_UNTRACKED_CONTENT;
+        git::check(git_diff_tree_to_workdir_with_index(&raw, repo, base_tree.get(), &options),
+                   "cannot compare " + range.base.short_hex() + " with the working tree");
+    } else {
+        const git::Owned<git_tree> head_tree = git::commit_tree(repository, range.head);
+        git::check(git_diff_tree_to_tree(&raw, repo, base_tree.get(), head_tree.get(), &options),
+                   "cannot compare " + range.base.short_hex() + " with " + range.head.short_hex());
+    }
+    return git::Owned<git_diff>(raw);
+}
+
+// Run rename detection on `diff` unless `options` turn it off or the diff is too large; return a
+// note when it was skipped for size.
+std::string find_renames(git_diff* diff, const ResolvedRange& range, const ChangeOptions& options) {
+    if (options.renames == RenameDetection::off) {
+        return {};
+    }
+    const std::size_t changed = git_diff_num_deltas(diff);
+    if (changed > options.rename_file_limit) {
+        return "rename detection skipped: " + std::to_string(changed) +
+               " changed files exceed the limit of " + std::to_string(options.rename_file_limit) +
+               " (moved files show as deleted and added)";
+    }
+    git_diff_find_options find = GIT_DIFF_FIND_OPTIONS_INIT;
+    find.flags = GIT_DIFF_FIND_RENAMES;
+    if (range.head_source == HeadSource::worktree) {
+        find.flags |= GIT_DIFF_FIND_FOR_UNTRACKED;
+    }
+    find.rename_threshold = static_cast<std::uint16_t>(options.rename_threshold);
+    // libgit2 reads 0 as "use diff.renameLimit", so keep at least one candidate.
+    find.rename_limit = std::max<std::size_t>(1, options.rename_limit);
+    git::check(git_diff_find_similar(diff, &find), "cannot detect renames");
+    return {};
+}
+
+// Fill the changed lines of `file` from the zero-context patch of delta `index`; return false when
+// git sees binary content.
+bool collect_lines(git_diff* diff, std::size_t index, ChangedFile& file) {
+    git_patch* raw = nullptr;
+    git::check(git_patch_from_diff(&raw, diff, index),
+               "cannot compute the diff of " + quoted_path(file));
+    const git::Owned<git_patch> patch(raw);
+    if (raw == nullptr || (git_patch_get_delta(raw)->flags & GIT_DIFF_FLAG_BINARY) != 0) {
+        return false;
+    }
+    const std::size_t hunks = git_patch_num_hunks(raw);
+    for (std::size_t hunk = 0; hunk < hunks; ++hunk) {
+        const int lines = git::check(git_patch_num_lines_in_hunk(raw, hunk), "cannot read a hunk");
+        for (int line = 0; line < lines; ++line) {
+            const git_diff_line* diff_line = nullptr;
+            git::check(
+                git_patch_get_line_in_hunk(&diff_line, raw, hunk, static_cast<std::size_t>(line)),
+                "cannot read a diff line");
+            if (diff_line->origin == GIT_DIFF_LINE_DELETION && diff_line->old_lineno > 0) {
+                file.base_lines.add(static_cast<unsigned>(diff_line->old_lineno));
+            } else if (diff_line->origin == GIT_DIFF_LINE_ADDITION && diff_line->new_lineno > 0) {
+                file.head_lines.add(static_cast<unsigned>(diff_line->new_lineno));
+            }
+        }
+    }
+    return true;
+}
+
+} // namespace
+
+const char* status_name(ChangeStatus status) {
+    switch (status) {
+    case ChangeStatus::added:
+        return "added";
+    case ChangeStatus::modified:
+        return "modified";
+    case ChangeStatus::deleted:
+        return "deleted";
+    case ChangeStatus::renamed:
+        return "renamed";
+    }
+    return "modified";
+}
+
+const char* skip_reason_text(SkipReason reason) {
+    switch (reason) {
+    case SkipReason::binary:
+        return "binary";
+    case SkipReason::submodule:
+        return "submodule";
+    case SkipReason::symlink:
+        return "symlink";
+    case SkipReason::type_change:
+        return "type change (deleted and re-added as another kind of entry)";
+    case SkipReason::not_c_family:
+        return "not C/C++";
+    case SkipReason::unreadable:
+        return "unreadable";
+    }
+    return "not C/C++";
+}
+
+ChangeSet collect_changes(const Repository& repository, const ResolvedRange& range,
+                          const ChangeOptions& options) {
+    ChangeSet changes;
+    changes.range = range;
+    const git::Owned<git_diff> diff = diff_range(repository, range);
+    const std::string rename_note = find_renames(diff.get(), range, options);
+    if (!rename_note.empty()) {
+        changes.notes.push_back(rename_note);
+    }
+    const bool worktree = range.head_source == HeadSource::worktree;
+    const std::size_t count = git_diff_num_deltas(diff.get());
+    for (std::size_t index = 0; index < count; ++index) {
+        const git_diff_delta& delta = *git_diff_get_delta(diff.get(), index);
+        const std::optional<ChangeStatus> status = status_of(delta.status);
+        const bool is_type_change =
+            delta.status == GIT_DELTA_TYPECHANGE || delta.status == GIT_DELTA_UNREADABLE;
+        if (!status && !is_type_change) {
+            continue;
+        }
+        ChangedFile file;
+        if (status != ChangeStatus::added) {
+            file.base_path = delta.old_file.path;
+        }
+        if (status != ChangeStatus::deleted) {
+            file.head_path = delta.new_file.path;
+        }
+        const bool base_c = !file.base_path.empty() && is_c_family_path(file.base_path);
+        const bool head_c = !file.head_path.empty() && is_c_family_path(file.head_path);
+        std::optional<SkipReason> skip = skip_by_kind(delta);
+        if (!skip && !base_c && !head_c) {
+            skip = SkipReason::not_c_family;
+        }
+        if (!skip) {
+            file.status = *status;
+            // A rename across the C/C++ boundary is, for measuring, a deletion or an addition.
+            const bool crosses = file.status == ChangeStatus::renamed && base_c != head_c;
+            if (crosses) {
+                file.status = base_c ? ChangeStatus::deleted : ChangeStatus::added;
+                (base_c ? file.head_path : file.base_path).clear();
+            } else if (file.status == ChangeStatus::renamed) {
+                file.similarity = delta.similarity;
+            }
+            if (!file.base_path.empty()) {
+                file.base_blob = git::to_object_id(delta.old_file.id);
+            }
+            if (!file.head_path.empty() && !worktree) {
+                file.head_blob = git::to_object_id(delta.new_file.id);
+            }
+            if (!collect_lines(diff.get(), index, file)) {
+                skip = SkipReason::binary;
+            } else if (crosses) {
+                file.base_lines = LineSet();
+                file.head_lines = LineSet();
+                const std::optional<SourceFile> content =
+                    read_side(repository, changes, file, base_c ? Side::base : Side::head);
+                (base_c ? file.base_lines : file.head_lines) =
+                    whole_file(content ? content->content : std::string());
+            }
+        }
+        if (skip) {
+            SkippedFile skipped;
+            if (delta.status != GIT_DELTA_ADDED && delta.status != GIT_DELTA_UNTRACKED) {
+                skipped.base_path = delta.old_file.path;
+            }
+            if (delta.status != GIT_DELTA_DELETED) {
+                skipped.head_path = delta.new_file.path;
+            }
+            skipped.reason = *skip;
+            changes.skipped.push_back(std::move(skipped));
+        } else {
+            changes.files.push_back(std::move(file));
+        }
+    }
+    std::sort(changes.files.begin(), changes.files.end(),
+              [](const ChangedFile& a, const ChangedFile& b) {
+                  return std::make_tuple(sort_path(a.base_path, a.head_path), a.base_path) <
+                         std::make_tuple(sort_path(b.base_path, b.head_path), b.base_path);
+              });
+    std::sort(changes.skipped.begin(), changes.skipped.end(),
+              [](const SkippedFile& a, const SkippedFile& b) {
+                  return std::make_tuple(sort_path(a.base_path, a.head_path), a.base_path) <
+                         std::make_tuple(sort_path(b.base_path, b.head_path), b.base_path);
+              });
+    return changes;
+}
+
+std::optional<SourceFile> read_side(const Repository& repository, const ChangeSet& changes,
+                                    const ChangedFile& file, Side side) {
+    if (side == Side::base) {
+        if (file.base_path.empty()) {
+            return std::nullopt;
+        }
+        return SourceFile{file.base_path, repository.read_blob(file.base_blob)};
+    }
+    if (file.head_path.empty()) {
+        return std::nullopt;
+    }
+    if (working_tree_head(changes)) {
+        std::optional<std::string> content = read_disk_file(repository.workdir() + file.head_path);
+        if (!content) {
+            return std::nullopt;
+        }
+        return SourceFile{file.head_path, std::move(*content)};
+    }
+    return SourceFile{file.head_path, repository.read_blob(file.head_blob)};
+}
+
+std::vector<SourceFile> read_side_tree(const Repository& repository, const ChangeSet& changes,
+                                       Side side) {
+    if (side == Side::base) {
+        return repository.read_c_family_files(changes.range.base);
+    }
+    if (working_tree_head(changes)) {
+        return repository.read_worktree_c_family_files();
+    }
+    return repository.read_c_family_files(changes.range.head);
+}
+
+} // namespace tollgate::walker
