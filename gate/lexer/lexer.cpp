@@ -109,6 +109,14 @@ struct ParameterList {
 // Return the parameter type spellings of `cursor`.
 std::vector<std::string> parameter_types(CXCursor cursor) {
     ParameterList list;
+    const int count = clang_Cursor_getNumArguments(cursor);
+    if (count >= 0) {
+        for (int i = 0; i < count; ++i) {
+            list.types.push_back(take_string(clang_getTypeSpelling(
+                clang_getCursorType(clang_Cursor_getArgument(cursor, static_cast<unsigned>(i))))));
+        }
+        return list.types;
+    }
     clang_visitChildren(
         cursor,
         [](CXCursor child, CXCursor, CXClientData data) {

@@ -570,6 +570,7 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                                                 : 0);
                     state.pending = std::move(definition);
                     state.pending_body = body;
+                    continue; // the parameter list is skipped with the rest of the header
                 }
             }
             ++state.paren_depth;

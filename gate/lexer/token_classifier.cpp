@@ -367,7 +367,8 @@ private:
         const bool after_template_keyword =
             i >= m_range.begin + 2 && is_keyword(m_tokens[i - 2], "template");
         if (name.basis == Basis::syntax_tree &&
-            (name.name == NameKind::type || name.name == NameKind::function)) {
+            (name.name == NameKind::type || name.name == NameKind::function ||
+             name.name == NameKind::defined)) {
             open_template(raw, Basis::syntax_tree);
             return;
         }

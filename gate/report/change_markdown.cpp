@@ -45,6 +45,19 @@ std::string cell_text(const std::string& text) {
     return escaped;
 }
 
+// Put a function name in a code span; only the pipe needs escaping there inside a table.
+std::string code_cell(const std::string& text) {
+    std::string escaped;
+    for (char c : text) {
+        if (c == '|') {
+            escaped += "\\|";
+        } else {
+            escaped += c;
+        }
+    }
+    return "`" + escaped + "`";
+}
+
 std::string pair_cell(const FunctionDelta& f, MeasureId id, int decimals) {
     const auto value = [&](const std::optional<delta::FunctionSide>& side) {
         if (!side) {
@@ -85,7 +98,7 @@ void write_table(std::ostream& out, const ChangeReport& report, const RenderOpti
     for (std::size_t i = first; i < last; ++i) {
         const FunctionDelta& f = report.functions[i];
         out << fmt::format("| {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
-                           cell_text(f.name), location_cell(f, report, options),
+                           code_cell(f.name), location_cell(f, report, options),
                            pair_cell(f, MeasureId::volume, 1),
                            pair_cell(f, MeasureId::difficulty, 2),
                            pair_cell(f, MeasureId::effort, 0), growth_cell(f));

@@ -4,6 +4,7 @@
 
 #include "gate/common/errors.hpp"
 #include "gate/walker/libgit2_api.hpp"
+#include "gate/walker/rename_similarity.hpp"
 
 #include <algorithm>
 #include <filesystem>
@@ -129,6 +130,10 @@ std::string find_renames(git_diff* diff, const ResolvedRange& range, const Chang
     find.rename_threshold = static_cast<std::uint16_t>(options.rename_threshold);
     // libgit2 reads 0 as "use diff.renameLimit", so keep at least one candidate.
     find.rename_limit = std::max<std::size_t>(1, options.rename_limit);
+    // Score candidates as git does, so a rename here is a rename in the user's git diff.
+    const unsigned threshold = options.rename_threshold;
+    git_diff_similarity_metric metric = make_similarity_metric(&threshold);
+    find.metric = &metric;
     git::check(git_diff_find_similar(diff, &find), "cannot detect renames");
     return {};
 }

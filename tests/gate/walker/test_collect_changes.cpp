@@ -37,8 +37,9 @@ struct GitFileDiff {
     std::string head_path; // empty for a deleted file
     ChangeStatus status = ChangeStatus::modified;
     bool binary = false;
-    LineSet base_lines; // from the "-a,b" half of each hunk header
-    LineSet head_lines; // from the "+c,d" half
+    unsigned similarity = 0; // "similarity index N%" of a rename
+    LineSet base_lines;      // from the "-a,b" half of each hunk header
+    LineSet head_lines;      // from the "+c,d" half
 };
 
 // Parse "a[,b]" of a hunk header into the inclusive range it covers (empty when b is 0).
@@ -84,6 +85,8 @@ std::map<std::string, GitFileDiff> git_reference_diff(const std::string& dir,
         } else if (line.rfind("deleted file mode", 0) == 0) {
             current->head_path.clear();
             current->status = ChangeStatus::deleted;
+        } else if (line.rfind("similarity index ", 0) == 0) {
+            current->similarity = static_cast<unsigned>(std::stoul(line.substr(17)));
         } else if (line.rfind("rename from ", 0) == 0) {
             current->status = ChangeStatus::renamed;
         } else if (line.rfind("Binary files ", 0) == 0) {
@@ -124,6 +127,7 @@ void check_against_git(const ChangeSet& changes, const std::string& dir,
         CHECK(file.base_path == found->second.base_path);
         CHECK(file.head_path == found->second.head_path);
         CHECK(file.status == found->second.status);
+        CHECK(file.similarity == found->second.similarity);
         CHECK(file.base_lines.ranges() == found->second.base_lines.ranges());
         CHECK(file.head_lines.ranges() == found->second.head_lines.ranges());
     }
