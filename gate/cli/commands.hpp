@@ -3,7 +3,6 @@
 #pragma once
 
 #include <CLI/CLI.hpp>
-
 #include <functional>
 #include <string>
 #include <vector>
@@ -30,5 +29,6 @@ const std::vector<CommandEntry>& command_table();
 void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_measure(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_explain(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
+void attach_policy(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 
 } // namespace tollgate

@@ -9,8 +9,10 @@
 #include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 
+#include <algorithm>
 #include <cstdio>
 #include <exception>
+#include <string>
 
 namespace tollgate {
 
@@ -53,7 +55,13 @@ int run_cli(int argc, char** argv) {
     try {
         return selected ? selected() : static_cast<int>(ExitCode::usage);
     } catch (const UsageError& e) {
-        std::fprintf(stderr, "tollgate: error: %s\n", e.what());
+        // A broken policy carries one message per line; each gets the prefix.
+        const std::string text = e.what();
+        for (std::size_t start = 0; start <= text.size();) {
+            const std::size_t end = std::min(text.find('\n', start), text.size());
+            std::fprintf(stderr, "tollgate: error: %s\n", text.substr(start, end - start).c_str());
+            start = end + 1;
+        }
         return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
         std::fprintf(stderr, "tollgate: error: %s%s\n", e.what(),

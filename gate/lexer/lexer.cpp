@@ -358,6 +358,17 @@ std::optional<FoundFunction> locate(CXCursor cursor, CXFile main_file,
     return found;
 }
 
+// Return true when `cursor` starts inside a macro expansion.
+bool from_macro(CXCursor cursor) {
+    const CXSourceLocation start = clang_getRangeStart(clang_getCursorExtent(cursor));
+    unsigned spelling = 0;
+    CXFile spelling_file = nullptr;
+    clang_getSpellingLocation(start, &spelling_file, nullptr, nullptr, &spelling);
+    CXFile expansion_file = nullptr;
+    const unsigned expansion = expansion_offset(start, &expansion_file);
+    return spelling != expansion || spelling_file != expansion_file;
+}
+
 // Return the `{` that opens the body ending at `last`, or `first` when braces do not match.
 std::size_t body_open(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t last) {
     if (!is_punct(tokens[last], "}")) {
@@ -583,13 +594,32 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     };
     std::vector<Pending> pending;
     std::vector<std::pair<std::size_t, std::size_t>> taken; // token ranges of parsed functions
+    std::vector<FoundFunction> located;
     for (const CXCursor& cursor : collector.functions) {
-        auto found = locate(cursor, main_file, tokens);
-        if (!found) {
+        if (auto found = locate(cursor, main_file, tokens)) {
+            located.push_back(*found);
+        }
+    }
+    // The widest extent first, so a template's header beats a repeat of its pattern.
+    std::stable_sort(located.begin(), located.end(),
+                     [](const FoundFunction& a, const FoundFunction& b) {
+                         return a.first != b.first ? a.first < b.first : a.last > b.last;
+                     });
+    for (const FoundFunction& candidate : located) {
+        const FoundFunction* found = &candidate;
+        const CXCursor cursor = candidate.cursor;
+        // Explicit instantiations and defaulted members have no body to measure; a function
+        // made whole by one macro invocation has none in this file either, but is kept.
+        const bool has_body = std::any_of(tokens.begin() + static_cast<long>(found->first),
+                                          tokens.begin() + static_cast<long>(found->last) + 1,
+                                          [](const SourceToken& t) { return is_punct(t, "{"); });
+        if (!has_body && !from_macro(cursor)) {
             continue;
         }
+        // An explicit instantiation reports its pattern's extent again: functions never nest,
+        // so an overlap is always such a repeat.
         const bool duplicate = std::any_of(taken.begin(), taken.end(), [&](const auto& range) {
-            return range.first == found->first && range.second == found->last;
+            return found->first <= range.second && range.first <= found->last;
         });
         if (duplicate) {
             continue;

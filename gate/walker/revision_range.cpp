@@ -41,11 +41,17 @@ ObjectId resolve_present(const Repository& repository, const std::string& revisi
                          const std::string& role) {
     try {
         return repository.resolve_commit(revision, role);
-    } catch (const UsageError&) {
+    } catch (const UsageError& error) {
+        // Only "not found" can mean "cut off"; an ambiguous id or a tree keeps its own message.
+        const bool not_found =
+            std::string(error.what()).find(": reference not found") != std::string::npos;
+        if (!not_found || !is_shallow(repository)) {
+            throw;
+        }
         const bool cut_off = is_hex_id(revision) ||
                              revision.find_first_of("~^") != std::string::npos ||
                              names_existing_reference(repository, revision);
-        if (!is_shallow(repository) || !cut_off) {
+        if (!cut_off) {
             throw;
         }
         const std::string shown = is_hex_id(revision) ? revision.substr(0, 7) : quoted(revision);

@@ -8,6 +8,7 @@
 #include <nlohmann/json.hpp>
 
 #include <cmath>
+#include <fstream>
 
 using tollgate::test::commit_all;
 using tollgate::test::git;
@@ -319,4 +320,77 @@ TEST_CASE("check writes a Markdown table that a GFM renderer renders as a table"
     CHECK(rows == 15 + 2); // 15 functions plus two header rows
     CHECK(rendered.out.find("<td align=\"right\">") != std::string::npos);
     CHECK(rendered.out.find("<td><code>operator|</code></td>") != std::string::npos);
+}
+
+TEST_CASE("check --worktree compares staged and unstaged edits with HEAD", "[check]") {
+    TempDir dir;
+    init_repo(dir.path());
+    dir.write("a.c", "int first(int v) {\n    return v;\n}\n");
+    dir.write("b.c", "int second(int v) {\n    return v;\n}\n");
+    commit_all(dir.path(), "base");
+    dir.write("a.c", "int first(int v) {\n    return v + 1;\n}\n");
+    git("add a.c", dir.path()); // staged
+    dir.write("b.c", "int second(int v) {\n    return v - 1;\n}\n"); // unstaged
+    dir.write("c.c", "int third(int v) {\n    return v * 3;\n}\n");  // untracked
+    const auto report = check_json(dir.path(), "--worktree");
+    CHECK(touched_set(report) ==
+          std::vector<std::string>{"added third", "changed first", "changed second"});
+    CHECK(report["head"]["commit"].is_null());
+    CHECK(report["head"]["label"] == "working tree");
+}
+
+TEST_CASE("check gives the same report on one thread and on all cores", "[check]") {
+    TempDir dir;
+    init_repo(dir.path());
+    for (int i = 0; i < 6; ++i) {
+        dir.write("f" + std::to_string(i) + ".cpp",
+                  "int work" + std::to_string(i) + "(int v) {\n    return v + " +
+                      std::to_string(i) + ";\n}\n");
+    }
+    const std::string base = commit_all(dir.path(), "base");
+    for (int i = 0; i < 6; ++i) {
+        dir.write("f" + std::to_string(i) + ".cpp",
+                  "int work" + std::to_string(i) + "(int v) {\n    return v * v - " +
+                      std::to_string(i) + ";\n}\n");
+    }
+    const std::string head = commit_all(dir.path(), "head");
+    const std::string range = "--base " + base + " --head " + head + " --report json:-";
+    const auto one = run_tollgate("check -j 1 --no-pch-cache " + range, dir.path());
+    const auto many = run_tollgate("check -j 4 --no-pch-cache " + range, dir.path());
+    REQUIRE(one.exit_code == 0);
+    REQUIRE(many.exit_code == 0);
+    CHECK(nlohmann::json::parse(one.out)["functions"].size() == 6);
+    CHECK(one.out == many.out);
+}
+
+TEST_CASE("check in a shallow clone compares present commits directly or names the remedy",
+          "[check]") {
+    TempDir dir;
+    const std::string origin = dir.path() + "/origin";
+    init_repo(origin);
+    for (int i = 0; i < 4; ++i) {
+        const std::string path = origin + "/main.c";
+        std::ofstream(path) << "int step(int v) {\n    return v + " << i << ";\n}\n";
+        commit_all(origin, "commit " + std::to_string(i));
+    }
+    git("branch feature", origin);
+    git("checkout -q feature", origin);
+    std::ofstream(origin + "/main.c") << "int step(int v) {\n    return v * 9;\n}\n";
+    commit_all(origin, "feature change");
+    git("checkout -q main", origin);
+
+    SECTION("depth 1 of the feature branch lacks the base: exit 2 with the remedy") {
+        git("clone -q --depth 1 --branch feature file://" + origin + " shallow1", dir.path());
+        const auto result =
+            run_tollgate("check --base main~3 --no-pch-cache", dir.path() + "/shallow1");
+        CHECK(result.exit_code == 2);
+        CHECK(result.err.find("shallow") != std::string::npos);
+        CHECK(result.err.find("git fetch --unshallow") != std::string::npos);
+    }
+    SECTION("depth 2 holds base and head: they are compared directly") {
+        git("clone -q --depth 2 --branch feature file://" + origin + " shallow2", dir.path());
+        const auto report =
+            check_json(dir.path() + "/shallow2", "--base HEAD~1 --head HEAD");
+        CHECK(touched_set(report) == std::vector<std::string>{"changed step"});
+    }
 }

@@ -290,6 +290,7 @@ TEST_CASE("collect_changes matches git diff over a scripted history", "[walker]"
     dir.write("src/legacy.c", numbered_lines(15));
     dir.write("src/mover.cpp", numbered_lines(40));
     dir.write("src/slide.c", functions_text({"a", "c"}));
+    dir.write("src/spaces.c", "int one;\nint two;\nint a;\n\nint b;\nint three;\n");
     commits.push_back(commit_all(root, "c0"));
 
     // c1: insertion at the top, a deleted block, a replaced line, an append, a deletion, an add.
@@ -299,6 +300,10 @@ TEST_CASE("collect_changes matches git diff over a scripted history", "[walker]"
     dir.write("src/util.h", numbered_lines(10) + "int tail1;\nint tail2;\n");
     fs::remove(fs::path(root) / "src/legacy.c");
     dir.write("src/fresh.cc", numbered_lines(6));
+    // A repeated block whose hunk can slide: git's indent heuristic places it (checked: git's
+    // output differs with --no-indent-heuristic).
+    dir.write("src/spaces.c",
+              "int one;\nint two;\nint a;\n\nint b;\nint a;\n\nint b;\nint three;\n");
     commits.push_back(commit_all(root, "c1"));
 
     // c2: a rename with edits, a function inserted where hunks can slide, a lost final newline.
@@ -407,10 +412,10 @@ TEST_CASE("collect_changes in the working tree", "[walker]") {
     dir.write("src/a.cpp", a); // and an unstaged one on top
     std::string b = numbered_lines(10);
     b.replace(b.find("int v5 = 5;"), 11, "int v5 = 50;");
-    dir.write("src/b.cpp", b);                           // unstaged only
-    dir.write("src/c.cpp", numbered_lines(3));           // untracked
-    dir.write("src/scratch.tmp.cpp", numbered_lines(3)); // ignored
-    fs::remove(fs::path(root) / "src/gone.cpp");         // deleted, not staged
+    dir.write("src/b.cpp", b);                             // unstaged only
+    dir.write("src/c.cpp", "int c1;\nint c2;\nint c3;\n"); // untracked
+    dir.write("src/scratch.tmp.cpp", numbered_lines(3));   // ignored
+    fs::remove(fs::path(root) / "src/gone.cpp");           // deleted, not staged
 
     const Repository repo = Repository::open(root);
     RevisionRange worktree;

@@ -1,0 +1,186 @@
+// SPDX-License-Identifier: MIT
+// The SARIF 2.1.0 writer: rules from the policy, results from the verdict's findings.
+#include "gate/report/sarif.hpp"
+
+#include "gate/policy/judge.hpp"
+
+#include <cctype>
+#include <cstdio>
+#include <nlohmann/json.hpp>
+
+namespace tollgate::report {
+
+namespace {
+
+using nlohmann::json;
+
+const char* const k_sarif_schema =
+    "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json";
+
+std::string describe_rule(const policy::Rule& rule) {
+    using policy::format_amount;
+    using policy::Sign;
+    const std::string measure(core::measure_name(rule.measure));
+    switch (rule.kind) {
+    case policy::RuleKind::growth: {
+        std::string limits;
+        if (rule.max_increase) {
+            limits = "by at most " + format_amount(*rule.max_increase, Sign::always);
+        }
+        if (rule.max_increase_percent) {
+            limits += (limits.empty() ? "by at most " : " and at most ") +
+                      format_amount(*rule.max_increase_percent, Sign::always) + "%";
+        }
+        return "A changed or moved function's " + measure + " may grow " + limits + ".";
+    }
+    case policy::RuleKind::added_ceiling:
+        return "A new function's " + measure + " may be at most " +
+               format_amount(rule.ceiling.value_or(0), Sign::as_is) + ".";
+    case policy::RuleKind::ceiling:
+        return "A touched function's " + measure + " may be at most " +
+               format_amount(rule.ceiling.value_or(0), Sign::as_is) + " in head.";
+    case policy::RuleKind::budget:
+        return "The " + measure + " increases of all touched functions may sum to at most " +
+               format_amount(rule.max_total_increase.value_or(0), Sign::always) + ".";
+    }
+    return "";
+}
+
+std::string short_rule(const policy::Rule& rule) {
+    const std::string measure(core::measure_name(rule.measure));
+    switch (rule.kind) {
+    case policy::RuleKind::growth:
+        return measure + " growth of a changed function";
+    case policy::RuleKind::added_ceiling:
+        return measure + " ceiling for a new function";
+    case policy::RuleKind::ceiling:
+        return measure + " ceiling for a touched function";
+    case policy::RuleKind::budget:
+        return measure + " budget for the whole change";
+    }
+    return measure;
+}
+
+const char* sarif_level(policy::Level level) {
+    return level == policy::Level::blocking ? "error" : "warning";
+}
+
+json physical_location(const std::string& path, unsigned start_line, unsigned end_line) {
+    json location = {
+        {"physicalLocation",
+         {{"artifactLocation", {{"uri", path_to_uri(path)}, {"uriBaseId", "SRCROOT"}}}}}};
+    if (start_line > 0) {
+        json region = {{"startLine", start_line}};
+        if (end_line >= start_line) {
+            region["endLine"] = end_line;
+        }
+        location["physicalLocation"]["region"] = region;
+    }
+    return location;
+}
+
+// The in-scope function whose `measure` grew most, to anchor a budget finding; or none.
+const delta::FunctionDelta* largest_growth(const delta::ChangeReport& report,
+                                           const policy::Policy& policy, core::MeasureId measure) {
+    const delta::FunctionDelta* best = nullptr;
+    double best_growth = 0;
+    for (const auto& f : report.functions) {
+        if (!f.head || !policy::in_scope(policy.paths, f.head->path)) {
+            continue;
+        }
+        const double growth = f.delta(measure).absolute;
+        if (best == nullptr || growth > best_growth) {
+            best = &f;
+            best_growth = growth;
+        }
+    }
+    return best;
+}
+
+} // namespace
+
+std::string path_to_uri(const std::string& path) {
+    std::string uri;
+    for (const char c : path) {
+        const auto byte = static_cast<unsigned char>(c);
+        if (std::isalnum(byte) || c == '-' || c == '.' || c == '_' || c == '~' || c == '/') {
+            uri += c;
+        } else {
+            char escaped[4];
+            std::snprintf(escaped, sizeof escaped, "%%%02X", byte);
+            uri += escaped;
+        }
+    }
+    return uri;
+}
+
+void write_sarif(std::ostream& out, const delta::ChangeReport& report,
+                 const policy::Verdict& verdict, const policy::Policy& policy) {
+    json rules = json::array();
+    for (const auto& rule : policy.rules) {
+        rules.push_back({
+            {"id", rule.id},
+            {"name", rule.id},
+            {"shortDescription", {{"text", short_rule(rule)}}},
+            {"fullDescription", {{"text", describe_rule(rule)}}},
+            {"defaultConfiguration", {{"level", sarif_level(rule.level)}}},
+            {"properties",
+             {{"kind", policy::rule_kind_name(rule.kind)},
+              {"measure", std::string(core::measure_name(rule.measure))}}},
+        });
+    }
+
+    json results = json::array();
+    for (const auto& finding : verdict.findings) {
+        json result = {
+            {"ruleId", finding.rule_id},
+            {"level", sarif_level(finding.level)},
+            {"message", {{"text", finding.message}}},
+            {"properties",
+             {{"measure", std::string(core::measure_name(finding.measure))},
+              {"value", finding.value},
+              {"limit", finding.limit},
+              {"excess", finding.excess},
+              {"unit", finding.percent ? "percent" : "measure"}}},
+        };
+        for (std::size_t i = 0; i < policy.rules.size(); ++i) {
+            if (policy.rules[i].id == finding.rule_id) {
+                result["ruleIndex"] = i;
+            }
+        }
+        if (finding.grandfathered) {
+            result["baselineState"] = "unchanged";
+        }
+        if (!finding.path.empty()) {
+            result["locations"] = json::array(
+                {physical_location(finding.path, finding.start_line, finding.end_line)});
+            result["partialFingerprints"] = {
+                {"tollgateFunction/v1", finding.rule_id + ":" + finding.path + ":" +
+                                            finding.function + "(" + finding.signature + ")"}};
+        } else if (const auto* anchor = largest_growth(report, policy, finding.measure)) {
+            result["locations"] = json::array({physical_location(
+                anchor->head->path, anchor->head->start_line, anchor->head->end_line)});
+        }
+        results.push_back(std::move(result));
+    }
+
+    json run = {
+        {"tool",
+         {{"driver", {{"name", "tollgate"}, {"version", TOLLGATE_VERSION}, {"rules", rules}}}}},
+        {"originalUriBaseIds",
+         {{"SRCROOT", {{"description", {{"text", "The root of the repository."}}}}}}},
+        {"results", results},
+        {"properties",
+         {{"outcome", policy::outcome_name(verdict.outcome)},
+          {"policyOrigin", verdict.policy_origin},
+          {"baseCommit", report.base_commit},
+          {"headCommit", report.head_commit},
+          {"convention", report.convention},
+          {"notes", verdict.notes}}},
+    };
+    const json log = {
+        {"$schema", k_sarif_schema}, {"version", "2.1.0"}, {"runs", json::array({run})}};
+    out << log.dump(2) << "\n";
+}
+
+} // namespace tollgate::report

@@ -1,0 +1,43 @@
+#!/usr/bin/env bash
+# SPDX-License-Identifier: MIT
+# Benchmark `tollgate check` on a generated change of 10 C++ files of about 500 lines (classes
+# declared in headers) against the floor measured in the same run: the same 20 blobs parsed by
+# bare libclang with naive settings (full parse, no precompiled header, one thread).
+# Run by hand after building: bash tests/bench/bench_check.sh [build-dir]
+set -euo pipefail
+here=$(cd "$(dirname "$0")" && pwd)
+build=${1:-$here/../../build}
+tollgate=$build/gate/tollgate
+naive=$build/tests/tollgate_naive_parse
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+
+python3 "$here/gen_change.py" "$work/repo" 10 500 >/dev/null
+cd "$work/repo"
+echo "generated: $(git ls-files | wc -l) files, $(cat src/*.cpp | wc -l) lines of .cpp in head"
+
+# The 20 blobs (10 .cpp files on each side), extracted for the floor.
+mkdir -p "$work/base/src" "$work/head/src"
+git archive HEAD~1 | tar -x -C "$work/base"
+git archive HEAD | tar -x -C "$work/head"
+floor=$("$naive" -I "$work/base/src" "$work"/base/src/*.cpp | awk '{print $2}')
+floor_head=$("$naive" -I "$work/head/src" "$work"/head/src/*.cpp | awk '{print $2}')
+floor=$(python3 -c "print($floor + $floor_head)")
+
+cache=$work/cache
+measure() { # $1 label, rest: command
+    local label=$1; shift
+    local start end
+    start=$(date +%s.%N)
+    /usr/bin/time -f "%M" -o "$work/mem" "$@" >/dev/null
+    end=$(date +%s.%N)
+    python3 -c "print(f'{\"$label\":<44} {($end - $start):7.3f} s   peak {int(open(\"$work/mem\").read().split()[-1])/1024:6.1f} MiB')"
+    python3 -c "print($end - $start)" >"$work/last"
+}
+measure "check, cold PCH cache, all cores" "$tollgate" check --base HEAD~1 --cache-dir "$cache"
+measure "check, warm PCH cache, all cores" "$tollgate" check --base HEAD~1 --cache-dir "$cache"
+warm=$(cat "$work/last")
+measure "check, warm PCH cache, 1 thread" "$tollgate" check --base HEAD~1 --cache-dir "$cache" -j 1
+measure "check, no PCH, all cores" "$tollgate" check --base HEAD~1 --no-pch-cache
+printf '%-44s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
+python3 -c "print(f'ratio check (warm, all cores) / floor: {$warm / $floor:.3f}  (goal <= 0.25)')"
