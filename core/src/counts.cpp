@@ -13,6 +13,9 @@ Counts count_tokens(const TokenList& tokens) {
             entry.form = token.form;
         }
         ++entry.count;
+        if (token.basis == Basis::previous_token || token.basis == Basis::lexical) {
+            ++entry.guessed;
+        }
     }
     counts.distinct_operators = counts.operators.size();
     counts.distinct_operands = counts.operands.size();

@@ -12,6 +12,8 @@ const std::vector<CommandEntry>& command_table() {
          &attach_measure},
         {"explain", "Operator and operand tables of one function, and its measures",
          &attach_explain},
+        {"snapshot", "Write a baseline snapshot of a revision, or compare two snapshots",
+         &attach_snapshot},
         {"policy", "Validate a policy file and print the effective policy", &attach_policy},
     };
     return table;

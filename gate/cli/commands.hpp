@@ -30,5 +30,6 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
 void attach_measure(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_explain(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_policy(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
+void attach_snapshot(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 
 } // namespace tollgate

@@ -67,7 +67,8 @@ bool glob_match(std::string_view pattern, std::string_view text, GlobSubject sub
                 const bool crosses = double_star || subject == GlobSubject::name;
                 at(after, t) = 1; // the star matches nothing
                 if (double_star && subject == GlobSubject::path && after < pn &&
-                    pattern[after] == '/' && (p == 0 || pattern[p - 1] == '/')) {
+                    pattern[after] == '/' && (p == 0 || pattern[p - 1] == '/') &&
+                    (t == 0 || text[t - 1] == '/')) {
                     at(after + 1, t) = 1; // "**/" matches no folder at all
                 }
                 if (t < tn && (crosses || text[t] != '/')) {

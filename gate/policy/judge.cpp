@@ -424,7 +424,7 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
             const auto key = [](const Finding& x) {
                 return std::make_tuple(x.grandfathered ? 1 : 0, x.level == Level::blocking ? 0 : 1,
                                        x.kind == RuleKind::budget ? 1 : 0, std::cref(x.path),
-                                       x.start_line, std::cref(x.function), std::cref(x.rule_id));
+                                       x.start_line, std::cref(x.function));
             };
             return key(a) < key(b);
         });

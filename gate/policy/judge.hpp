@@ -22,10 +22,12 @@ struct JudgeOptions {
 };
 
 // Judge `report` against `policy`: apply every rule to the functions in scope, with path
-// overrides, the noise floor and waivers, and return the findings (blocking first, then warnings,
-// each by path and line) and the outcome (blocked when any finding blocks). Notes name waived
-// findings, expired waivers and waivers that waived nothing. An empty report passes.
-// Throws UsageError when `options.today` is not a YYYY-MM-DD date.
+// overrides, the noise floor and waivers. Return the findings (blocking first, then warnings,
+// grandfathered last; each by path and line, then in policy order; budgets after functions)
+// and the outcome (blocked when any non-grandfathered finding blocks). Notes name waived
+// findings, expired waivers, waivers that waived nothing, and functions out of scope or below
+// the noise floor. An empty report passes. Throws UsageError when `options.today` is not a
+// YYYY-MM-DD date.
 Verdict judge(const Policy& policy, const delta::ChangeReport& report, const JudgeOptions& options);
 
 // Return whether a file at `path` is judged: it matches an include glob and no exclude glob.

@@ -311,7 +311,8 @@ std::optional<std::string> PolicyReader::rule_reference(const YAML::Node& node) 
 Policy PolicyReader::read(const YAML::Node& root) {
     Policy policy;
     if (!root.IsDefined() || root.IsNull()) {
-        error(YAML::Mark(), "the policy is empty (expected at least \"tollgate-policy: 1\")");
+        error(YAML::Mark::null_mark(),
+              "the policy is empty (expected at least \"tollgate-policy: 1\")");
         return policy;
     }
     if (!root.IsMap()) {

@@ -208,8 +208,12 @@ void write_explain_text(std::ostream& out, const MeasuredFunction& f,
         out << fmt::format("{} ({} distinct, {} in all)\n", title, distinct, total);
         out << fmt::format("  {:<{}}  {:>5}  {}\n", "token", width, "count", "counted as");
         for (const auto& [key, entry] : rows) {
-            std::string line =
-                fmt::format("  {:<{}}  {:>5}  {}", key, width, entry.count, entry.form);
+            std::string form = entry.form;
+            if (entry.guessed > 0) {
+                form += fmt::format(" ({} of {} decided by the previous token)", entry.guessed,
+                                    entry.count);
+            }
+            std::string line = fmt::format("  {:<{}}  {:>5}  {}", key, width, entry.count, form);
             while (!line.empty() && line.back() == ' ') {
                 line.pop_back();
             }
@@ -224,21 +228,23 @@ void write_explain_text(std::ostream& out, const MeasuredFunction& f,
     const auto& m = f.measures;
     out << "measures\n";
     out << fmt::format("  n1 {}  n2 {}  N1 {}  N2 {}\n", m.n1, m.n2, m.N1, m.N2);
-    out << fmt::format("  length        N  = N1 + N2                = {}\n", m.length);
-    out << fmt::format("  vocabulary    n  = n1 + n2                = {}\n", m.vocabulary);
-    out << fmt::format("  est. length   N^ = n1 log2 n1 + n2 log2 n2 = {:.2f}\n",
-                       m.estimated_length);
-    out << fmt::format("  volume        V  = N log2 n               = {:.2f}\n", m.volume);
-    out << fmt::format("  difficulty    D  = (n1/2) (N2/n2)         = {:.2f}\n", m.difficulty);
-    out << fmt::format("  level         L^ = 1/D                    = {:.4f}\n", m.level);
-    out << fmt::format("  effort        E  = D V                    = {:.1f}\n", m.effort);
-    out << fmt::format("  time          T  = E / {:g}                = {:.1f} s\n", stroud,
-                       m.time);
-    out << fmt::format("  bugs          B  = V / 3000               = {:.4f}\n", m.bugs_volume);
-    out << fmt::format("  bugs (effort) B  = E^(2/3) / 3000         = {:.4f}\n", m.bugs_effort);
-    out << fmt::format("  potential vol V* = (2+n2*) log2 (2+n2*)   = {:.2f}  (n2* = {})\n",
-                       m.potential_volume, m.potential_operands);
-    out << fmt::format("  volume ratio  V*/V                        = {:.4f}\n", m.volume_ratio);
+    const auto row = [&out](const char* name, const std::string& formula,
+                            const std::string& value) {
+        out << fmt::format("  {:<14}{:<30} = {}\n", name, formula, value);
+    };
+    row("length", "N  = N1 + N2", std::to_string(m.length));
+    row("vocabulary", "n  = n1 + n2", std::to_string(m.vocabulary));
+    row("est. length", "N^ = n1 log2 n1 + n2 log2 n2", fmt::format("{:.2f}", m.estimated_length));
+    row("volume", "V  = N log2 n", fmt::format("{:.2f}", m.volume));
+    row("difficulty", "D  = (n1/2) (N2/n2)", fmt::format("{:.2f}", m.difficulty));
+    row("level", "L^ = 1/D", fmt::format("{:.4f}", m.level));
+    row("effort", "E  = D V", fmt::format("{:.1f}", m.effort));
+    row("time", fmt::format("T  = E / S, S = {:g}", stroud), fmt::format("{:.1f} s", m.time));
+    row("bugs", "B  = V / 3000", fmt::format("{:.4f}", m.bugs_volume));
+    row("bugs (effort)", "B  = E^(2/3) / 3000", fmt::format("{:.4f}", m.bugs_effort));
+    row("potential vol", "V* = (2+n2*) log2 (2+n2*)",
+        fmt::format("{:.2f}  (n2* = {})", m.potential_volume, m.potential_operands));
+    row("volume ratio", "V*/V", fmt::format("{:.4f}", m.volume_ratio));
 }
 
 void write_explain_json(std::ostream& out, const MeasuredFunction& f,
@@ -246,7 +252,10 @@ void write_explain_json(std::ostream& out, const MeasuredFunction& f,
     auto table_json = [](const std::map<std::string, core::TableEntry>& table) {
         nlohmann::json list = nlohmann::json::array();
         for (const auto& [key, entry] : table) {
-            list.push_back({{"token", key}, {"count", entry.count}, {"form", entry.form}});
+            list.push_back({{"token", key},
+                            {"count", entry.count},
+                            {"form", entry.form},
+                            {"decided_by_previous_token", entry.guessed}});
         }
         return list;
     };

@@ -22,9 +22,15 @@ inline core::Measures measures_of(std::uint64_t n1, std::uint64_t n2, std::uint6
 //   small:  N1 = 20, N2 = 12 -> N = 32, V = 128, D = 6,  E = 768
 //   large:  N1 = 40, N2 = 24 -> N = 64, V = 256, D = 12, E = 3072
 //   medium: N1 = 24, N2 = 14 -> N = 38, V = 152, D = 7,  E = 1064
-inline core::Measures small_measures() { return measures_of(8, 8, 20, 12); }
-inline core::Measures large_measures() { return measures_of(8, 8, 40, 24); }
-inline core::Measures medium_measures() { return measures_of(8, 8, 24, 14); }
+inline core::Measures small_measures() {
+    return measures_of(8, 8, 20, 12);
+}
+inline core::Measures large_measures() {
+    return measures_of(8, 8, 40, 24);
+}
+inline core::Measures medium_measures() {
+    return measures_of(8, 8, 24, 14);
+}
 
 // Return one side of a function at `path`, lines `start`-`end`, with `measures`.
 inline delta::FunctionSide side_at(const std::string& path, unsigned start, unsigned end,
@@ -53,23 +59,22 @@ inline delta::FunctionDelta touched(const std::string& name, const std::string& 
 }
 
 // Return a changed function at `path`:`line` going from `base` to `head` measures.
-inline delta::FunctionDelta changed(const std::string& name, const std::string& path,
-                                    unsigned line, const core::Measures& base,
-                                    const core::Measures& head) {
+inline delta::FunctionDelta changed(const std::string& name, const std::string& path, unsigned line,
+                                    const core::Measures& base, const core::Measures& head) {
     return touched(name, "", delta::DeltaLabel::changed, side_at(path, line, line + 9, base),
                    side_at(path, line, line + 19, head));
 }
 
 // Return an added function at `path`:`line` with `head` measures.
-inline delta::FunctionDelta added(const std::string& name, const std::string& path,
-                                  unsigned line, const core::Measures& head) {
+inline delta::FunctionDelta added(const std::string& name, const std::string& path, unsigned line,
+                                  const core::Measures& head) {
     return touched(name, "", delta::DeltaLabel::added, std::nullopt,
                    side_at(path, line, line + 9, head));
 }
 
 // Return a removed function at `path`:`line` with `base` measures.
-inline delta::FunctionDelta removed(const std::string& name, const std::string& path,
-                                    unsigned line, const core::Measures& base) {
+inline delta::FunctionDelta removed(const std::string& name, const std::string& path, unsigned line,
+                                    const core::Measures& base) {
     return touched(name, "", delta::DeltaLabel::removed, side_at(path, line, line + 9, base),
                    std::nullopt);
 }

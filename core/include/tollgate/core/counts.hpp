@@ -14,8 +14,10 @@ namespace tollgate::core {
 struct TableEntry {
     std::uint64_t count = 0; // how many times the key occurs
     std::string form;        // the form it was counted as (first seen), empty when unambiguous
+    std::uint64_t guessed = 0; // occurrences whose form the previous token decided (the syntax
+                               // tree could not), so a reader knows how sure the split is
     bool operator==(const TableEntry& other) const {
-        return count == other.count && form == other.form;
+        return count == other.count && form == other.form && guessed == other.guessed;
     }
 };
 

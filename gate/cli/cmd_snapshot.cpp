@@ -1,0 +1,160 @@
+// SPDX-License-Identifier: MIT
+// `tollgate snapshot`: write a baseline snapshot of a revision, or compare two snapshots.
+#include "gate/baseline/snapshot.hpp"
+#include "gate/baseline/snapshot_file.hpp"
+#include "gate/baseline/snapshot_trend.hpp"
+#include "gate/cli/commands.hpp"
+#include "gate/cli/measure_span.hpp"
+#include "gate/cli/sources.hpp"
+#include "gate/common/errors.hpp"
+#include "gate/lexer/lex_files.hpp"
+#include "gate/walker/repository.hpp"
+#include "tollgate/core/convention.hpp"
+
+#include <filesystem>
+#include <fmt/format.h>
+#include <iostream>
+#include <memory>
+#include <spdlog/spdlog.h>
+
+namespace fs = std::filesystem;
+
+namespace tollgate {
+
+namespace {
+
+struct SnapshotOptions {
+    std::string revision = "HEAD";    // --rev
+    std::string out;                  // --out, as given on the command line
+    bool force = false;               // --force: replace a file that is not a snapshot
+    unsigned jobs = 0;                // parser threads, 0 = all cores
+    double stroud = 18.0;             // Stroud number for T
+    std::string compile_commands;     // --compile-commands
+    std::string cache_dir;            // --cache-dir
+    bool no_cache = false;            // --no-pch-cache
+    std::vector<std::string> compare; // --compare BASE HEAD
+    std::string format = "text";      // text or json, for --compare
+    std::size_t top = 10;             // grown functions listed by --compare
+    // Where the snapshot goes without --out, relative to the repository root; the policy's
+    // baseline.path will replace it. Always confined to the repository.
+    std::string configured_path = baseline::k_default_snapshot_path;
+};
+
+// Return `absolute` relative to the current folder when it lies under it, else as it is.
+std::string display_path(const fs::path& absolute) {
+    const fs::path relative = absolute.lexically_relative(fs::current_path());
+    if (relative.empty() || *relative.begin() == "..") {
+        return absolute.string();
+    }
+    return relative.string();
+}
+
+int run_snapshot(const SnapshotOptions& options) {
+    const walker::Repository repository = walker::Repository::open(fs::current_path().string());
+    const walker::ObjectId commit = repository.resolve_commit(options.revision);
+
+    std::string out_path = options.out;
+    if (out_path.empty()) {
+        if (repository.is_bare()) {
+            throw UsageError("a bare repository has no working tree to hold \"" +
+                             options.configured_path + "\" (give the file with --out PATH)");
+        }
+        out_path = display_path(
+            baseline::confine_to_repository(options.configured_path, repository.workdir()));
+    }
+    const baseline::Overwrite overwrite =
+        options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
+    // Refuse before the expensive part, not after.
+    baseline::check_replaceable(out_path, overwrite);
+
+    SourceRequest request;
+    request.revision = commit.hex;
+    request.compile_commands = options.compile_commands;
+    request.cache_dir = options.cache_dir;
+    request.no_cache = options.no_cache;
+    const LoadedSources loaded = load_sources(request);
+    const auto files = lexer::lex_files(loaded.selected, loaded.context, options.jobs);
+
+    core::MeasureSettings settings;
+    settings.stroud = options.stroud;
+    const baseline::Snapshot snapshot =
+        baseline::make_snapshot(files, commit.hex, core::fingerprint(loaded.context.convention),
+                                settings, baseline::current_utc_time());
+    baseline::save_snapshot(snapshot, out_path, overwrite);
+
+    const std::size_t warnings = collect_warnings(files).size();
+    std::cerr << fmt::format("tollgate: wrote {}: {} functions in {} files of commit {}{}\n",
+                             out_path, snapshot.functions.size(), files.size(), commit.short_hex(),
+                             warnings == 0 ? std::string()
+                                           : fmt::format(" ({} parse warnings: tollgate measure "
+                                                         "--rev {} shows them)",
+                                                         warnings, commit.short_hex()));
+    return 0;
+}
+
+int run_compare(const SnapshotOptions& options) {
+    baseline::SnapshotExpectations expectations;
+    expectations.convention = core::fingerprint(core::Convention{});
+    expectations.stroud = options.stroud;
+    const baseline::Snapshot base = baseline::load_snapshot(options.compare.at(0), expectations);
+    const baseline::Snapshot head = baseline::load_snapshot(options.compare.at(1), expectations);
+    const baseline::SnapshotTrend trend = baseline::compare_snapshots(base, head);
+    if (options.format == "json") {
+        baseline::write_trend_json(std::cout, trend, options.top);
+    } else {
+        baseline::write_trend_text(std::cout, trend, options.top);
+    }
+    return 0;
+}
+
+} // namespace
+
+void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
+                     std::function<int()>& selected) {
+    auto options = std::make_shared<SnapshotOptions>();
+    sub.description("Measure every function of every C/C++ file of a revision and write a "
+                    "baseline snapshot, or compare two snapshots.");
+    auto* rev = sub.add_option("--rev", options->revision,
+                               "Revision to measure, read from the object database")
+                    ->capture_default_str();
+    auto* out = sub.add_option(
+        "--out", options->out,
+        "Snapshot file to write (default: " + std::string(baseline::k_default_snapshot_path) +
+            " in the repository)");
+    auto* force = sub.add_flag("--force", options->force,
+                               "Replace the output file even when it is not a Tollgate snapshot");
+    sub.add_option("-j,--jobs", options->jobs, "Parser threads (0 = all cores)")
+        ->capture_default_str();
+    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
+        ->check(CLI::Range(1.0, 100.0))
+        ->capture_default_str();
+    sub.add_option("--compile-commands", options->compile_commands,
+                   "compile_commands.json to take -D/-I/-std flags from (default: the "
+                   "repository's own, if any, at its root or in build/)");
+    sub.add_option("--cache-dir", options->cache_dir,
+                   "Folder for the precompiled standard-library headers (default: "
+                   "$XDG_CACHE_HOME/tollgate or ~/.cache/tollgate)");
+    sub.add_flag("--no-pch-cache", options->no_cache,
+                 "Parse without the precompiled standard-library headers");
+    auto* compare = sub.add_option("--compare", options->compare,
+                                   "Compare two snapshot files, BASE then HEAD, instead of "
+                                   "writing one")
+                        ->expected(2)
+                        ->type_name("BASE HEAD");
+    compare->excludes(rev)->excludes(out)->excludes(force);
+    sub.add_option("--format", options->format, "Output format of --compare")
+        ->check(CLI::IsMember({"text", "json"}))
+        ->capture_default_str();
+    sub.add_option("--top", options->top, "Grown functions --compare lists")->capture_default_str();
+    sub.footer("Examples:\n"
+               "  tollgate snapshot                          HEAD into baselines/snapshot.json\n"
+               "  tollgate snapshot --rev v1.2 --out v1.2.json\n"
+               "  tollgate snapshot --compare v1.2.json baselines/snapshot.json");
+    sub.callback([options, &selected] {
+        selected = [options] {
+            return options->compare.empty() ? run_snapshot(*options) : run_compare(*options);
+        };
+    });
+}
+
+} // namespace tollgate

@@ -1,0 +1,120 @@
+// SPDX-License-Identifier: MIT
+// Approval tests of the change-report renderers: the output for a fixed report is compared with
+// the reviewed files in tests/approved/. Set TOLLGATE_APPROVE=1 to rewrite them after a reviewed
+// change of format (then read the diff before committing).
+#include "gate/report/change_report.hpp"
+#include "support/temp_repo.hpp"
+#include "tollgate/core/counts.hpp"
+
+#include <catch2/catch.hpp>
+#include <nlohmann/json.hpp>
+
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+
+using namespace tollgate;
+
+namespace {
+
+delta::FunctionSide side(const std::string& path, unsigned line, std::uint64_t n1,
+                         std::uint64_t n2, std::uint64_t N1, std::uint64_t N2) {
+    delta::FunctionSide s;
+    s.path = path;
+    s.start_line = line;
+    s.end_line = line + 9;
+    s.token_hash = std::to_string(n1 * 1000 + n2 * 100 + N1 * 10 + N2);
+    s.measures = core::compute_measures(core::counts_from_totals(n1, n2, N1, N2), 2);
+    return s;
+}
+
+delta::ChangeReport sample_report() {
+    delta::ChangeReport report;
+    report.base_label = "main (3f2a91c)";
+    report.head_label = "HEAD (9b1c0de)";
+    report.base_commit = "3f2a91c000000000000000000000000000000000";
+    report.head_commit = "9b1c0de000000000000000000000000000000000";
+    report.convention = "c-family/1";
+    report.notes = {"base is 3f2a91c, the merge base of HEAD and main"};
+    report.measured_files = 2;
+
+    delta::FunctionDelta grew;
+    grew.name = "skyline::FusionFilter::update";
+    grew.signature = "double";
+    grew.identity = "c:@N@skyline@S@FusionFilter@F@update#d#";
+    grew.label = delta::DeltaLabel::changed;
+    grew.base = side("src/fusion_filter.cpp", 16, 16, 6, 23, 12);
+    grew.head = side("src/fusion_filter.cpp", 16, 22, 9, 41, 24);
+
+    delta::FunctionDelta shrank;
+    shrank.name = "skyline_crc16";
+    shrank.signature = "const uint8_t *, size_t";
+    shrank.identity = "c:@F@skyline_crc16";
+    shrank.label = delta::DeltaLabel::changed;
+    shrank.base = side("src/crc16.c", 6, 23, 11, 59, 28);
+    shrank.head = side("src/crc16.c", 6, 18, 9, 40, 19);
+
+    delta::FunctionDelta added;
+    added.name = "operator|";
+    added.signature = "Flags, Flags";
+    added.identity = "c:@F@operator|#$@S@Flags#S0_#";
+    added.label = delta::DeltaLabel::added;
+    added.head = side("src/flags.cpp", 3, 8, 4, 10, 6);
+
+    report.functions = {grew, shrank, added};
+    delta::sort_deltas(report.functions);
+    delta::compute_totals(report);
+    report.skipped = {{"docs/logo.png", "binary"}};
+    return report;
+}
+
+void check_approved(const std::string& name, const std::string& actual) {
+    const std::string path = std::string(TOLLGATE_SOURCE_DIR) + "/tests/approved/" + name;
+    if (std::getenv("TOLLGATE_APPROVE") != nullptr) {
+        std::ofstream(path, std::ios::binary) << actual;
+    }
+    const std::string approved = test::read_text(path);
+    INFO("approved file: " << path << " (TOLLGATE_APPROVE=1 rewrites it)");
+    CHECK(actual == approved);
+}
+
+} // namespace
+
+TEST_CASE("write_change_text matches the approved terminal table", "[report]") {
+    std::ostringstream out;
+    report::write_change_text(out, sample_report(), {});
+    check_approved("change_text.txt", out.str());
+}
+
+TEST_CASE("write_change_markdown matches the approved Markdown", "[report]") {
+    std::ostringstream out;
+    report::RenderOptions options;
+    options.markdown_rows = 2;
+    options.link_template = "https://git.example/team/station/blob/{commit}/{path}#L{line}";
+    report::write_change_markdown(out, sample_report(), options);
+    check_approved("change_markdown.md", out.str());
+}
+
+TEST_CASE("write_change_json carries every measure and delta", "[report]") {
+    std::ostringstream out;
+    report::write_change_json(out, sample_report());
+    const auto json = nlohmann::json::parse(out.str());
+    CHECK(json["schema"] == "tollgate.check/1");
+    REQUIRE(json["functions"].size() == 3);
+    CHECK(json["functions"][0]["function"] == "skyline::FusionFilter::update");
+    const auto& added = json["functions"][1]; // +344 sorts before the shrinking crc16
+    CHECK(added["label"] == "added");
+    CHECK(added["base"].is_null());
+    CHECK(added["delta"]["effort"]["percent"].is_null());
+    CHECK(json["functions"][0]["delta"].size() == core::k_all_measures.size());
+}
+
+TEST_CASE("group_thousands and format_percent format numbers for reviewers", "[report]") {
+    CHECK(report::group_thousands(0.4) == "0");
+    CHECK(report::group_thousands(1234567.6) == "1,234,568");
+    CHECK(report::group_thousands(-3002.0) == "-3,002");
+    CHECK(report::format_percent(std::nullopt) == "new");
+    CHECK(report::format_percent(61.4) == "+61%");
+    CHECK(report::format_percent(-12.6) == "-13%");
+    CHECK(report::format_percent(0.2) == "+0%");
+}
