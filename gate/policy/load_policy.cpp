@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <cstdlib>
 #include <fstream>
 #include <map>
@@ -760,11 +761,64 @@ void PolicyReader::read_baseline(const YAML::Node& node, Policy& policy) {
     }
 }
 
+// Return the offset of the first byte of `text` that is not well-formed UTF-8 (RFC 3629: no
+// overlong forms, no surrogates, nothing above U+10FFFF), or npos when all of it is.
+std::size_t first_bad_utf8(const std::string& text) {
+    std::size_t i = 0;
+    while (i < text.size()) {
+        const auto lead = static_cast<unsigned char>(text[i]);
+        std::size_t length = 0;
+        unsigned low = 0x80, high = 0xBF; // allowed range of the second byte
+        if (lead < 0x80) {
+            ++i;
+            continue;
+        } else if (lead >= 0xC2 && lead <= 0xDF) {
+            length = 2;
+        } else if (lead >= 0xE0 && lead <= 0xEF) {
+            length = 3;
+            low = lead == 0xE0 ? 0xA0 : 0x80;
+            high = lead == 0xED ? 0x9F : 0xBF;
+        } else if (lead >= 0xF0 && lead <= 0xF4) {
+            length = 4;
+            low = lead == 0xF0 ? 0x90 : 0x80;
+            high = lead == 0xF4 ? 0x8F : 0xBF;
+        } else {
+            return i;
+        }
+        if (i + length > text.size()) {
+            return i;
+        }
+        for (std::size_t k = 1; k < length; ++k) {
+            const auto byte = static_cast<unsigned char>(text[i + k]);
+            if (k == 1 ? (byte < low || byte > high) : (byte < 0x80 || byte > 0xBF)) {
+                return i;
+            }
+        }
+        i += length;
+    }
+    return std::string::npos;
+}
+
 } // namespace
 
 Policy load_policy(const std::string& text, const std::string& origin) {
     PolicyReader reader(origin);
     Policy policy;
+    // yaml-cpp passes stray bytes through but writes them back as U+FFFD, so a policy that is
+    // not UTF-8 would not describe itself faithfully: reject it with the byte's position.
+    if (const std::size_t bad = first_bad_utf8(text); bad != std::string::npos) {
+        YAML::Mark mark;
+        mark.pos = static_cast<int>(bad);
+        const std::size_t newline = bad == 0 ? std::string::npos : text.rfind('\n', bad - 1);
+        mark.line = static_cast<int>(
+            std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(bad), '\n'));
+        mark.column = static_cast<int>(newline == std::string::npos ? bad : bad - newline - 1);
+        char byte[8];
+        std::snprintf(byte, sizeof byte, "0x%02X", static_cast<unsigned char>(text[bad]));
+        reader.error(mark, std::string("the policy is not UTF-8 text (byte ") + byte +
+                               "; save the file as UTF-8)");
+        throw PolicyError(reader.errors());
+    }
     try {
         policy = reader.read(YAML::Load(text));
     } catch (const YAML::ParserException& e) {

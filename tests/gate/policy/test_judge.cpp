@@ -217,8 +217,10 @@ TEST_CASE("judge ignores functions below the noise floor for per-function rules"
     const auto report =
         report_of({changed("tiny", "src/a.c", 1, small_measures(), medium_measures()),
                    changed("bigger", "src/a.c", 20, small_measures(), large_measures())});
-    const Policy policy =
-        policy_from(std::string("noise-floor:\n  volume: 200\n") + k_growth_percent);
+    // Effort grows +38.5% (768 -> 1,064) and +300%: both above a 30% limit.
+    const std::string rules = "rules:\n  - {id: effort-growth, kind: growth, measure: effort, "
+                              "max-increase-percent: 30}\n";
+    const Policy policy = policy_from("noise-floor:\n  volume: 200\n" + rules);
     const Verdict verdict = judge(policy, report, k_options);
     REQUIRE(verdict.findings.size() == 1);
     CHECK(verdict.findings[0].function == "bigger");
@@ -226,7 +228,7 @@ TEST_CASE("judge ignores functions below the noise floor for per-function rules"
           std::vector<std::string>{"1 function is below the noise floor and not judged by "
                                    "per-function rules"});
     SECTION("without a noise floor both are judged") {
-        CHECK(judge(policy_from(k_growth_percent), report, k_options).findings.size() == 2);
+        CHECK(judge(policy_from(rules), report, k_options).findings.size() == 2);
     }
 }
 
