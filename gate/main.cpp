@@ -2,4 +2,6 @@
 // The tollgate executable: everything happens in run_cli.
 #include "gate/cli/run_cli.hpp"
 
-int main(int argc, char** argv) { return tollgate::run_cli(argc, argv); }
+int main(int argc, char** argv) {
+    return tollgate::run_cli(argc, argv);
+}

@@ -9,7 +9,9 @@ namespace tollgate::core {
 namespace {
 
 // x log2 x, taken as 0 for x = 0 (its limit), so N^ is defined for n1 = 0 or n2 = 0.
-double x_log2_x(double x) { return x > 0 ? x * std::log2(x) : 0.0; }
+double x_log2_x(double x) {
+    return x > 0 ? x * std::log2(x) : 0.0;
+}
 
 struct MeasureName {
     MeasureId id;

@@ -43,6 +43,13 @@ Snapshot make_snapshot(const std::vector<lexer::FileFunctions>& files, const std
         }
     }
     std::sort(snapshot.functions.begin(), snapshot.functions.end(), snapshot_order);
+    // The fallback key's ordinal makes keys unique within a file; should the lexer ever report a
+    // definition twice, keep one so that the file stays strictly ordered and loadable.
+    snapshot.functions.erase(std::unique(snapshot.functions.begin(), snapshot.functions.end(),
+                                         [](const SnapshotFunction& a, const SnapshotFunction& b) {
+                                             return !snapshot_order(a, b) && !snapshot_order(b, a);
+                                         }),
+                             snapshot.functions.end());
     return snapshot;
 }
 

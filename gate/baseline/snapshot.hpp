@@ -62,7 +62,8 @@ struct Snapshot {
 // Build the snapshot of commit `commit` from the lexed `files`: count and measure every function
 // with `settings` (as `tollgate measure` does), record `convention` (a fingerprint), the Stroud
 // number of `settings`, `created` (see current_utc_time) and this build's version, and sort the
-// functions by path, start line and fallback key. No files give a snapshot without functions.
+// functions by path, start line and fallback key (keeping one of any that share all three). No
+// files give a snapshot without functions.
 Snapshot make_snapshot(const std::vector<lexer::FileFunctions>& files, const std::string& commit,
                        const std::string& convention, const core::MeasureSettings& settings,
                        const std::string& created);

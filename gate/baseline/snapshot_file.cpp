@@ -181,10 +181,6 @@ public:
             throw corrupted(fmt::format("\"function_count\" is {} but {} functions follow", count,
                                         functions.size()));
         }
-        if (content_digest(document) != recorded_digest) {
-            throw corrupted("the content does not match \"content_digest\", the file was edited or "
-                            "damaged");
-        }
         snapshot.functions.reserve(functions.size());
         for (std::size_t i = 0; i < functions.size(); ++i) {
             snapshot.functions.push_back(
@@ -194,6 +190,11 @@ public:
                                             "are sorted by file, start line and fallback key)",
                                             i));
             }
+        }
+        // Last, so that a damaged key is named above; this catches what stays well-formed.
+        if (content_digest(document) != recorded_digest) {
+            throw corrupted("the content does not match \"content_digest\", the file was edited or "
+                            "damaged");
         }
         check_expectations(snapshot);
         return snapshot;

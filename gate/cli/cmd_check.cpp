@@ -1,19 +1,22 @@
 // SPDX-License-Identifier: MIT
 // `tollgate check`: the gate. Measure the functions a change touched, before and after.
 #include "gate/cli/commands.hpp"
+#include "gate/cli/policy_source.hpp"
 #include "gate/cli/report_targets.hpp"
+#include "gate/cli/run_cli.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/delta/measure_change.hpp"
+#include "gate/policy/calendar_date.hpp"
+#include "gate/policy/judge.hpp"
 #include "gate/walker/change_set.hpp"
 #include "gate/walker/repository.hpp"
 #include "gate/walker/revision_range.hpp"
 
-#include <spdlog/spdlog.h>
-
 #include <filesystem>
 #include <fstream>
 #include <memory>
+#include <spdlog/spdlog.h>
 #include <sstream>
 
 namespace tollgate {
@@ -21,17 +24,18 @@ namespace tollgate {
 namespace {
 
 struct CheckOptions {
-    walker::RevisionRange range;        // --base, --head, --worktree, --default-branch
-    std::vector<std::string> reports;   // --report FORMAT:PATH
-    bool no_colour = false;             // --no-color
-    std::string link_template;          // --link-template
-    std::size_t markdown_rows = 10;     // --markdown-rows
-    unsigned jobs = 0;                  // --jobs
-    std::string compile_commands;       // --compile-commands
-    std::string cache_dir;              // --cache-dir
-    bool no_cache = false;              // --no-pch-cache
-    double stroud = 18.0;               // --stroud
-    std::size_t rename_limit = 400;     // --rename-limit
+    walker::RevisionRange range;      // --base, --head, --worktree, --default-branch
+    std::string policy_path;          // --policy
+    std::vector<std::string> reports; // --report FORMAT:PATH
+    bool no_colour = false;           // --no-color
+    std::string link_template;        // --link-template
+    std::size_t markdown_rows = 10;   // --markdown-rows
+    unsigned jobs = 0;                // --jobs
+    std::string compile_commands;     // --compile-commands
+    std::string cache_dir;            // --cache-dir
+    bool no_cache = false;            // --no-pch-cache
+    double stroud = 18.0;             // --stroud
+    std::size_t rename_limit = 400;   // --rename-limit
 };
 
 std::string read_compile_commands(const std::string& given, const std::string& workdir) {
@@ -69,19 +73,28 @@ int run_check(const CheckOptions& options) {
     settings.compile_commands_json =
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.compile_commands_root = repository.workdir();
-    settings.cache_dir = options.no_cache ? std::string()
-                                          : (options.cache_dir.empty() ? default_cache_dir()
-                                                                       : options.cache_dir);
+    settings.cache_dir =
+        options.no_cache ? std::string()
+                         : (options.cache_dir.empty() ? default_cache_dir() : options.cache_dir);
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
+    const SelectedPolicy selected = select_policy(repository, range, options.policy_path);
+    policy::JudgeOptions judge_options;
+    judge_options.today = policy::current_date();
+    judge_options.policy_origin = selected.origin;
+
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
     const delta::ChangeReport report = delta::measure_change(repository, changes, settings);
+    policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
+    verdict.policy_changes = selected.changes;
+    verdict.policy_change_summary = selected.change_summary;
 
     report::RenderOptions render;
     render.link_template = options.link_template;
     render.markdown_rows = options.markdown_rows;
-    write_reports(report, targets, render, options.no_colour);
-    return 0;
+    write_reports(report, verdict, selected.policy, targets, render, options.no_colour);
+    return verdict.outcome == policy::Outcome::blocked ? static_cast<int>(ExitCode::blocked)
+                                                       : static_cast<int>(ExitCode::pass);
 }
 
 } // namespace
@@ -90,7 +103,8 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     auto options = std::make_shared<CheckOptions>();
     sub.description(
         "Gate a change: find the C/C++ functions touched between a base and a head commit, "
-        "measure each on both sides, and report the deltas (largest growth first).");
+        "measure each on both sides, report the deltas (largest growth first) and judge them "
+        "with the team's policy. Exit 0 pass, 1 blocked, 2 usage or policy error, 3 failure.");
     sub.add_option("--base", options->range.base,
                    "Base revision (default: the merge base of head and the default branch)");
     sub.add_option("--head", options->range.head, "Head revision")->capture_default_str();
@@ -100,9 +114,12 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     sub.add_option("--default-branch", options->range.default_branch,
                    "Branch whose merge base with head is the default base (default: the remote's "
                    "HEAD, else main, else master)");
+    sub.add_option("--policy", options->policy_path,
+                   "Policy file that judges the change (default: .tollgate.yaml of the base "
+                   "commit, else the built-in policy; see \"tollgate policy --default\")");
     sub.add_option("--report", options->reports,
-                   "FORMAT:PATH, repeatable; FORMAT is text, markdown or json; PATH \"-\" is "
-                   "stdout (default: the terminal table on stdout)");
+                   "FORMAT:PATH, repeatable; FORMAT is text, markdown, json or sarif; PATH \"-\" "
+                   "is stdout (default: the terminal table on stdout)");
     sub.add_flag("--no-color", options->no_colour,
                  "Never colour the terminal table (colour is used on a terminal unless NO_COLOR "
                  "is set)");

@@ -8,9 +8,8 @@
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
-#include <fmt/format.h>
-
 #include <algorithm>
+#include <fmt/format.h>
 #include <iostream>
 #include <memory>
 
@@ -79,16 +78,15 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             }
         }
         const std::string suggestion = closest_match(wanted, names);
-        throw UsageError(fmt::format("no function \"{}\" in \"{}\"{}", wanted, path,
-                                     suggestion.empty()
-                                         ? " (run \"tollgate measure " + path +
-                                               "\" to list its functions)"
-                                         : " (did you mean \"" + suggestion + "\"?)"));
+        throw UsageError(fmt::format(
+            "no function \"{}\" in \"{}\"{}", wanted, path,
+            suggestion.empty() ? " (run \"tollgate measure " + path + "\" to list its functions)"
+                               : " (did you mean \"" + suggestion + "\"?)"));
     }
     std::string candidates;
     for (const auto* span : matches) {
-        candidates += fmt::format("\n  {}:{}  {}({})", path, span->start_line,
-                                  span->qualified_name, span->signature);
+        candidates += fmt::format("\n  {}:{}  {}({})", path, span->start_line, span->qualified_name,
+                                  span->signature);
     }
     throw UsageError(fmt::format("\"{}\" matches {} functions in \"{}\" (name one as "
                                  "PATH:LINE or PATH:NAME(SIGNATURE)):{}",
@@ -126,8 +124,7 @@ int run_explain(const ExplainOptions& options) {
     if (options.format == "json") {
         report::write_explain_json(std::cout, measured, loaded.label, convention);
     } else {
-        report::write_explain_text(std::cout, measured, loaded.label, convention,
-                                   options.stroud);
+        report::write_explain_text(std::cout, measured, loaded.label, convention, options.stroud);
     }
     return 0;
 }

@@ -16,11 +16,11 @@ namespace tollgate {
 namespace {
 
 struct MeasureOptions {
-    SourceOptions sources;          // --rev, paths, compile database, cache
-    std::string format = "text";    // text or json
-    bool all_measures = false;      // every measure, not the essential columns
-    unsigned jobs = 0;              // parser threads, 0 = all cores
-    double stroud = 18.0;           // Stroud number for T
+    SourceOptions sources;       // --rev, paths, compile database, cache
+    std::string format = "text"; // text or json
+    bool all_measures = false;   // every measure, not the essential columns
+    unsigned jobs = 0;           // parser threads, 0 = all cores
+    double stroud = 18.0;        // Stroud number for T
 };
 
 int run_measure(const MeasureOptions& options) {
@@ -39,10 +39,9 @@ int run_measure(const MeasureOptions& options) {
         report::write_measure_json(std::cout, functions, warnings, loaded.label,
                                    core::fingerprint(loaded.context.convention));
     } else {
-        report::write_measure_text(std::cout, functions, warnings,
-                                   options.all_measures ? report::Columns::all
-                                                        : report::Columns::essential,
-                                   loaded.label);
+        report::write_measure_text(
+            std::cout, functions, warnings,
+            options.all_measures ? report::Columns::all : report::Columns::essential, loaded.label);
     }
     return 0;
 }
@@ -54,8 +53,9 @@ void attach_measure(CLI::App& sub, const GlobalOptions& /*global*/,
     auto options = std::make_shared<MeasureOptions>();
     sub.description("Measure every function definition of C/C++ files: n1 n2 N1 N2, volume V, "
                     "difficulty D and effort E per function, with a total line.");
-    add_source_options(sub, options->sources, "Files or folders to measure (default: every "
-                                              "C/C++ file of the source)");
+    add_source_options(sub, options->sources,
+                       "Files or folders to measure (default: every "
+                       "C/C++ file of the source)");
     sub.add_option("--format", options->format, "Output format")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();

@@ -20,7 +20,8 @@ report::MeasuredFunction measure_span(const lexer::FunctionSpan& span,
     return measured;
 }
 
-std::vector<report::SourceWarning> collect_warnings(const std::vector<lexer::FileFunctions>& files) {
+std::vector<report::SourceWarning>
+collect_warnings(const std::vector<lexer::FileFunctions>& files) {
     std::vector<report::SourceWarning> warnings;
     for (const auto& file : files) {
         for (const auto& w : file.warnings) {

@@ -5,7 +5,6 @@
 #include "gate/cli/sources.hpp"
 
 #include <CLI/CLI.hpp>
-
 #include <string>
 #include <vector>
 
@@ -13,12 +12,12 @@ namespace tollgate {
 
 // The options that pick sources (`--rev`, paths, `--compile-commands`, cache, `--lang`).
 struct SourceOptions {
-    std::string revision;               // --rev
-    std::vector<std::string> paths;     // positional
-    std::string compile_commands;       // --compile-commands
-    std::string cache_dir;              // --cache-dir
-    bool no_cache = false;              // --no-pch-cache
-    std::string language;               // --lang c|c++ (empty: by extension)
+    std::string revision;           // --rev
+    std::vector<std::string> paths; // positional
+    std::string compile_commands;   // --compile-commands
+    std::string cache_dir;          // --cache-dir
+    bool no_cache = false;          // --no-pch-cache
+    std::string language;           // --lang c|c++ (empty: by extension)
 };
 
 // Add the source options to `sub`; `paths_help` describes the positional paths.

@@ -3,6 +3,7 @@
 #include "gate/cli/report_targets.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/report/sarif.hpp"
 
 #include <cstdio>
 #include <cstdlib>
@@ -21,21 +22,32 @@ const std::vector<std::pair<std::string, ReportFormat>>& format_names() {
         {"text", ReportFormat::text},
         {"markdown", ReportFormat::markdown},
         {"json", ReportFormat::json},
+        {"sarif", ReportFormat::sarif},
     };
     return names;
 }
 
-void render(std::ostream& out, ReportFormat format, const delta::ChangeReport& report,
+// Everything a renderer may need about one change.
+struct Judged {
+    const delta::ChangeReport& report;
+    const policy::Verdict& verdict;
+    const policy::Policy& policy;
+};
+
+void render(std::ostream& out, ReportFormat format, const Judged& judged,
             const report::RenderOptions& options) {
     switch (format) {
     case ReportFormat::text:
-        report::write_change_text(out, report, options);
+        report::write_change_text(out, judged.report, judged.verdict, options);
         break;
     case ReportFormat::markdown:
-        report::write_change_markdown(out, report, options);
+        report::write_change_markdown(out, judged.report, judged.verdict, options);
         break;
     case ReportFormat::json:
-        report::write_change_json(out, report);
+        report::write_change_json(out, judged.report, judged.verdict);
+        break;
+    case ReportFormat::sarif:
+        report::write_sarif(out, judged.report, judged.verdict, judged.policy);
         break;
     }
 }
@@ -71,7 +83,8 @@ std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& s
     for (const auto& spec : specs) {
         const auto colon = spec.find(':');
         const std::string name = spec.substr(0, colon);
-        const std::string path = colon == std::string::npos ? std::string() : spec.substr(colon + 1);
+        const std::string path =
+            colon == std::string::npos ? std::string() : spec.substr(colon + 1);
         std::vector<std::string> known;
         const ReportFormat* format = nullptr;
         for (const auto& [candidate, value] : format_names()) {
@@ -83,20 +96,22 @@ std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& s
         if (format == nullptr) {
             const std::string suggestion = closest_match(name, known);
             throw UsageError("unknown report format \"" + name + "\" in \"" + spec + "\"" +
-                             (suggestion.empty() ? " (expected text, markdown or json)"
+                             (suggestion.empty() ? " (expected text, markdown, json or sarif)"
                                                  : " (did you mean \"" + suggestion + "\"?)"));
         }
         if (path.empty()) {
-            throw UsageError("report \"" + spec + "\" has no path (write FORMAT:PATH, or " +
-                             name + ":- for stdout)");
+            throw UsageError("report \"" + spec + "\" has no path (write FORMAT:PATH, or " + name +
+                             ":- for stdout)");
         }
         targets.push_back({*format, path});
     }
     return targets;
 }
 
-void write_reports(const delta::ChangeReport& report, const std::vector<ReportTarget>& targets,
+void write_reports(const delta::ChangeReport& report, const policy::Verdict& verdict,
+                   const policy::Policy& policy, const std::vector<ReportTarget>& targets,
                    report::RenderOptions options, bool no_colour) {
+    const Judged judged{report, verdict, policy};
     const char* no_color_env = std::getenv("NO_COLOR");
     const bool colour_stdout = !no_colour && (no_color_env == nullptr || *no_color_env == '\0') &&
                                ::isatty(STDOUT_FILENO) == 1;
@@ -108,17 +123,17 @@ void write_reports(const delta::ChangeReport& report, const std::vector<ReportTa
             stdout_options.colour = colour_stdout && target.format == ReportFormat::text
                                         ? report::Colour::on
                                         : report::Colour::off;
-            render(std::cout, target.format, report, stdout_options);
+            render(std::cout, target.format, judged, stdout_options);
         } else {
             std::ostringstream buffer;
             options.colour = report::Colour::off;
-            render(buffer, target.format, report, options);
+            render(buffer, target.format, judged, options);
             write_file_atomically(target.path, buffer.str());
         }
     }
     if (!stdout_used) {
         options.colour = colour_stdout ? report::Colour::on : report::Colour::off;
-        report::write_change_text(std::cout, report, options);
+        report::write_change_text(std::cout, report, verdict, options);
     }
     std::cout.flush();
 }

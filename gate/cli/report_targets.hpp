@@ -3,6 +3,8 @@
 #pragma once
 
 #include "gate/delta/function_delta.hpp"
+#include "gate/policy/policy.hpp"
+#include "gate/policy/verdict.hpp"
 #include "gate/report/change_report.hpp"
 
 #include <string>
@@ -11,7 +13,7 @@
 namespace tollgate {
 
 // A report format.
-enum class ReportFormat { text, markdown, json };
+enum class ReportFormat { text, markdown, json, sarif };
 
 // One `--report FORMAT:PATH`.
 struct ReportTarget {
@@ -19,14 +21,15 @@ struct ReportTarget {
     std::string path;                         // file path, or "-" for stdout
 };
 
-// Parse `specs` ("markdown:delta.md", "json:-"). Throws UsageError naming the bad spec, with
-// "did you mean" for a misspelled format.
+// Parse `specs` ("markdown:delta.md", "json:-", "sarif:findings.sarif"). Throws UsageError naming
+// the bad spec, with "did you mean" for a misspelled format.
 std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& specs);
 
 // Write `report` to every target; with no target on stdout, the terminal table goes to stdout.
 // Files are written whole to a temporary name and renamed into place. Colour is used on stdout
 // when it is a terminal, NO_COLOR is unset and `no_colour` is false.
-void write_reports(const delta::ChangeReport& report, const std::vector<ReportTarget>& targets,
+void write_reports(const delta::ChangeReport& report, const policy::Verdict& verdict,
+                   const policy::Policy& policy, const std::vector<ReportTarget>& targets,
                    report::RenderOptions options, bool no_colour);
 
 } // namespace tollgate

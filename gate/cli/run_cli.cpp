@@ -6,12 +6,11 @@
 #include "gate/common/errors.hpp"
 
 #include <CLI/CLI.hpp>
-#include <spdlog/sinks/stdout_color_sinks.h>
-#include <spdlog/spdlog.h>
-
 #include <algorithm>
 #include <cstdio>
 #include <exception>
+#include <spdlog/sinks/stdout_color_sinks.h>
+#include <spdlog/spdlog.h>
 #include <string>
 
 namespace tollgate {

@@ -5,12 +5,11 @@
 #include "gate/common/errors.hpp"
 #include "gate/walker/repository.hpp"
 
-#include <spdlog/spdlog.h>
-
 #include <algorithm>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <spdlog/spdlog.h>
 #include <sstream>
 
 namespace fs = std::filesystem;
@@ -75,9 +74,10 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
         bool found = false;
         for (const auto& file : all) {
             const bool same = file.path == wanted;
-            const bool under = wanted.empty() || (file.path.size() > wanted.size() &&
-                                                  file.path.compare(0, wanted.size(), wanted) == 0 &&
-                                                  file.path[wanted.size()] == '/');
+            const bool under =
+                wanted.empty() || (file.path.size() > wanted.size() &&
+                                   file.path.compare(0, wanted.size(), wanted) == 0 &&
+                                   file.path[wanted.size()] == '/');
             if (same || under) {
                 found = true;
                 selected.push_back(file);
@@ -90,11 +90,10 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
     }
     std::sort(selected.begin(), selected.end(),
               [](const SourceFile& a, const SourceFile& b) { return a.path < b.path; });
-    selected.erase(std::unique(selected.begin(), selected.end(),
-                               [](const SourceFile& a, const SourceFile& b) {
-                                   return a.path == b.path;
-                               }),
-                   selected.end());
+    selected.erase(
+        std::unique(selected.begin(), selected.end(),
+                    [](const SourceFile& a, const SourceFile& b) { return a.path == b.path; }),
+        selected.end());
     return selected;
 }
 
@@ -179,10 +178,9 @@ LoadedSources load_sources(const SourceRequest& request) {
     const std::string compile_db = find_compile_commands(request.compile_commands, root);
     loaded.context = lexer::make_parse_context(all, compile_db, root.string());
     loaded.context.force_language = request.force_language;
-    loaded.context.cache_dir = request.no_cache
-                                   ? std::string()
-                                   : (request.cache_dir.empty() ? default_cache_dir()
-                                                                : request.cache_dir);
+    loaded.context.cache_dir =
+        request.no_cache ? std::string()
+                         : (request.cache_dir.empty() ? default_cache_dir() : request.cache_dir);
     spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),
                   loaded.selected.size(), loaded.context.headers.size());
     return loaded;

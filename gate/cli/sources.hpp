@@ -13,21 +13,21 @@ namespace tollgate {
 
 // What the user asked to read.
 struct SourceRequest {
-    std::string revision;               // a git revision; empty reads the working tree
-    std::vector<std::string> paths;     // files or folders (relative to the current folder);
-                                        // empty selects every C/C++ file
-    std::string compile_commands;       // compile_commands.json given by the user, or empty
-    std::string cache_dir;              // precompiled-header cache; empty picks the default
-    bool no_cache = false;              // disable the precompiled-header cache
+    std::string revision;           // a git revision; empty reads the working tree
+    std::vector<std::string> paths; // files or folders (relative to the current folder);
+                                    // empty selects every C/C++ file
+    std::string compile_commands;   // compile_commands.json given by the user, or empty
+    std::string cache_dir;          // precompiled-header cache; empty picks the default
+    bool no_cache = false;          // disable the precompiled-header cache
     std::optional<lexer::Language> force_language; // override the extension rule
 };
 
 // The files to measure and the parse context they share.
 struct LoadedSources {
-    std::string label;                 // "working tree", "revision 3f2a91c (HEAD~1)" or a folder
-    std::string root;                  // absolute root the repository-relative paths start at
-    std::vector<SourceFile> selected;  // the files to measure, sorted by path
-    lexer::ParseContext context;       // every header of the source, include folders, flags
+    std::string label;                // "working tree", "revision 3f2a91c (HEAD~1)" or a folder
+    std::string root;                 // absolute root the repository-relative paths start at
+    std::vector<SourceFile> selected; // the files to measure, sorted by path
+    lexer::ParseContext context;      // every header of the source, include folders, flags
 };
 
 // Read the sources `request` names. Inside a git repository paths are repository-relative and

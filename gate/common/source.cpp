@@ -38,8 +38,7 @@ bool is_header_path(const std::string& path) {
 
 bool is_c_family_path(const std::string& path) {
     const std::string ext = lower_extension(path);
-    return is_header_path(path) || std::find(k_source_extensions.begin(),
-                                             k_source_extensions.end(),
+    return is_header_path(path) || std::find(k_source_extensions.begin(), k_source_extensions.end(),
                                              ext) != k_source_extensions.end();
 }
 

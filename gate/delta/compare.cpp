@@ -88,8 +88,10 @@ void pair_by(std::vector<Candidate*>& base, std::vector<Candidate*>& head, KeyFn
 
 void pair_sides(std::vector<Candidate*>& base, std::vector<Candidate*>& head,
                 std::vector<std::pair<Candidate*, Candidate*>>& pairs) {
-    pair_by(base, head, [](const FunctionSpan& s) { return s.usr; }, pairs);
-    pair_by(base, head, [](const FunctionSpan& s) { return s.fallback_key; }, pairs);
+    pair_by(
+        base, head, [](const FunctionSpan& s) { return s.usr; }, pairs);
+    pair_by(
+        base, head, [](const FunctionSpan& s) { return s.fallback_key; }, pairs);
     pair_by(base, head, name_and_signature, pairs);
 }
 
@@ -110,8 +112,8 @@ FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool othe
         delta.label = DeltaLabel::added;
     } else if (!head) {
         delta.label = DeltaLabel::removed;
-    } else if (other_file || (base->whole && head->whole &&
-                              base->span->start_line != head->span->start_line)) {
+    } else if (other_file ||
+               (base->whole && head->whole && base->span->start_line != head->span->start_line)) {
         delta.label = DeltaLabel::moved;
     } else if (base->span->token_hash == head->span->token_hash) {
         delta.label = DeltaLabel::unchanged;
@@ -173,7 +175,8 @@ std::vector<FunctionDelta> compare_functions(const std::vector<FileSides>& files
         }
     }
     std::vector<std::pair<Candidate*, Candidate*>> moves;
-    pair_by(base_left, head_left, [](const FunctionSpan& s) { return s.usr; }, moves);
+    pair_by(
+        base_left, head_left, [](const FunctionSpan& s) { return s.usr; }, moves);
     pair_by(base_left, head_left, name_and_signature, moves);
     for (const auto& [b, h] : moves) {
         result.push_back(make_delta(b, h, b->span->path != h->span->path, settings));

@@ -14,12 +14,12 @@ namespace tollgate::delta {
 
 // One changed file's two sides, as lexed. Pointers are null for a missing side.
 struct FileSides {
-    std::string base_path;                        // empty when added
-    std::string head_path;                        // empty when deleted
-    const lexer::FileFunctions* base = nullptr;   // base side's functions
-    const lexer::FileFunctions* head = nullptr;   // head side's functions
-    const walker::LineSet* base_lines = nullptr;  // deleted lines, base numbering
-    const walker::LineSet* head_lines = nullptr;  // added lines, head numbering
+    std::string base_path;                       // empty when added
+    std::string head_path;                       // empty when deleted
+    const lexer::FileFunctions* base = nullptr;  // base side's functions
+    const lexer::FileFunctions* head = nullptr;  // head side's functions
+    const walker::LineSet* base_lines = nullptr; // deleted lines, base numbering
+    const walker::LineSet* head_lines = nullptr; // added lines, head numbering
 };
 
 // Return true when `span`'s extent holds a line of `lines` (false when `lines` is null).

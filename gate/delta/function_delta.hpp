@@ -24,28 +24,28 @@ const char* label_name(DeltaLabel label);
 
 // One side of a touched function.
 struct FunctionSide {
-    std::string path;         // repository-relative path on this side
-    unsigned start_line = 0;  // first line of the definition
-    unsigned end_line = 0;    // last line of the definition
-    bool lexical = false;     // extent came from the lexical cross-check
-    std::string token_hash;   // digest of the counted tokens
-    core::Measures measures;  // every measure on this side
+    std::string path;        // repository-relative path on this side
+    unsigned start_line = 0; // first line of the definition
+    unsigned end_line = 0;   // last line of the definition
+    bool lexical = false;    // extent came from the lexical cross-check
+    std::string token_hash;  // digest of the counted tokens
+    core::Measures measures; // every measure on this side
 
     bool operator==(const FunctionSide& other) const {
-        return path == other.path && start_line == other.start_line &&
-               end_line == other.end_line && lexical == other.lexical &&
-               token_hash == other.token_hash && measures == other.measures;
+        return path == other.path && start_line == other.start_line && end_line == other.end_line &&
+               lexical == other.lexical && token_hash == other.token_hash &&
+               measures == other.measures;
     }
 };
 
 // A touched function, paired across the change.
 struct FunctionDelta {
-    std::string name;                // qualified name (head's, or base's when removed)
-    std::string signature;           // parameter types
-    std::string identity;            // USR, or the fallback key when there is none
+    std::string name;                       // qualified name (head's, or base's when removed)
+    std::string signature;                  // parameter types
+    std::string identity;                   // USR, or the fallback key when there is none
     DeltaLabel label = DeltaLabel::changed; // what happened
-    std::optional<FunctionSide> base; // empty when added
-    std::optional<FunctionSide> head; // empty when removed
+    std::optional<FunctionSide> base;       // empty when added
+    std::optional<FunctionSide> head;       // empty when removed
 
     // Return the change of measure `id`; a missing side counts as zero.
     core::Delta delta(core::MeasureId id) const;
@@ -53,9 +53,8 @@ struct FunctionDelta {
     const FunctionSide& shown_side() const { return head ? *head : *base; }
 
     bool operator==(const FunctionDelta& other) const {
-        return name == other.name && signature == other.signature &&
-               identity == other.identity && label == other.label && base == other.base &&
-               head == other.head;
+        return name == other.name && signature == other.signature && identity == other.identity &&
+               label == other.label && base == other.base && head == other.head;
     }
 };
 
@@ -78,10 +77,10 @@ struct ChangeWarning {
 
 // Sums over a set of functions.
 struct Totals {
-    unsigned functions = 0;   // touched functions
-    unsigned added = 0;       // of which added
-    unsigned removed = 0;     // of which removed
-    unsigned changed = 0;     // of which changed or moved with other tokens
+    unsigned functions = 0;                  // touched functions
+    unsigned added = 0;                      // of which added
+    unsigned removed = 0;                    // of which removed
+    unsigned changed = 0;                    // of which changed or moved with other tokens
     double base_volume = 0, head_volume = 0; // summed V
     double base_effort = 0, head_effort = 0; // summed E
     double base_difficulty_max = 0, head_difficulty_max = 0; // largest D on each side
@@ -95,18 +94,18 @@ struct FileTotals {
 
 // Everything the renderers show about one change.
 struct ChangeReport {
-    std::string base_label;        // e.g. "main (3f2a91c)"
-    std::string head_label;        // e.g. "HEAD (9b1c0de)" or "working tree"
-    std::string base_commit;       // full id of the base
-    std::string head_commit;       // full id of the head; empty for the working tree
-    std::string convention;        // counting-convention fingerprint
-    std::vector<std::string> notes; // how the base was chosen, rename detection bounded, ...
+    std::string base_label;               // e.g. "main (3f2a91c)"
+    std::string head_label;               // e.g. "HEAD (9b1c0de)" or "working tree"
+    std::string base_commit;              // full id of the base
+    std::string head_commit;              // full id of the head; empty for the working tree
+    std::string convention;               // counting-convention fingerprint
+    std::vector<std::string> notes;       // how the base was chosen, rename detection bounded, ...
     std::vector<FunctionDelta> functions; // touched functions, in report order (see sort_deltas)
-    std::vector<FileTotals> files; // per changed file, by path
-    Totals totals;                 // the whole change
+    std::vector<FileTotals> files;        // per changed file, by path
+    Totals totals;                        // the whole change
     std::vector<SkippedPath> skipped;     // changed files not measured
     std::vector<ChangeWarning> warnings;  // parser warnings on either side
-    unsigned measured_files = 0;   // changed C/C++ files measured
+    unsigned measured_files = 0;          // changed C/C++ files measured
 };
 
 // Sort `functions` for reports: largest effort growth first, then by path, line and name, so

@@ -6,9 +6,8 @@
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 
-#include <spdlog/spdlog.h>
-
 #include <fmt/format.h>
+#include <spdlog/spdlog.h>
 
 namespace tollgate::delta {
 
@@ -24,8 +23,8 @@ std::string label_for(const std::string& name, const walker::ObjectId& id) {
 
 // Every file a side needs: the changed files' content and the side's headers.
 struct SideSources {
-    std::vector<SourceFile> tree;               // every C/C++ file of the side
-    lexer::ParseContext context;                // built from `tree`
+    std::vector<SourceFile> tree;                   // every C/C++ file of the side
+    lexer::ParseContext context;                    // built from `tree`
     std::vector<std::optional<SourceFile>> changed; // per changed file, its content on this side
 };
 
@@ -50,8 +49,7 @@ SideSources read_side_sources(const walker::Repository& repository,
 
 } // namespace
 
-ChangeReport measure_change(const walker::Repository& repository,
-                            const walker::ChangeSet& changes,
+ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
                             const MeasureChangeSettings& settings) {
     ChangeReport report;
     report.base_label = label_for(changes.range.base_name, changes.range.base);
@@ -66,9 +64,8 @@ ChangeReport measure_change(const walker::Repository& repository,
     }
     report.notes.insert(report.notes.end(), changes.notes.begin(), changes.notes.end());
     for (const auto& skipped : changes.skipped) {
-        report.skipped.push_back(
-            {skipped.head_path.empty() ? skipped.base_path : skipped.head_path,
-             walker::skip_reason_text(skipped.reason)});
+        report.skipped.push_back({skipped.head_path.empty() ? skipped.base_path : skipped.head_path,
+                                  walker::skip_reason_text(skipped.reason)});
     }
     report.measured_files = static_cast<unsigned>(changes.files.size());
     if (changes.files.empty()) {
@@ -106,8 +103,8 @@ ChangeReport measure_change(const walker::Repository& repository,
         const auto [index, side] = job_owner[j];
         (side == Side::base ? sides[index].base : sides[index].head) = &lexed[j];
         for (const auto& w : lexed[j].warnings) {
-            report.warnings.push_back({side == Side::base ? "base" : "head", w.path, w.line,
-                                       w.message});
+            report.warnings.push_back(
+                {side == Side::base ? "base" : "head", w.path, w.line, w.message});
         }
     }
     report.functions = compare_functions(sides, settings.measures);

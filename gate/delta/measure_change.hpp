@@ -16,19 +16,18 @@ namespace tollgate::delta {
 
 // Settings of the measuring pipeline.
 struct MeasureChangeSettings {
-    core::MeasureSettings measures;        // Stroud number
-    core::Convention convention;           // counting convention switches
-    std::string compile_commands_json;     // text of a compile_commands.json, or empty
-    std::string compile_commands_root;     // absolute folder its paths are relative to
-    std::string cache_dir;                 // precompiled-header cache; empty disables it
-    unsigned jobs = 0;                     // parser threads, 0 = all cores
+    core::MeasureSettings measures;    // Stroud number
+    core::Convention convention;       // counting convention switches
+    std::string compile_commands_json; // text of a compile_commands.json, or empty
+    std::string compile_commands_root; // absolute folder its paths are relative to
+    std::string cache_dir;             // precompiled-header cache; empty disables it
+    unsigned jobs = 0;                 // parser threads, 0 = all cores
 };
 
 // Measure the change `changes` in `repository`: each changed C/C++ file is parsed once per side
 // (headers of the same revision supplied from memory), and only touched functions are measured.
 // Throws Failure when a blob cannot be read or libclang fails.
-ChangeReport measure_change(const walker::Repository& repository,
-                            const walker::ChangeSet& changes,
+ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
                             const MeasureChangeSettings& settings);
 
 } // namespace tollgate::delta

@@ -75,7 +75,11 @@ struct Verdict {
     std::vector<std::string> notes;  // sentences for every report: expired waivers, waivers that
                                      // matched nothing, functions waived, policy differences
     std::string policy_origin;       // where the judging policy came from, e.g.
-                                     // "tollgate.yaml at base 3f2a91c" or "built-in default"
+                                     // ".tollgate.yaml at base 3f2a91c" or "built-in default"
+    std::vector<std::string> policy_changes; // when the head's policy differs from the base's:
+                                             // one line per difference; empty otherwise
+    std::string policy_change_summary;       // one sentence saying the change edits its policy and
+                                             // which side judges; empty when it does not
 };
 
 } // namespace tollgate::policy

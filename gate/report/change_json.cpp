@@ -31,8 +31,7 @@ json delta_json(const delta::FunctionDelta& f) {
     for (const auto id : core::k_all_measures) {
         const auto d = f.delta(id);
         deltas[std::string(core::measure_name(id))] = {
-            {"absolute", d.absolute},
-            {"percent", d.percent ? json(*d.percent) : json(nullptr)}};
+            {"absolute", d.absolute}, {"percent", d.percent ? json(*d.percent) : json(nullptr)}};
     }
     return deltas;
 }
@@ -47,9 +46,37 @@ json totals_json(const delta::Totals& t) {
             {"difficulty_max", {{"base", t.base_difficulty_max}, {"head", t.head_difficulty_max}}}};
 }
 
+json verdict_json(const policy::Verdict& verdict) {
+    json findings = json::array();
+    for (const auto& f : verdict.findings) {
+        findings.push_back({{"rule", f.rule_id},
+                            {"kind", policy::rule_kind_name(f.kind)},
+                            {"level", policy::level_name(f.level)},
+                            {"measure", std::string(core::measure_name(f.measure))},
+                            {"function", f.function},
+                            {"signature", f.signature},
+                            {"file", f.path},
+                            {"line", f.start_line},
+                            {"end_line", f.end_line},
+                            {"value", f.value},
+                            {"limit", f.limit},
+                            {"excess", f.excess},
+                            {"percent", f.percent},
+                            {"grandfathered", f.grandfathered},
+                            {"message", f.message}});
+    }
+    return {{"outcome", policy::outcome_name(verdict.outcome)},
+            {"policy", verdict.policy_origin},
+            {"policy_change", verdict.policy_change_summary},
+            {"policy_differences", verdict.policy_changes},
+            {"findings", findings},
+            {"notes", verdict.notes}};
+}
+
 } // namespace
 
-void write_change_json(std::ostream& out, const delta::ChangeReport& report) {
+void write_change_json(std::ostream& out, const delta::ChangeReport& report,
+                       const policy::Verdict& verdict) {
     json functions = json::array();
     for (const auto& f : report.functions) {
         functions.push_back({{"label", delta::label_name(f.label)},
@@ -75,6 +102,7 @@ void write_change_json(std::ostream& out, const delta::ChangeReport& report) {
     }
     const json document = {
         {"schema", "tollgate.check/1"},
+        {"verdict", verdict_json(verdict)},
         {"convention", report.convention},
         {"base", {{"label", report.base_label}, {"commit", report.base_commit}}},
         {"head",

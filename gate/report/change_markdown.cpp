@@ -91,69 +91,107 @@ std::string location_cell(const FunctionDelta& f, const ChangeReport& report,
     return "[" + cell_text(text) + "](" + link + ")";
 }
 
-void write_table(std::ostream& out, const ChangeReport& report, const RenderOptions& options,
-                 std::size_t first, std::size_t last) {
-    out << "| | function | location | volume | difficulty | effort | effort change |\n";
-    out << "|---|---|---|---:|---:|---:|---:|\n";
+void write_table(std::ostream& out, const ChangeReport& report, const policy::Verdict& verdict,
+                 const RenderOptions& options, std::size_t first, std::size_t last) {
+    out << "| | function | location | volume | difficulty | effort | effort change | rules |\n";
+    out << "|---|---|---|---:|---:|---:|---:|---|\n";
     for (std::size_t i = first; i < last; ++i) {
         const FunctionDelta& f = report.functions[i];
-        out << fmt::format("| {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
-                           code_cell(f.name), location_cell(f, report, options),
-                           pair_cell(f, MeasureId::volume, 1),
+        const std::string rules = rules_broken_by(verdict, f);
+        out << fmt::format("| {} | {} | {} | {} | {} | {} | {} | {} |\n",
+                           delta::label_name(f.label), code_cell(f.name),
+                           location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
                            pair_cell(f, MeasureId::difficulty, 2),
-                           pair_cell(f, MeasureId::effort, 0), growth_cell(f));
+                           pair_cell(f, MeasureId::effort, 0), growth_cell(f),
+                           rules.empty() ? std::string() : cell_text(rules));
     }
 }
 
 } // namespace
 
 void write_change_markdown(std::ostream& out, const ChangeReport& report,
-                           const RenderOptions& options) {
+                           const policy::Verdict& verdict, const RenderOptions& options) {
     const auto& t = report.totals;
+    std::size_t blocking = 0;
+    for (const auto& f : verdict.findings) {
+        blocking += f.level == policy::Level::blocking && !f.grandfathered ? 1 : 0;
+    }
+    const std::size_t warnings = verdict.findings.size() - blocking;
+    const bool blocked = verdict.outcome == policy::Outcome::blocked;
+    std::string summary = blocked ? fmt::format("**Tollgate: blocked** by {} finding{}", blocking,
+                                                blocking == 1 ? "" : "s")
+                                  : std::string("**Tollgate: pass**");
+    if (warnings > 0) {
+        summary += fmt::format("{} {} warning{}", blocked ? "," : " with", warnings,
+                               warnings == 1 ? "" : "s");
+    }
     if (report.functions.empty()) {
-        out << (report.measured_files == 0
-                    ? "**Tollgate**: no C/C++ file changed, nothing to measure.\n"
-                    : "**Tollgate**: C/C++ files changed, but no function definition was "
-                      "touched.\n");
+        summary += report.measured_files == 0
+                       ? ": no C/C++ file changed, nothing to measure."
+                       : ": C/C++ files changed, but no function definition was touched.";
     } else {
         const auto effort = core::compute_delta(t.base_effort, t.head_effort);
+        summary += fmt::format(": {} function{} touched in {} file{}, effort {}{} ({})",
+                               t.functions, t.functions == 1 ? "" : "s", report.files.size(),
+                               report.files.size() == 1 ? "" : "s", effort.absolute >= 0 ? "+" : "",
+                               group_thousands(effort.absolute), format_percent(effort.percent));
         const FunctionDelta& top = report.functions.front();
         const auto top_growth = top.delta(MeasureId::effort);
-        std::string summary = fmt::format(
-            "**Tollgate**: {} function{} touched in {} file{}, effort {}{} ({})", t.functions,
-            t.functions == 1 ? "" : "s", report.files.size(), report.files.size() == 1 ? "" : "s",
-            effort.absolute >= 0 ? "+" : "", group_thousands(effort.absolute),
-            format_percent(effort.percent));
         if (top_growth.absolute > 0) {
-            summary += fmt::format(", largest growth `{}` {}{}", top.name, "+",
+            summary += fmt::format(", largest growth `{}` +{}", top.name,
                                    group_thousands(top_growth.absolute));
         }
-        out << summary << ".\n\n";
+        summary += ".";
+    }
+    out << summary << "\n\n";
+    if (!verdict.policy_change_summary.empty()) {
+        out << "> [!WARNING]\n> " << cell_text(verdict.policy_change_summary) << ":\n";
+        for (const auto& change : verdict.policy_changes) {
+            out << "> - " << cell_text(change) << "\n";
+        }
+        out << "\n";
+    }
+    for (const auto& f : verdict.findings) {
+        const bool blocks = f.level == policy::Level::blocking && !f.grandfathered;
+        out << "- " << (blocks ? "**blocking**" : "warning") << ": " << cell_text(f.message)
+            << "\n";
+    }
+    if (!verdict.findings.empty()) {
+        out << "\n";
+    }
+    if (!report.functions.empty()) {
         const std::size_t shown = std::min(options.markdown_rows, report.functions.size());
-        write_table(out, report, options, 0, shown);
+        write_table(out, report, verdict, options, 0, shown);
         if (shown < report.functions.size()) {
             const std::size_t rest = report.functions.size() - shown;
             out << fmt::format("\n<details><summary>{} more function{}</summary>\n\n", rest,
                                rest == 1 ? "" : "s");
-            write_table(out, report, options, shown, report.functions.size());
+            write_table(out, report, verdict, options, shown, report.functions.size());
             out << "\n</details>\n";
         }
     }
-    out << fmt::format("\n<sub>base {} → head {} · convention {}</sub>\n",
+    out << fmt::format("\n<sub>base {} → head {} · convention {} · policy {}</sub>\n",
                        cell_text(report.base_label), cell_text(report.head_label),
-                       report.convention);
-    if (!report.notes.empty() || !report.skipped.empty() || !report.warnings.empty()) {
+                       report.convention, cell_text(verdict.policy_origin));
+    std::vector<std::string> bullets;
+    for (const auto& note : verdict.notes) {
+        bullets.push_back("policy note: " + cell_text(note));
+    }
+    for (const auto& note : report.notes) {
+        bullets.push_back("note: " + cell_text(note));
+    }
+    for (const auto& s : report.skipped) {
+        bullets.push_back(fmt::format("skipped `{}` ({})", s.path, s.reason));
+    }
+    for (const auto& w : report.warnings) {
+        bullets.push_back(fmt::format("warning ({}) `{}{}`: {}", w.side, w.path,
+                                      w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
+                                      cell_text(w.message)));
+    }
+    if (!bullets.empty()) {
         out << "\n";
-        for (const auto& note : report.notes) {
-            out << "- note: " << cell_text(note) << "\n";
-        }
-        for (const auto& s : report.skipped) {
-            out << fmt::format("- skipped `{}` ({})\n", s.path, s.reason);
-        }
-        for (const auto& w : report.warnings) {
-            out << fmt::format("- warning ({}) `{}{}`: {}\n", w.side, w.path,
-                               w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
-                               cell_text(w.message));
+        for (const auto& bullet : bullets) {
+            out << "- " << bullet << "\n";
         }
     }
 }

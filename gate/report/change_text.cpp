@@ -3,10 +3,10 @@
 #include "gate/report/change_report.hpp"
 #include "gate/report/measure_table.hpp"
 
-#include <fmt/format.h>
-
 #include <algorithm>
 #include <cmath>
+#include <fmt/format.h>
+#include <functional>
 #include <vector>
 
 namespace tollgate::report {
@@ -20,11 +20,11 @@ using delta::FunctionDelta;
 constexpr const char* k_red = "\x1b[31m";
 constexpr const char* k_green = "\x1b[32m";
 constexpr const char* k_dim = "\x1b[2m";
+constexpr const char* k_yellow = "\x1b[33m";
 constexpr const char* k_bold = "\x1b[1m";
 constexpr const char* k_reset = "\x1b[0m";
 
-std::string side_value(const std::optional<delta::FunctionSide>& side, MeasureId id,
-                       int decimals) {
+std::string side_value(const std::optional<delta::FunctionSide>& side, MeasureId id, int decimals) {
     return side ? format_number(core::measure_value(side->measures, id), decimals) : "-";
 }
 
@@ -45,14 +45,70 @@ std::string location_of(const FunctionDelta& f) {
 
 } // namespace
 
+std::string rules_broken_by(const policy::Verdict& verdict, const FunctionDelta& f) {
+    const auto& side = f.shown_side();
+    std::string blocking, warning;
+    for (const auto& finding : verdict.findings) {
+        if (finding.function != f.name || finding.path != side.path ||
+            finding.start_line != side.start_line) {
+            continue;
+        }
+        std::string& list =
+            finding.level == policy::Level::blocking && !finding.grandfathered ? blocking : warning;
+        list += (list.empty() ? "" : ", ") + finding.rule_id;
+    }
+    if (blocking.empty() || warning.empty()) {
+        return blocking + warning;
+    }
+    return blocking + ", " + warning;
+}
+
+namespace {
+
+void write_verdict_text(std::ostream& out, const policy::Verdict& verdict,
+                        const std::function<std::string(const char*, const std::string&)>& paint) {
+    std::size_t blocking = 0;
+    for (const auto& f : verdict.findings) {
+        blocking += f.level == policy::Level::blocking && !f.grandfathered ? 1 : 0;
+    }
+    const std::size_t warnings = verdict.findings.size() - blocking;
+    const bool blocked = verdict.outcome == policy::Outcome::blocked;
+    std::string line = blocked ? fmt::format("verdict: BLOCKED by {} blocking finding{}", blocking,
+                                             blocking == 1 ? "" : "s")
+                               : std::string("verdict: pass");
+    if (warnings > 0) {
+        line += fmt::format("{} {} warning{}", blocked ? "," : " with", warnings,
+                            warnings == 1 ? "" : "s");
+    }
+    line += " (policy: " + verdict.policy_origin + ")";
+    out << paint(blocked ? k_red : k_green, line) << "\n";
+    for (const auto& f : verdict.findings) {
+        const bool blocks = f.level == policy::Level::blocking && !f.grandfathered;
+        out << "  " << paint(blocks ? k_red : k_yellow, blocks ? "blocking" : "warning ") << "  "
+            << f.message << "\n";
+    }
+    for (const auto& note : verdict.notes) {
+        out << "  note: " << note << "\n";
+    }
+}
+
+} // namespace
+
 void write_change_text(std::ostream& out, const ChangeReport& report,
-                       const RenderOptions& options) {
+                       const policy::Verdict& verdict, const RenderOptions& options) {
     const bool colour = options.colour == Colour::on;
-    const auto paint = [colour](const char* code, const std::string& text) {
-        return colour ? std::string(code) + text + k_reset : text;
-    };
+    const std::function<std::string(const char*, const std::string&)> paint =
+        [colour](const char* code, const std::string& text) {
+            return colour ? std::string(code) + text + k_reset : text;
+        };
     out << paint(k_bold, fmt::format("tollgate: {} -> {}", report.base_label, report.head_label))
         << "\n";
+    if (!verdict.policy_change_summary.empty()) {
+        out << paint(k_yellow, "policy: " + verdict.policy_change_summary) << "\n";
+        for (const auto& change : verdict.policy_changes) {
+            out << paint(k_yellow, "  " + change) << "\n";
+        }
+    }
     for (const auto& note : report.notes) {
         out << "note: " << note << "\n";
     }
@@ -65,12 +121,12 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
         }
     } else {
         std::vector<std::vector<std::string>> rows;
-        rows.push_back({"label", "location", "function", "V", "D", "E"});
+        rows.push_back({"label", "location", "function", "V", "D", "E", "rules"});
         for (const auto& f : report.functions) {
             rows.push_back({delta::label_name(f.label), location_of(f), f.name,
                             change_cell(f, MeasureId::volume, 1),
                             change_cell(f, MeasureId::difficulty, 2),
-                            change_cell(f, MeasureId::effort, 0)});
+                            change_cell(f, MeasureId::effort, 0), rules_broken_by(verdict, f)});
         }
         std::vector<std::size_t> widths(rows.front().size(), 0);
         for (const auto& row : rows) {
@@ -81,7 +137,7 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
         for (std::size_t r = 0; r < rows.size(); ++r) {
             std::string line;
             for (std::size_t c = 0; c < rows[r].size(); ++c) {
-                const bool numeric = c >= 3;
+                const bool numeric = c >= 3 && c <= 5;
                 line += c == 0 ? "" : "  ";
                 line += numeric ? fmt::format("{:>{}}", rows[r][c], widths[c])
                                 : fmt::format("{:<{}}", rows[r][c], widths[c]);
@@ -114,6 +170,7 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
                            effort.absolute >= 0 ? "+" : "", group_thousands(effort.absolute),
                            format_percent(effort.percent));
     }
+    write_verdict_text(out, verdict, paint);
     for (const auto& s : report.skipped) {
         out << fmt::format("skipped: {} ({})\n", s.path, s.reason);
     }

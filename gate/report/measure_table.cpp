@@ -2,10 +2,9 @@
 // Text and JSON renderers for per-function measures.
 #include "gate/report/measure_table.hpp"
 
+#include <algorithm>
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
-
-#include <algorithm>
 
 namespace tollgate::report {
 
@@ -22,9 +21,9 @@ struct Column {
 
 const std::vector<Column>& columns_for(Columns columns) {
     static const std::vector<Column> essential = {
-        {"n1", MeasureId::n1, 0, false},      {"n2", MeasureId::n2, 0, false},
-        {"N1", MeasureId::N1, 0, true},       {"N2", MeasureId::N2, 0, true},
-        {"V", MeasureId::volume, 1, true},    {"D", MeasureId::difficulty, 2, false},
+        {"n1", MeasureId::n1, 0, false},   {"n2", MeasureId::n2, 0, false},
+        {"N1", MeasureId::N1, 0, true},    {"N2", MeasureId::N2, 0, true},
+        {"V", MeasureId::volume, 1, true}, {"D", MeasureId::difficulty, 2, false},
         {"E", MeasureId::effort, 0, true},
     };
     static const std::vector<Column> all = {
@@ -160,8 +159,8 @@ void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& 
 }
 
 void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& functions,
-                        const std::vector<SourceWarning>& warnings,
-                        const std::string& source_label, const std::string& convention) {
+                        const std::vector<SourceWarning>& warnings, const std::string& source_label,
+                        const std::string& convention) {
     nlohmann::json list = nlohmann::json::array();
     double volume = 0, effort = 0;
     std::uint64_t n1_total = 0, n2_total = 0;
@@ -191,9 +190,8 @@ void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& 
 void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         const std::string& source_label, const std::string& convention,
                         double stroud) {
-    out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line,
-                       f.name, f.signature, source_label, convention,
-                       f.lexical ? ", lexical extent" : "");
+    out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line, f.name,
+                       f.signature, source_label, convention, f.lexical ? ", lexical extent" : "");
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {
         std::vector<std::pair<std::string, core::TableEntry>> rows(table.begin(), table.end());

@@ -13,14 +13,14 @@ namespace tollgate::report {
 
 // One measured function, as the reports show it.
 struct MeasuredFunction {
-    std::string path;            // repository-relative path
-    unsigned start_line = 0;     // first line of the definition
-    unsigned end_line = 0;       // last line of the definition
-    std::string name;            // qualified name
-    std::string signature;       // parameter types
-    bool lexical = false;        // extent came from the lexical cross-check
-    core::Counts counts;         // per-token tables and n1, n2, N1, N2
-    core::Measures measures;     // every measure
+    std::string path;        // repository-relative path
+    unsigned start_line = 0; // first line of the definition
+    unsigned end_line = 0;   // last line of the definition
+    std::string name;        // qualified name
+    std::string signature;   // parameter types
+    bool lexical = false;    // extent came from the lexical cross-check
+    core::Counts counts;     // per-token tables and n1, n2, N1, N2
+    core::Measures measures; // every measure
 };
 
 // A warning shown under the table.
@@ -41,8 +41,8 @@ void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& 
 
 // Write the functions as JSON (schema "tollgate.measure/1") to `out`.
 void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& functions,
-                        const std::vector<SourceWarning>& warnings,
-                        const std::string& source_label, const std::string& convention);
+                        const std::vector<SourceWarning>& warnings, const std::string& source_label,
+                        const std::string& convention);
 
 // Write one function's operator and operand tables and its measures as text.
 void write_explain_text(std::ostream& out, const MeasuredFunction& function,

@@ -3,7 +3,8 @@
 # Benchmark `tollgate snapshot` on a generated tree of FILES .cpp files and FILES headers of about
 # LINES lines (tests/bench/gen_change.py, classes declared in headers): files per second and peak
 # memory, one thread against all cores, with a warm precompiled-header cache. Prints the machine's
-# load beside the figures, since other work shares the cores.
+# load beside the figures, since other work shares the cores; "cpu" is user + system time, and its
+# ratio to the wall time shows how many cores the run actually got.
 # Run by hand after building: bash tests/bench/bench_snapshot.sh [build-dir] [FILES] [LINES]
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
@@ -26,7 +27,7 @@ run() { # $1 label, rest: tollgate arguments
     local load_before load_after start end
     load_before=$(uptime | sed 's/.*load average: //')
     start=$(date +%s.%N)
-    /usr/bin/time -f "%M" -o "$work/mem" "$tollgate" snapshot --cache-dir "$cache" "$@" \
+    /usr/bin/time -f "%U %S %M" -o "$work/mem" "$tollgate" snapshot --cache-dir "$cache" "$@" \
         2>"$work/err" || { cat "$work/err"; exit 1; }
     end=$(date +%s.%N)
     load_after=$(uptime | sed 's/.*load average: //')
@@ -34,9 +35,11 @@ run() { # $1 label, rest: tollgate arguments
 import sys
 label, start, end, mem, total, before, after = sys.argv[1:]
 seconds = float(end) - float(start)
-peak = int(open(mem).read().split()[-1]) / 1024
-print(f"{label:<36} {seconds:8.2f} s  {int(total) / seconds:7.1f} files/s  peak {peak:7.1f} MiB"
-      f"  load {before} -> {after}")
+user, system, peak_kib = open(mem).read().split()[-3:]
+cpu = float(user) + float(system)
+peak = int(peak_kib) / 1024
+print(f"{label:<34} {seconds:7.2f} s  {int(total) / seconds:6.1f} files/s  cpu {cpu:6.1f} s"
+      f" (x{cpu / seconds:.2f})  peak {peak:6.1f} MiB  load {before} -> {after}")
 EOF
 }
 run "cold PCH cache, all cores (-j 0)" -j 0 --out "$work/cold.json"

@@ -1,9 +1,8 @@
 // SPDX-License-Identifier: MIT
 // Benchmark floor: parse each given file with bare libclang, naive settings (full parse, no
 // precompiled header, one thread), and print the wall time. Not a test; run by the bench scripts.
-#include <clang-c/Index.h>
-
 #include <chrono>
+#include <clang-c/Index.h>
 #include <cstdio>
 #include <string>
 #include <vector>
@@ -33,7 +32,8 @@ int main(int argc, char** argv) {
     for (const char* file : files) {
         CXTranslationUnit unit = nullptr;
         if (clang_parseTranslationUnit2(index, file, args.data(), static_cast<int>(args.size()),
-                                        nullptr, 0, CXTranslationUnit_None, &unit) == CXError_Success) {
+                                        nullptr, 0, CXTranslationUnit_None,
+                                        &unit) == CXError_Success) {
             ++parsed;
             clang_disposeTranslationUnit(unit);
         }

@@ -71,8 +71,7 @@ TEST_CASE("classify_token keeps unary, binary and declarator forms apart", "[cor
         CHECK(classify_token(punct("&", Form::unary))->form == "address-of");
         CHECK(classify_token(punct("&", Form::binary))->form == "bitwise and");
         CHECK(classify_token(punct("&", Form::declarator))->form == "reference declarator");
-        CHECK(classify_token(punct("&&", Form::declarator))->form ==
-              "rvalue reference declarator");
+        CHECK(classify_token(punct("&&", Form::declarator))->form == "rvalue reference declarator");
         CHECK(classify_token(punct("&&", Form::binary))->key == "&&");
     }
     SECTION("increment") {
@@ -125,20 +124,53 @@ TEST_CASE("count_tokens reproduces the encyclopedia's counts from hand-classifie
     // memory, recomputed by counting). Tokens classified by hand here; the lexer tests run the
     // same program through libclang.
     std::vector<RawToken> raw = {
-        ident("main", NameKind::defined), punct("("), punct(")"), punct("{"),
-        keyword("int"), ident("a", NameKind::value), punct(","), ident("b", NameKind::value),
-        punct(","), ident("c", NameKind::value), punct(","), ident("avg", NameKind::value),
+        ident("main", NameKind::defined),
+        punct("("),
+        punct(")"),
+        punct("{"),
+        keyword("int"),
+        ident("a", NameKind::value),
+        punct(","),
+        ident("b", NameKind::value),
+        punct(","),
+        ident("c", NameKind::value),
+        punct(","),
+        ident("avg", NameKind::value),
         punct(";"),
-        ident("scanf", NameKind::function), punct("("), literal("\"%d %d %d\""), punct(","),
-        punct("&", Form::unary), ident("a", NameKind::value), punct(","),
-        punct("&", Form::unary), ident("b", NameKind::value), punct(","),
-        punct("&", Form::unary), ident("c", NameKind::value), punct(")"), punct(";"),
-        ident("avg", NameKind::value), punct("=", Form::binary), punct("("),
-        ident("a", NameKind::value), punct("+", Form::binary), ident("b", NameKind::value),
-        punct("+", Form::binary), ident("c", NameKind::value), punct(")"), punct("/"),
-        literal("3"), punct(";"),
-        ident("printf", NameKind::function), punct("("), literal("\"avg = %d\""), punct(","),
-        ident("avg", NameKind::value), punct(")"), punct(";"), punct("}"),
+        ident("scanf", NameKind::function),
+        punct("("),
+        literal("\"%d %d %d\""),
+        punct(","),
+        punct("&", Form::unary),
+        ident("a", NameKind::value),
+        punct(","),
+        punct("&", Form::unary),
+        ident("b", NameKind::value),
+        punct(","),
+        punct("&", Form::unary),
+        ident("c", NameKind::value),
+        punct(")"),
+        punct(";"),
+        ident("avg", NameKind::value),
+        punct("=", Form::binary),
+        punct("("),
+        ident("a", NameKind::value),
+        punct("+", Form::binary),
+        ident("b", NameKind::value),
+        punct("+", Form::binary),
+        ident("c", NameKind::value),
+        punct(")"),
+        punct("/"),
+        literal("3"),
+        punct(";"),
+        ident("printf", NameKind::function),
+        punct("("),
+        literal("\"avg = %d\""),
+        punct(","),
+        ident("avg", NameKind::value),
+        punct(")"),
+        punct(";"),
+        punct("}"),
     };
     TokenList tokens;
     for (const auto& r : raw) {

@@ -3,7 +3,6 @@
 #include "tollgate/core/measures.hpp"
 
 #include <catch2/catch.hpp>
-
 #include <cmath>
 
 using tollgate::core::compute_measures;

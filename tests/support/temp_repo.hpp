@@ -24,9 +24,9 @@ private:
 
 // The result of a command run through the shell.
 struct RunResult {
-    int exit_code = -1;  // the command's exit status
-    std::string out;     // its standard output
-    std::string err;     // its standard error
+    int exit_code = -1; // the command's exit status
+    std::string out;    // its standard output
+    std::string err;    // its standard error
 };
 
 // Run `command` with /bin/sh in folder `cwd`, capturing stdout and stderr.

@@ -375,3 +375,44 @@ TEST_CASE("confine_to_repository", "[baseline]") {
                           "(give a file path such as \"baselines/snapshot.json\")");
     }
 }
+
+TEST_CASE("make_snapshot", "[baseline]") {
+    auto span = [](const std::string& path, unsigned line, const std::string& key) {
+        tollgate::lexer::FunctionSpan s;
+        s.path = path;
+        s.start_line = line;
+        s.end_line = line + 1;
+        s.fallback_key = key;
+        s.qualified_name = key.substr(0, key.find('('));
+        s.token_hash = "0";
+        return s;
+    };
+    std::vector<tollgate::lexer::FileFunctions> files(2);
+    files[0].path = "z.c";
+    files[0].functions = {span("z.c", 9, "b()#1"), span("z.c", 2, "a()#0")};
+    files[1].path = "a.c";
+    files[1].functions = {span("a.c", 5, "c()#0"), span("a.c", 5, "c()#0")};
+    tollgate::core::MeasureSettings settings;
+    settings.stroud = 10;
+    const Snapshot s = tollgate::baseline::make_snapshot(files, k_commit, "c-family/1", settings,
+                                                         "2024-05-01T12:00:00Z");
+
+    SECTION("functions are sorted by path and line, a repeated one kept once") {
+        REQUIRE(s.functions.size() == 3);
+        CHECK(s.functions[0].path == "a.c");
+        CHECK(s.functions[1].start_line == 2);
+        CHECK(s.functions[2].start_line == 9);
+    }
+
+    SECTION("the header records the commit, convention, Stroud number and version") {
+        CHECK(s.commit == k_commit);
+        CHECK(s.convention == "c-family/1");
+        CHECK(s.stroud == 10);
+        CHECK(s.tool_version == TOLLGATE_VERSION);
+        CHECK(s.created == "2024-05-01T12:00:00Z");
+    }
+
+    SECTION("the result survives a write and a read") {
+        CHECK(parse_snapshot(snapshot_to_json(s), k_path) == s);
+    }
+}

@@ -6,6 +6,8 @@
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
+#include <cstdlib>
+#include <fstream>
 #include <nlohmann/json.hpp>
 #include <sstream>
 
@@ -65,12 +67,13 @@ tollgate::baseline::SnapshotFunction hand(const std::string& path, unsigned line
                              static_cast<std::uint64_t>(c.N1), static_cast<std::uint64_t>(c.N2));
 }
 
-} // namespace
-
-TEST_CASE("compare_snapshots", "[baseline]") {
-    Snapshot base, head;
+// The scripted history's two snapshots, made by hand with the counts above.
+void hand_snapshots(Snapshot& base, Snapshot& head) {
+    base.convention = head.convention = "c-family/1";
     base.commit = std::string(40, 'a');
     head.commit = std::string(40, 'b');
+    base.created = "2024-05-01T12:00:00Z";
+    head.created = "2024-05-08T09:30:00Z";
     base.functions = {
         hand("lib/util.c", 1, "inc", 1, k_inc_base), hand("lib/util.c", 2, "gone", 2, k_keep),
         hand("main.c", 1, "main", 1, k_main), hand("src/calc.c", 1, "twice", 1, k_twice_base),
@@ -79,6 +82,23 @@ TEST_CASE("compare_snapshots", "[baseline]") {
         hand("lib/util.c", 1, "inc", 1, k_inc_head), hand("lib/util.c", 2, "fresh", 2, k_keep),
         hand("main.c", 1, "main", 1, k_main), hand("src/calc.c", 1, "twice", 1, k_twice_head),
         hand("src/calc.c", 2, "keep", 2, k_keep)};
+}
+
+// Compare `actual` with the reviewed file tests/approved/NAME; TOLLGATE_APPROVE=1 rewrites it.
+void check_approved(const std::string& name, const std::string& actual) {
+    const std::string path = std::string(TOLLGATE_SOURCE_DIR) + "/tests/approved/" + name;
+    if (std::getenv("TOLLGATE_APPROVE") != nullptr) {
+        std::ofstream(path, std::ios::binary) << actual;
+    }
+    INFO("approved file: " << path << " (TOLLGATE_APPROVE=1 rewrites it)");
+    CHECK(actual == tollgate::test::read_text(path));
+}
+
+} // namespace
+
+TEST_CASE("compare_snapshots", "[baseline]") {
+    Snapshot base, head;
+    hand_snapshots(base, head);
 
     SECTION("functions grow in order of their effort increase") {
         const auto trend = compare_snapshots(base, head);
@@ -152,6 +172,24 @@ TEST_CASE("compare_snapshots", "[baseline]") {
         CHECK(trend.growth.empty());
         CHECK(trend.folders.empty());
         CHECK(trend.total.effort.absolute == 0);
+    }
+}
+
+TEST_CASE("write_trend_text and write_trend_json match the approved files", "[baseline]") {
+    Snapshot base, head;
+    hand_snapshots(base, head);
+    const auto trend = compare_snapshots(base, head);
+    std::ostringstream text, json;
+    tollgate::baseline::write_trend_text(text, trend, 10);
+    tollgate::baseline::write_trend_json(json, trend, 10);
+    check_approved("snapshot_trend.txt", text.str());
+    check_approved("snapshot_trend.json", json.str());
+
+    SECTION("top limits the listed functions, not the counts") {
+        std::ostringstream one;
+        tollgate::baseline::write_trend_text(one, trend, 1);
+        CHECK(one.str().find("functions that grew most in effort (1 of 2):") != std::string::npos);
+        CHECK(one.str().find("twice(int)") == std::string::npos);
     }
 }
 

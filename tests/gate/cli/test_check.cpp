@@ -5,10 +5,9 @@
 #include "tollgate/core/measures.hpp"
 
 #include <catch2/catch.hpp>
-#include <nlohmann/json.hpp>
-
 #include <cmath>
 #include <fstream>
+#include <nlohmann/json.hpp>
 
 using tollgate::test::commit_all;
 using tollgate::test::git;
@@ -214,11 +213,13 @@ TEST_CASE("check does not touch functions that use a changed macro", "[check]") 
     // the macro's definition line touches no function.
     TempDir dir;
     init_repo(dir.path());
-    dir.write("limit.c", "#define LIMIT 10\n\nint clamp(int v) {\n    return v > LIMIT ? LIMIT : v;\n"
-                         "}\n");
+    dir.write("limit.c",
+              "#define LIMIT 10\n\nint clamp(int v) {\n    return v > LIMIT ? LIMIT : v;\n"
+              "}\n");
     const std::string base = commit_all(dir.path(), "base");
-    dir.write("limit.c", "#define LIMIT 20\n\nint clamp(int v) {\n    return v > LIMIT ? LIMIT : v;\n"
-                         "}\n");
+    dir.write("limit.c",
+              "#define LIMIT 20\n\nint clamp(int v) {\n    return v > LIMIT ? LIMIT : v;\n"
+              "}\n");
     const std::string head = commit_all(dir.path(), "head");
     const auto report = check_json(dir.path(), "--base " + base + " --head " + head);
     CHECK(report["functions"].empty());
@@ -293,7 +294,7 @@ TEST_CASE("check writes a Markdown table that a GFM renderer renders as a table"
                                      dir.path());
     REQUIRE(result.exit_code == 0);
     const std::string markdown = tollgate::test::read_text(dir.path() + "/delta.md");
-    CHECK(markdown.rfind("**Tollgate**: 15 functions touched in 1 file", 0) == 0);
+    CHECK(markdown.rfind("**Tollgate: pass**: 15 functions touched in 1 file", 0) == 0);
     CHECK(markdown.find("<details><summary>5 more functions</summary>") != std::string::npos);
     CHECK(markdown.find("(https://git.example/r/blob/" + head + "/many.cpp#L") !=
           std::string::npos);
@@ -329,7 +330,7 @@ TEST_CASE("check --worktree compares staged and unstaged edits with HEAD", "[che
     dir.write("b.c", "int second(int v) {\n    return v;\n}\n");
     commit_all(dir.path(), "base");
     dir.write("a.c", "int first(int v) {\n    return v + 1;\n}\n");
-    git("add a.c", dir.path()); // staged
+    git("add a.c", dir.path());                                      // staged
     dir.write("b.c", "int second(int v) {\n    return v - 1;\n}\n"); // unstaged
     dir.write("c.c", "int third(int v) {\n    return v * 3;\n}\n");  // untracked
     const auto report = check_json(dir.path(), "--worktree");
@@ -343,15 +344,15 @@ TEST_CASE("check gives the same report on one thread and on all cores", "[check]
     TempDir dir;
     init_repo(dir.path());
     for (int i = 0; i < 6; ++i) {
-        dir.write("f" + std::to_string(i) + ".cpp",
-                  "int work" + std::to_string(i) + "(int v) {\n    return v + " +
-                      std::to_string(i) + ";\n}\n");
+        dir.write("f" + std::to_string(i) + ".cpp", "int work" + std::to_string(i) +
+                                                        "(int v) {\n    return v + " +
+                                                        std::to_string(i) + ";\n}\n");
     }
     const std::string base = commit_all(dir.path(), "base");
     for (int i = 0; i < 6; ++i) {
-        dir.write("f" + std::to_string(i) + ".cpp",
-                  "int work" + std::to_string(i) + "(int v) {\n    return v * v - " +
-                      std::to_string(i) + ";\n}\n");
+        dir.write("f" + std::to_string(i) + ".cpp", "int work" + std::to_string(i) +
+                                                        "(int v) {\n    return v * v - " +
+                                                        std::to_string(i) + ";\n}\n");
     }
     const std::string head = commit_all(dir.path(), "head");
     const std::string range = "--base " + base + " --head " + head + " --report json:-";
@@ -389,8 +390,138 @@ TEST_CASE("check in a shallow clone compares present commits directly or names t
     }
     SECTION("depth 2 holds base and head: they are compared directly") {
         git("clone -q --depth 2 --branch feature file://" + origin + " shallow2", dir.path());
-        const auto report =
-            check_json(dir.path() + "/shallow2", "--base HEAD~1 --head HEAD");
+        const auto report = check_json(dir.path() + "/shallow2", "--base HEAD~1 --head HEAD");
         CHECK(touched_set(report) == std::vector<std::string>{"changed step"});
     }
+}
+
+namespace {
+
+const char* const k_strict_policy = "tollgate-policy: 1\n"
+                                    "rules:\n"
+                                    "  - id: effort-growth\n"
+                                    "    kind: growth\n"
+                                    "    measure: effort\n"
+                                    "    max-increase-percent: 20\n"
+                                    "    level: blocking\n";
+
+const char* const k_loose_policy = "tollgate-policy: 1\n"
+                                   "rules:\n"
+                                   "  - id: effort-growth\n"
+                                   "    kind: growth\n"
+                                   "    measure: effort\n"
+                                   "    max-increase-percent: 900\n"
+                                   "    level: blocking\n";
+
+// A repository whose head commit more than doubles the effort of `grow`.
+std::pair<std::string, std::string> growing_history(const TempDir& dir,
+                                                    const std::string& base_policy,
+                                                    const std::string& head_policy) {
+    init_repo(dir.path());
+    dir.write("grow.c", "int grow(int a) {\n    return a + 1;\n}\n");
+    if (!base_policy.empty()) {
+        dir.write(".tollgate.yaml", base_policy);
+    }
+    const std::string base = commit_all(dir.path(), "base");
+    dir.write("grow.c", "int grow(int a) {\n    if (a > 10) {\n        return a * a - 3;\n    }\n"
+                        "    return a + 1;\n}\n");
+    if (!head_policy.empty()) {
+        dir.write(".tollgate.yaml", head_policy);
+    }
+    return {base, commit_all(dir.path(), "head")};
+}
+
+} // namespace
+
+TEST_CASE("check blocks a change that breaks the base commit's policy", "[check][policy]") {
+    TempDir dir;
+    const auto [base, head] = growing_history(dir, k_strict_policy, "");
+    const auto result = run_tollgate(
+        "check --no-pch-cache --no-color --base " + base + " --head " + head, dir.path());
+    CHECK(result.exit_code == 1);
+    CHECK(result.out.find("verdict: BLOCKED by 1 blocking finding (policy: .tollgate.yaml at "
+                          "base " +
+                          base.substr(0, 7) + ")") != std::string::npos);
+    CHECK(result.out.find("grow.c:1: grow(int): effort +") != std::string::npos);
+    CHECK(result.out.find("exceeds the limit +20% by") != std::string::npos);
+}
+
+TEST_CASE("check judges with the base's policy when the change loosens it", "[check][policy]") {
+    TempDir dir;
+    const auto [base, head] = growing_history(dir, k_strict_policy, k_loose_policy);
+    const auto result = run_tollgate(
+        "check --no-pch-cache --no-color --base " + base + " --head " + head, dir.path());
+    CHECK(result.exit_code == 1);
+    CHECK(result.out.find("policy: this change edits .tollgate.yaml; the base's policy judges it "
+                          "until the change is merged") != std::string::npos);
+    CHECK(result.out.find("rules[\"effort-growth\"].max-increase-percent: 20 in base, 900 in "
+                          "head") != std::string::npos);
+}
+
+TEST_CASE("check judges with the head's policy when the base's policy says so", "[check][policy]") {
+    TempDir dir;
+    const std::string base_policy = std::string(k_strict_policy) + "judge-with: head\n";
+    const std::string head_policy = std::string(k_loose_policy) + "judge-with: head\n";
+    const auto [base, head] = growing_history(dir, base_policy, head_policy);
+    const auto result = run_tollgate(
+        "check --no-pch-cache --no-color --base " + base + " --head " + head, dir.path());
+    CHECK(result.exit_code == 0);
+    CHECK(result.out.find("the head's policy judges it") != std::string::npos);
+}
+
+TEST_CASE("check uses --policy over the repository's policy", "[check][policy]") {
+    TempDir dir;
+    const auto [base, head] = growing_history(dir, k_strict_policy, "");
+    TempDir elsewhere;
+    elsewhere.write("loose.yaml", k_loose_policy);
+    const auto result = run_tollgate("check --no-pch-cache --policy " + elsewhere.path() +
+                                         "/loose.yaml --base " + base + " --head " + head,
+                                     dir.path());
+    CHECK(result.exit_code == 0);
+}
+
+TEST_CASE("check judges nothing with a broken policy", "[check][policy]") {
+    TempDir dir;
+    const auto [base, head] =
+        growing_history(dir,
+                        "tollgate-policy: 1\nrules:\n  - id: x\n    kind: growth\n"
+                        "    measure: efort\n    max-increase: 5\n",
+                        "");
+    const auto result = run_tollgate("check --no-pch-cache --base " + base + " --head " + head +
+                                         " --report json:out.json",
+                                     dir.path());
+    CHECK(result.exit_code == 2);
+    CHECK(result.err.find(":5:14: unknown measure \"efort\" (did you mean \"effort\"?)") !=
+          std::string::npos);
+    CHECK(result.out.empty());
+    CHECK(tollgate::test::read_text(dir.path() + "/out.json").empty());
+}
+
+TEST_CASE("check writes SARIF that validates against the OASIS schema", "[check][sarif]") {
+    // OASIS SARIF 2.1.0 schema (tests/fixtures/standards), validated by Debian's
+    // python3-jsonschema, a general-purpose validator outside the project.
+    TempDir dir;
+    const auto [base, head] = growing_history(dir, k_strict_policy, "");
+    const auto result = run_tollgate("check --no-pch-cache --base " + base + " --head " + head +
+                                         " --report sarif:out.sarif",
+                                     dir.path());
+    REQUIRE(result.exit_code == 1);
+    const auto sarif = nlohmann::json::parse(tollgate::test::read_text(dir.path() + "/out.sarif"));
+    REQUIRE(sarif["runs"][0]["results"].size() == 1);
+    CHECK(sarif["runs"][0]["results"][0]["ruleId"] == "effort-growth");
+    CHECK(sarif["runs"][0]["results"][0]["level"] == "error");
+    const std::string schema =
+        std::string(TOLLGATE_FIXTURES_DIR) + "/standards/sarif-schema-2.1.0.json";
+    const auto validated =
+        tollgate::test::run_command("python3 -c 'import json,sys,jsonschema; "
+                                    "jsonschema.Draft4Validator(json.load(open(sys.argv[1])))."
+                                    "validate(json.load(open(sys.argv[2])))' " +
+                                        tollgate::test::shell_quote(schema) + " out.sarif",
+                                    dir.path());
+    if (validated.err.find("No module named") != std::string::npos) {
+        WARN("python3-jsonschema is not installed; skipping the schema validation");
+        return;
+    }
+    INFO(validated.err);
+    CHECK(validated.exit_code == 0);
 }

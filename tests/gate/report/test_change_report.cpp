@@ -2,23 +2,24 @@
 // Approval tests of the change-report renderers: the output for a fixed report is compared with
 // the reviewed files in tests/approved/. Set TOLLGATE_APPROVE=1 to rewrite them after a reviewed
 // change of format (then read the diff before committing).
+#include "gate/policy/judge.hpp"
+#include "gate/policy/policy.hpp"
 #include "gate/report/change_report.hpp"
 #include "support/temp_repo.hpp"
 #include "tollgate/core/counts.hpp"
 
 #include <catch2/catch.hpp>
-#include <nlohmann/json.hpp>
-
 #include <cstdlib>
 #include <fstream>
+#include <nlohmann/json.hpp>
 #include <sstream>
 
 using namespace tollgate;
 
 namespace {
 
-delta::FunctionSide side(const std::string& path, unsigned line, std::uint64_t n1,
-                         std::uint64_t n2, std::uint64_t N1, std::uint64_t N2) {
+delta::FunctionSide side(const std::string& path, unsigned line, std::uint64_t n1, std::uint64_t n2,
+                         std::uint64_t N1, std::uint64_t N2) {
     delta::FunctionSide s;
     s.path = path;
     s.start_line = line;
@@ -68,6 +69,31 @@ delta::ChangeReport sample_report() {
     return report;
 }
 
+// A verdict from a real policy: the effort growth of update blocks, crc16 is above a ceiling.
+policy::Verdict sample_verdict(const delta::ChangeReport& report) {
+    const auto team_policy = policy::load_policy("tollgate-policy: 1\n"
+                                                 "rules:\n"
+                                                 "  - id: effort-growth\n"
+                                                 "    kind: growth\n"
+                                                 "    measure: effort\n"
+                                                 "    max-increase-percent: 100\n"
+                                                 "  - id: difficulty-ceiling\n"
+                                                 "    kind: ceiling\n"
+                                                 "    measure: difficulty\n"
+                                                 "    ceiling: 18\n"
+                                                 "    level: warning\n",
+                                                 "team.yaml");
+    policy::JudgeOptions options;
+    options.today = "2026-12-01";
+    options.policy_origin = ".tollgate.yaml at base 3f2a91c";
+    auto verdict = policy::judge(team_policy, report, options);
+    verdict.policy_change_summary =
+        "this change edits .tollgate.yaml; the base's policy judges it until the change is merged";
+    verdict.policy_changes = {"rules[\"effort-growth\"].max-increase-percent: 100 in base, 400 in "
+                              "head"};
+    return verdict;
+}
+
 void check_approved(const std::string& name, const std::string& actual) {
     const std::string path = std::string(TOLLGATE_SOURCE_DIR) + "/tests/approved/" + name;
     if (std::getenv("TOLLGATE_APPROVE") != nullptr) {
@@ -82,7 +108,8 @@ void check_approved(const std::string& name, const std::string& actual) {
 
 TEST_CASE("write_change_text matches the approved terminal table", "[report]") {
     std::ostringstream out;
-    report::write_change_text(out, sample_report(), {});
+    const auto report = sample_report();
+    report::write_change_text(out, report, sample_verdict(report), {});
     check_approved("change_text.txt", out.str());
 }
 
@@ -91,15 +118,21 @@ TEST_CASE("write_change_markdown matches the approved Markdown", "[report]") {
     report::RenderOptions options;
     options.markdown_rows = 2;
     options.link_template = "https://git.example/team/station/blob/{commit}/{path}#L{line}";
-    report::write_change_markdown(out, sample_report(), options);
+    const auto report = sample_report();
+    report::write_change_markdown(out, report, sample_verdict(report), options);
     check_approved("change_markdown.md", out.str());
 }
 
 TEST_CASE("write_change_json carries every measure and delta", "[report]") {
     std::ostringstream out;
-    report::write_change_json(out, sample_report());
+    const auto report = sample_report();
+    report::write_change_json(out, report, sample_verdict(report));
     const auto json = nlohmann::json::parse(out.str());
     CHECK(json["schema"] == "tollgate.check/1");
+    CHECK(json["verdict"]["outcome"] == "blocked");
+    REQUIRE(json["verdict"]["findings"].size() == 3);
+    CHECK(json["verdict"]["findings"][0]["rule"] == "effort-growth");
+    CHECK(json["verdict"]["findings"][0]["level"] == "blocking");
     REQUIRE(json["functions"].size() == 3);
     CHECK(json["functions"][0]["function"] == "skyline::FusionFilter::update");
     const auto& added = json["functions"][1]; // +344 sorts before the shrinking crc16

@@ -26,19 +26,19 @@ enum class NameKind {
 
 // The syntactic form of a token whose spelling has several.
 enum class Form {
-    plain,             // no ambiguity (or not known)
-    unary,             // unary + - * & (and unary ! ~ which are never ambiguous)
-    binary,            // binary + - * &
-    declarator,        // pointer/reference declarator * & &&
-    prefix,            // prefix ++ --
-    postfix,           // postfix ++ --
-    template_open,     // < opening a template argument or parameter list
-    pair_close,        // the closing half of a pair: ) ] } > of a template list, : of ?:
+    plain,         // no ambiguity (or not known)
+    unary,         // unary + - * & (and unary ! ~ which are never ambiguous)
+    binary,        // binary + - * &
+    declarator,    // pointer/reference declarator * & &&
+    prefix,        // prefix ++ --
+    postfix,       // postfix ++ --
+    template_open, // < opening a template argument or parameter list
+    pair_close,    // the closing half of a pair: ) ] } > of a template list, : of ?:
 };
 
 // The facts the lexer hands over for one source token.
 struct RawToken {
-    std::string spelling;               // source spelling
+    std::string spelling;                // source spelling
     LexKind kind = LexKind::punctuation; // lexical kind
     NameKind name = NameKind::unknown;   // for identifiers: what the name denotes
     Form form = Form::plain;             // for ambiguous punctuators: which form

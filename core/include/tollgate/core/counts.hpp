@@ -12,8 +12,8 @@ namespace tollgate::core {
 
 // The occurrences of one distinct operator or operand.
 struct TableEntry {
-    std::uint64_t count = 0; // how many times the key occurs
-    std::string form;        // the form it was counted as (first seen), empty when unambiguous
+    std::uint64_t count = 0;   // how many times the key occurs
+    std::string form;          // the form it was counted as (first seen), empty when unambiguous
     std::uint64_t guessed = 0; // occurrences whose form the previous token decided (the syntax
                                // tree could not), so a reader knows how sure the split is
     bool operator==(const TableEntry& other) const {
@@ -23,19 +23,18 @@ struct TableEntry {
 
 // Counts n1, n2, N1, N2 and the tables they come from. Tables are ordered by key.
 struct Counts {
-    std::uint64_t distinct_operators = 0; // n1
-    std::uint64_t distinct_operands = 0;  // n2
-    std::uint64_t total_operators = 0;    // N1
-    std::uint64_t total_operands = 0;     // N2
+    std::uint64_t distinct_operators = 0;        // n1
+    std::uint64_t distinct_operands = 0;         // n2
+    std::uint64_t total_operators = 0;           // N1
+    std::uint64_t total_operands = 0;            // N2
     std::map<std::string, TableEntry> operators; // key -> occurrences
     std::map<std::string, TableEntry> operands;  // key -> occurrences
 
     bool operator==(const Counts& other) const {
         return distinct_operators == other.distinct_operators &&
                distinct_operands == other.distinct_operands &&
-               total_operators == other.total_operators &&
-               total_operands == other.total_operands && operators == other.operators &&
-               operands == other.operands;
+               total_operators == other.total_operators && total_operands == other.total_operands &&
+               operators == other.operators && operands == other.operands;
     }
 };
 

@@ -19,16 +19,16 @@ struct MeasureSettings {
 // Every measure of one function. Degenerate counts give the documented finite values below.
 struct Measures {
     std::uint64_t n1 = 0, n2 = 0, N1 = 0, N2 = 0; // base counts
-    std::uint64_t length = 0;     // N = N1 + N2
-    std::uint64_t vocabulary = 0; // n = n1 + n2
-    double estimated_length = 0;  // N^ = n1 log2 n1 + n2 log2 n2 (0 log2 0 taken as 0)
-    double volume = 0;            // V = N log2 n (0 when n <= 1)
-    double difficulty = 0;        // D = (n1 / 2) (N2 / n2) (0 when n2 = 0)
-    double level = 0;             // L^ = 2 n2 / (n1 N2) = 1 / D (0 when D = 0)
-    double effort = 0;            // E = D V
-    double time = 0;              // T = E / S seconds
-    double bugs_volume = 0;       // B = V / 3000
-    double bugs_effort = 0;       // B = E^(2/3) / 3000
+    std::uint64_t length = 0;                     // N = N1 + N2
+    std::uint64_t vocabulary = 0;                 // n = n1 + n2
+    double estimated_length = 0;          // N^ = n1 log2 n1 + n2 log2 n2 (0 log2 0 taken as 0)
+    double volume = 0;                    // V = N log2 n (0 when n <= 1)
+    double difficulty = 0;                // D = (n1 / 2) (N2 / n2) (0 when n2 = 0)
+    double level = 0;                     // L^ = 2 n2 / (n1 N2) = 1 / D (0 when D = 0)
+    double effort = 0;                    // E = D V
+    double time = 0;                      // T = E / S seconds
+    double bugs_volume = 0;               // B = V / 3000
+    double bugs_effort = 0;               // B = E^(2/3) / 3000
     std::uint64_t potential_operands = 0; // n2*: parameters plus one for a non-void result
     double potential_volume = 0;          // V* = (2 + n2*) log2 (2 + n2*)
     double volume_ratio = 0;              // V* / V (0 when V = 0)
@@ -61,11 +61,21 @@ enum class MeasureId {
 };
 
 inline constexpr std::array<MeasureId, 16> k_all_measures = {
-    MeasureId::n1,         MeasureId::n2,          MeasureId::N1,
-    MeasureId::N2,         MeasureId::length,      MeasureId::vocabulary,
-    MeasureId::estimated_length, MeasureId::volume, MeasureId::difficulty,
-    MeasureId::level,      MeasureId::effort,      MeasureId::time,
-    MeasureId::bugs_volume, MeasureId::bugs_effort, MeasureId::potential_volume,
+    MeasureId::n1,
+    MeasureId::n2,
+    MeasureId::N1,
+    MeasureId::N2,
+    MeasureId::length,
+    MeasureId::vocabulary,
+    MeasureId::estimated_length,
+    MeasureId::volume,
+    MeasureId::difficulty,
+    MeasureId::level,
+    MeasureId::effort,
+    MeasureId::time,
+    MeasureId::bugs_volume,
+    MeasureId::bugs_effort,
+    MeasureId::potential_volume,
     MeasureId::volume_ratio,
 };
 
@@ -80,10 +90,10 @@ std::optional<MeasureId> parse_measure_name(std::string_view name);
 
 // The change of one measure between base and head.
 struct Delta {
-    double base = 0;                // value on the base side
-    double head = 0;                // value on the head side
-    double absolute = 0;            // head - base
-    std::optional<double> percent;  // 100 (head - base) / base; empty when base is 0
+    double base = 0;               // value on the base side
+    double head = 0;               // value on the head side
+    double absolute = 0;           // head - base
+    std::optional<double> percent; // 100 (head - base) / base; empty when base is 0
 
     bool operator==(const Delta& other) const {
         return base == other.base && head == other.head && absolute == other.absolute &&
