@@ -1,9 +1,11 @@
 // SPDX-License-Identifier: MIT
 // `tollgate check`: the gate. Measure the functions a change touched, before and after.
+#include "gate/baseline/snapshot_file.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/policy_source.hpp"
 #include "gate/cli/report_targets.hpp"
 #include "gate/cli/run_cli.hpp"
+#include "gate/cli/snapshot_revision.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/delta/measure_change.hpp"
@@ -13,9 +15,13 @@
 #include "gate/walker/repository.hpp"
 #include "gate/walker/revision_range.hpp"
 
+#include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <map>
 #include <memory>
+#include <optional>
+#include <set>
 #include <spdlog/spdlog.h>
 #include <sstream>
 
@@ -26,6 +32,8 @@ namespace {
 struct CheckOptions {
     walker::RevisionRange range;      // --base, --head, --worktree, --default-branch
     std::string policy_path;          // --policy
+    std::string baseline_path;        // --baseline
+    bool update_baseline = false;     // --update-baseline
     std::vector<std::string> reports; // --report FORMAT:PATH
     bool no_colour = false;           // --no-color
     std::string link_template;        // --link-template
@@ -61,6 +69,92 @@ std::string read_compile_commands(const std::string& given, const std::string& w
     return text.str();
 }
 
+// The baseline snapshot a check uses, if any.
+struct LoadedBaseline {
+    std::optional<baseline::Snapshot> snapshot; // empty when none is given or configured
+    std::string path;                           // where it is (or would be)
+    std::string note;                           // a sentence for the report, or empty
+};
+
+// Load the snapshot named by --baseline, else by the policy's baseline.path (confined to the
+// repository). A configured snapshot that does not exist yet is a note; a given one is an error.
+LoadedBaseline load_baseline(const CheckOptions& options, const policy::Policy& judging,
+                             const walker::Repository& repository,
+                             const delta::MeasureChangeSettings& settings) {
+    LoadedBaseline loaded;
+    bool configured = false;
+    if (!options.baseline_path.empty()) {
+        loaded.path = options.baseline_path;
+    } else if (!judging.baseline.path.empty() && !repository.is_bare()) {
+        loaded.path = baseline::confine_to_repository(judging.baseline.path, repository.workdir());
+        configured = true;
+    } else {
+        return loaded;
+    }
+    if (configured && !std::filesystem::exists(loaded.path)) {
+        loaded.note = "no baseline snapshot at " + judging.baseline.path +
+                      " yet (\"tollgate snapshot\" on the main branch writes it)";
+        return loaded;
+    }
+    baseline::SnapshotExpectations expectations;
+    expectations.convention = core::fingerprint(settings.convention);
+    expectations.stroud = settings.measures.stroud;
+    loaded.snapshot = baseline::load_snapshot(loaded.path, expectations);
+    return loaded;
+}
+
+// Index the snapshot's measures by the identity the report uses (USR, else the fallback key);
+// identities recorded twice (macro-made functions) are left out rather than guessed.
+std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snapshot& snapshot) {
+    std::map<std::string, core::Measures> by_identity;
+    std::set<std::string> repeated;
+    for (const auto& f : snapshot.functions) {
+        const std::string& identity = f.usr.empty() ? f.fallback_key : f.usr;
+        if (!by_identity.emplace(identity, f.measures).second) {
+            repeated.insert(identity);
+        }
+    }
+    for (const auto& identity : repeated) {
+        by_identity.erase(identity);
+    }
+    return by_identity;
+}
+
+// After a passing run, write the head's snapshot where the baseline lives.
+void update_baseline(const CheckOptions& options, const policy::Verdict& verdict,
+                     const walker::ResolvedRange& range, const policy::Policy& judging,
+                     const walker::Repository& repository) {
+    if (verdict.outcome != policy::Outcome::pass) {
+        std::fprintf(stderr, "tollgate: the baseline was not updated: the change is blocked\n");
+        return;
+    }
+    if (range.head_source == walker::HeadSource::worktree) {
+        throw UsageError("--update-baseline needs a head commit (the working tree is not one)");
+    }
+    std::string path = options.baseline_path;
+    if (path.empty()) {
+        if (repository.is_bare()) {
+            throw UsageError("a bare repository has no working tree for the baseline (give "
+                             "--baseline PATH)");
+        }
+        path = baseline::confine_to_repository(judging.baseline.path.empty()
+                                                   ? baseline::k_default_snapshot_path
+                                                   : judging.baseline.path,
+                                               repository.workdir());
+    }
+    SnapshotRequest request;
+    request.commit = range.head.hex;
+    request.compile_commands = options.compile_commands;
+    request.cache_dir = options.cache_dir;
+    request.no_cache = options.no_cache;
+    request.jobs = options.jobs;
+    request.stroud = options.stroud;
+    const SnapshotResult result = snapshot_revision(request);
+    baseline::save_snapshot(result.snapshot, path);
+    std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n", path.c_str(),
+                 result.snapshot.functions.size(), range.head.short_hex().c_str());
+}
+
 int run_check(const CheckOptions& options) {
     const auto targets = parse_report_targets(options.reports);
     const auto repository = walker::Repository::open(std::filesystem::current_path().string());
@@ -83,8 +177,25 @@ int run_check(const CheckOptions& options) {
     judge_options.today = policy::current_date();
     judge_options.policy_origin = selected.origin;
 
+    const LoadedBaseline loaded_baseline =
+        load_baseline(options, selected.policy, repository, settings);
+    std::map<std::string, core::Measures> recorded;
+    if (loaded_baseline.snapshot) {
+        settings.base_snapshot = &*loaded_baseline.snapshot;
+        settings.base_snapshot_path = loaded_baseline.path;
+        recorded = baseline_by_identity(*loaded_baseline.snapshot);
+        judge_options.baseline_lookup =
+            [&recorded](const std::string& identity) -> std::optional<core::Measures> {
+            const auto it = recorded.find(identity);
+            return it == recorded.end() ? std::nullopt : std::optional(it->second);
+        };
+    }
+
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
-    const delta::ChangeReport report = delta::measure_change(repository, changes, settings);
+    delta::ChangeReport report = delta::measure_change(repository, changes, settings);
+    if (!loaded_baseline.note.empty()) {
+        report.notes.push_back(loaded_baseline.note);
+    }
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
     verdict.policy_change_summary = selected.change_summary;
@@ -93,6 +204,9 @@ int run_check(const CheckOptions& options) {
     render.link_template = options.link_template;
     render.markdown_rows = options.markdown_rows;
     write_reports(report, verdict, selected.policy, targets, render, options.no_colour);
+    if (options.update_baseline) {
+        update_baseline(options, verdict, range, selected.policy, repository);
+    }
     return verdict.outcome == policy::Outcome::blocked ? static_cast<int>(ExitCode::blocked)
                                                        : static_cast<int>(ExitCode::pass);
 }
@@ -117,6 +231,12 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     sub.add_option("--policy", options->policy_path,
                    "Policy file that judges the change (default: .tollgate.yaml of the base "
                    "commit, else the built-in policy; see \"tollgate policy --default\")");
+    sub.add_option("--baseline", options->baseline_path,
+                   "Baseline snapshot (default: the policy's baseline.path); when it is of the "
+                   "base commit its measures replace parsing the base, and functions already "
+                   "above a ceiling in it are grandfathered");
+    sub.add_flag("--update-baseline", options->update_baseline,
+                 "After a passing run, write the head commit's snapshot to the baseline path");
     sub.add_option("--report", options->reports,
                    "FORMAT:PATH, repeatable; FORMAT is text, markdown, json or sarif; PATH \"-\" "
                    "is stdout (default: the terminal table on stdout)");

@@ -4,10 +4,8 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/baseline/snapshot_trend.hpp"
 #include "gate/cli/commands.hpp"
-#include "gate/cli/measure_span.hpp"
-#include "gate/cli/sources.hpp"
+#include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
-#include "gate/lexer/lex_files.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -67,24 +65,21 @@ int run_snapshot(const SnapshotOptions& options) {
     // Refuse before the expensive part, not after.
     baseline::check_replaceable(out_path, overwrite);
 
-    SourceRequest request;
-    request.revision = commit.hex;
+    SnapshotRequest request;
+    request.commit = commit.hex;
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
-    const LoadedSources loaded = load_sources(request);
-    const auto files = lexer::lex_files(loaded.selected, loaded.context, options.jobs);
-
-    core::MeasureSettings settings;
-    settings.stroud = options.stroud;
-    const baseline::Snapshot snapshot =
-        baseline::make_snapshot(files, commit.hex, core::fingerprint(loaded.context.convention),
-                                settings, baseline::current_utc_time());
+    request.jobs = options.jobs;
+    request.stroud = options.stroud;
+    const SnapshotResult measured = snapshot_revision(request);
+    const baseline::Snapshot& snapshot = measured.snapshot;
     baseline::save_snapshot(snapshot, out_path, overwrite);
 
-    const std::size_t warnings = collect_warnings(files).size();
+    const std::size_t warnings = measured.warnings;
     std::cerr << fmt::format("tollgate: wrote {}: {} functions in {} files of commit {}{}\n",
-                             out_path, snapshot.functions.size(), files.size(), commit.short_hex(),
+                             out_path, snapshot.functions.size(), measured.files,
+                             commit.short_hex(),
                              warnings == 0 ? std::string()
                                            : fmt::format(" ({} parse warnings: tollgate measure "
                                                          "--rev {} shows them)",

@@ -14,6 +14,9 @@ const std::vector<CommandEntry>& command_table() {
          &attach_explain},
         {"snapshot", "Write a baseline snapshot of a revision, or compare two snapshots",
          &attach_snapshot},
+        {"calibrate", "Replay history: delta distributions, what-if a policy, suggest limits",
+         &attach_calibrate},
+        {"hook", "Install or remove the pre-push hook, or run it", &attach_hook},
         {"policy", "Validate a policy file and print the effective policy", &attach_policy},
     };
     return table;

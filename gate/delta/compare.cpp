@@ -4,31 +4,30 @@
 
 #include "tollgate/core/counts.hpp"
 
+#include <algorithm>
 #include <map>
 
 namespace tollgate::delta {
 
 namespace {
 
-using lexer::FunctionSpan;
-
 // A candidate function of one side, with where it came from.
 struct Candidate {
-    const FunctionSpan* span = nullptr; // the lexed function
+    const SideFunction* span = nullptr; // the function
     bool touched = false;               // its extent meets a changed line of its side
     bool whole = false;                 // every line of its extent changed (moved candidates)
     bool paired = false;                // already paired
 };
 
-std::string name_and_signature(const FunctionSpan& span) {
-    return span.qualified_name + "(" + span.signature + ")";
+std::string name_and_signature(const SideFunction& f) {
+    return f.qualified_name() + "(" + f.signature() + ")";
 }
 
-bool covers(const FunctionSpan& span, const walker::LineSet* lines) {
+bool covers(const SideFunction& f, const walker::LineSet* lines) {
     if (lines == nullptr) {
         return false;
     }
-    for (unsigned line = span.start_line; line <= span.end_line; ++line) {
+    for (unsigned line = f.start_line(); line <= f.end_line(); ++line) {
         if (!lines->contains(line)) {
             return false;
         }
@@ -36,27 +35,26 @@ bool covers(const FunctionSpan& span, const walker::LineSet* lines) {
     return true;
 }
 
-std::vector<Candidate> candidates_of(const lexer::FileFunctions* file,
+std::vector<Candidate> candidates_of(const std::vector<SideFunction>& functions,
                                      const walker::LineSet* lines) {
     std::vector<Candidate> result;
-    if (file == nullptr) {
-        return result;
-    }
-    for (const auto& span : file->functions) {
-        result.push_back({&span, is_touched(span, lines), covers(span, lines), false});
+    for (const auto& f : functions) {
+        result.push_back({&f, is_touched(f, lines), covers(f, lines), false});
     }
     return result;
 }
 
-FunctionSide side_of(const FunctionSpan& span, const core::MeasureSettings& settings) {
+// Measure `f` (count its tokens now, or take the snapshot's measures).
+FunctionSide side_of(const SideFunction& f, const core::MeasureSettings& settings) {
     FunctionSide side;
-    side.path = span.path;
-    side.start_line = span.start_line;
-    side.end_line = span.end_line;
-    side.lexical = span.mode == lexer::ExtentMode::lexical;
-    side.token_hash = span.token_hash;
-    side.measures =
-        core::compute_measures(core::count_tokens(span.tokens), span.potential_operands, settings);
+    side.path = f.path();
+    side.start_line = f.start_line();
+    side.end_line = f.end_line();
+    side.lexical = f.mode() == lexer::ExtentMode::lexical;
+    side.token_hash = f.token_hash();
+    side.measures = f.span ? core::compute_measures(core::count_tokens(f.span->tokens),
+                                                    f.span->potential_operands, settings)
+                           : f.stored->measures;
     return side;
 }
 
@@ -89,19 +87,19 @@ void pair_by(std::vector<Candidate*>& base, std::vector<Candidate*>& head, KeyFn
 void pair_sides(std::vector<Candidate*>& base, std::vector<Candidate*>& head,
                 std::vector<std::pair<Candidate*, Candidate*>>& pairs) {
     pair_by(
-        base, head, [](const FunctionSpan& s) { return s.usr; }, pairs);
+        base, head, [](const SideFunction& f) { return f.usr(); }, pairs);
     pair_by(
-        base, head, [](const FunctionSpan& s) { return s.fallback_key; }, pairs);
+        base, head, [](const SideFunction& f) { return f.fallback_key(); }, pairs);
     pair_by(base, head, name_and_signature, pairs);
 }
 
 FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool other_file,
                          const core::MeasureSettings& settings) {
     FunctionDelta delta;
-    const FunctionSpan& shown = head ? *head->span : *base->span;
-    delta.name = shown.qualified_name;
-    delta.signature = shown.signature;
-    delta.identity = shown.usr.empty() ? shown.fallback_key : shown.usr;
+    const SideFunction& shown = head ? *head->span : *base->span;
+    delta.name = shown.qualified_name();
+    delta.signature = shown.signature();
+    delta.identity = shown.usr().empty() ? shown.fallback_key() : shown.usr();
     if (base) {
         delta.base = side_of(*base->span, settings);
     }
@@ -112,10 +110,10 @@ FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool othe
         delta.label = DeltaLabel::added;
     } else if (!head) {
         delta.label = DeltaLabel::removed;
-    } else if (other_file ||
-               (base->whole && head->whole && base->span->start_line != head->span->start_line)) {
+    } else if (other_file || (base->whole && head->whole &&
+                              base->span->start_line() != head->span->start_line())) {
         delta.label = DeltaLabel::moved;
-    } else if (base->span->token_hash == head->span->token_hash) {
+    } else if (base->span->token_hash() == head->span->token_hash()) {
         delta.label = DeltaLabel::unchanged;
     } else {
         delta.label = DeltaLabel::changed;
@@ -125,8 +123,31 @@ FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool othe
 
 } // namespace
 
-bool is_touched(const FunctionSpan& span, const walker::LineSet* lines) {
-    return lines != nullptr && lines->meets(span.start_line, span.end_line);
+bool is_touched(const SideFunction& function, const walker::LineSet* lines) {
+    return lines != nullptr && lines->meets(function.start_line(), function.end_line());
+}
+
+std::vector<SideFunction> side_functions(const lexer::FileFunctions* file) {
+    std::vector<SideFunction> functions;
+    if (file != nullptr) {
+        for (const auto& span : file->functions) {
+            functions.push_back({&span, nullptr});
+        }
+    }
+    return functions;
+}
+
+std::vector<SideFunction> side_functions(const baseline::Snapshot& snapshot,
+                                         const std::string& path) {
+    std::vector<SideFunction> functions;
+    // Snapshot functions are sorted by path: find the file's run.
+    auto it = std::lower_bound(
+        snapshot.functions.begin(), snapshot.functions.end(), path,
+        [](const baseline::SnapshotFunction& f, const std::string& p) { return f.path < p; });
+    for (; it != snapshot.functions.end() && it->path == path; ++it) {
+        functions.push_back({nullptr, &*it});
+    }
+    return functions;
 }
 
 std::vector<FunctionDelta> compare_functions(const std::vector<FileSides>& files,
@@ -176,10 +197,10 @@ std::vector<FunctionDelta> compare_functions(const std::vector<FileSides>& files
     }
     std::vector<std::pair<Candidate*, Candidate*>> moves;
     pair_by(
-        base_left, head_left, [](const FunctionSpan& s) { return s.usr; }, moves);
+        base_left, head_left, [](const SideFunction& f) { return f.usr(); }, moves);
     pair_by(base_left, head_left, name_and_signature, moves);
     for (const auto& [b, h] : moves) {
-        result.push_back(make_delta(b, h, b->span->path != h->span->path, settings));
+        result.push_back(make_delta(b, h, b->span->path() != h->span->path(), settings));
     }
     for (auto* c : base_left) {
         if (!c->paired) {

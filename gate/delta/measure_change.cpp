@@ -47,6 +47,34 @@ SideSources read_side_sources(const walker::Repository& repository,
     return sources;
 }
 
+// Lex `jobs`, taking what `settings.lex_cache` already holds and keeping what was parsed.
+std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob>& jobs,
+                                                 const MeasureChangeSettings& settings) {
+    if (settings.lex_cache == nullptr) {
+        return lexer::lex_jobs(jobs, settings.jobs);
+    }
+    std::vector<lexer::FileFunctions> lexed(jobs.size());
+    std::vector<lexer::LexJob> missing;
+    std::vector<std::size_t> missing_index;
+    for (std::size_t j = 0; j < jobs.size(); ++j) {
+        if (auto found = settings.lex_cache->find(*jobs[j].file, *jobs[j].context)) {
+            lexed[j] = std::move(*found);
+        } else {
+            missing.push_back(jobs[j]);
+            missing_index.push_back(j);
+        }
+    }
+    std::vector<lexer::FileFunctions> parsed;
+    if (!missing.empty()) { // a lexer costs an index even with nothing to parse
+        parsed = lexer::lex_jobs(missing, settings.jobs);
+    }
+    for (std::size_t k = 0; k < parsed.size(); ++k) {
+        settings.lex_cache->store(*missing[k].file, *missing[k].context, parsed[k]);
+        lexed[missing_index[k]] = std::move(parsed[k]);
+    }
+    return lexed;
+}
+
 } // namespace
 
 ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
@@ -72,14 +100,23 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         return report;
     }
 
-    const SideSources base = read_side_sources(repository, changes, Side::base, settings);
+    const bool base_from_snapshot = settings.base_snapshot != nullptr &&
+                                    settings.base_snapshot->commit == changes.range.base.hex;
+    if (base_from_snapshot) {
+        report.notes.push_back("base-side measures come from the baseline snapshot " +
+                               settings.base_snapshot_path + " of " +
+                               changes.range.base.short_hex() + " (the base was not re-parsed)");
+    }
+    const SideSources base = base_from_snapshot
+                                 ? SideSources{}
+                                 : read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
 
     // One job per file and side; both sides go through one pool.
     std::vector<lexer::LexJob> jobs;
     std::vector<std::pair<std::size_t, Side>> job_owner;
     for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        if (base.changed[i]) {
+        if (!base_from_snapshot && base.changed[i]) {
             jobs.push_back({&*base.changed[i], &base.context});
             job_owner.emplace_back(i, Side::base);
         }
@@ -89,7 +126,7 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         }
     }
     spdlog::debug("lexing {} file sides of {} changed files", jobs.size(), changes.files.size());
-    const std::vector<lexer::FileFunctions> lexed = lexer::lex_jobs(jobs, settings.jobs);
+    const std::vector<lexer::FileFunctions> lexed = lex_with_cache(jobs, settings);
 
     std::vector<FileSides> sides(changes.files.size());
     for (std::size_t i = 0; i < changes.files.size(); ++i) {
@@ -98,10 +135,13 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         sides[i].head_path = file.head_path;
         sides[i].base_lines = &file.base_lines;
         sides[i].head_lines = &file.head_lines;
+        if (base_from_snapshot && !file.base_path.empty()) {
+            sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
+        }
     }
     for (std::size_t j = 0; j < lexed.size(); ++j) {
         const auto [index, side] = job_owner[j];
-        (side == Side::base ? sides[index].base : sides[index].head) = &lexed[j];
+        (side == Side::base ? sides[index].base : sides[index].head) = side_functions(&lexed[j]);
         for (const auto& w : lexed[j].warnings) {
             report.warnings.push_back(
                 {side == Side::base ? "base" : "head", w.path, w.line, w.message});

@@ -1,0 +1,347 @@
+// SPDX-License-Identifier: MIT
+// `tollgate calibrate`: replay history, show delta distributions, what-if a policy, suggest one.
+#include "gate/calibrate/calibration_report.hpp"
+#include "gate/calibrate/distribution.hpp"
+#include "gate/calibrate/lex_file_cache.hpp"
+#include "gate/calibrate/replay.hpp"
+#include "gate/cli/commands.hpp"
+#include "gate/cli/run_cli.hpp"
+#include "gate/cli/sources.hpp"
+#include "gate/common/errors.hpp"
+#include "gate/lexer/lex_files.hpp"
+#include "gate/policy/calendar_date.hpp"
+#include "gate/policy/judge.hpp"
+#include "gate/policy/policy.hpp"
+#include "gate/walker/history.hpp"
+#include "gate/walker/repository.hpp"
+
+#include <algorithm>
+#include <atomic>
+#include <chrono>
+#include <csignal>
+#include <cstdlib>
+#include <filesystem>
+#include <fmt/format.h>
+#include <fstream>
+#include <iostream>
+#include <memory>
+#include <optional>
+#include <sstream>
+#include <unistd.h>
+
+namespace tollgate {
+
+namespace {
+
+struct CalibrateOptions {
+    std::string range;                 // --range A..B
+    std::string default_branch;        // --default-branch
+    std::size_t max_commits = 300;     // --max-commits
+    std::string since;                 // --since YYYY-MM-DD
+    std::vector<std::string> measures; // --measure, repeatable
+    std::string policy_path;           // --policy
+    std::optional<double> suggest;     // --suggest P
+    std::string out;                   // --out PATH
+    std::string format = "text";       // --format text|json
+    std::string html;                  // --html PATH
+    unsigned jobs = 0;                 // --jobs
+    std::string cache_dir;             // --cache-dir
+    std::string compile_commands;      // --compile-commands
+    bool no_pch_cache = false;         // --no-pch-cache
+    double stroud = 18.0;              // --stroud
+    std::size_t rename_limit = 400;    // --rename-limit
+};
+
+// Raised by SIGINT; the replay's workers take no new commit once it is set.
+std::atomic<bool> g_stop{false};
+static_assert(std::atomic<bool>::is_always_lock_free, "the signal handler needs a lock-free flag");
+
+extern "C" void on_interrupt(int /*signal*/) {
+    g_stop.store(true);
+}
+
+// Installs the SIGINT handler for its lifetime and puts the previous one back.
+class InterruptGuard {
+public:
+    InterruptGuard() {
+        g_stop.store(false);
+        m_previous = std::signal(SIGINT, on_interrupt);
+    }
+    ~InterruptGuard() { std::signal(SIGINT, m_previous == SIG_ERR ? SIG_DFL : m_previous); }
+    InterruptGuard(const InterruptGuard&) = delete;
+    InterruptGuard& operator=(const InterruptGuard&) = delete;
+
+private:
+    void (*m_previous)(int) = SIG_DFL;
+};
+
+// Days since 1970-01-01 of a proleptic Gregorian date (the civil-from-days inverse).
+std::int64_t days_from_civil(int y, unsigned m, unsigned d) {
+    y -= m <= 2 ? 1 : 0;
+    const int era = (y >= 0 ? y : y - 399) / 400;
+    const auto yoe = static_cast<unsigned>(y - era * 400);
+    const unsigned doy = (153 * (m > 2 ? m - 3 : m + 9) + 2) / 5 + d - 1;
+    const unsigned doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
+    return static_cast<std::int64_t>(era) * 146097 + static_cast<std::int64_t>(doe) - 719468;
+}
+
+std::int64_t parse_since(const std::string& text) {
+    if (!policy::is_calendar_date(text)) {
+        throw UsageError("--since \"" + text +
+                         "\" is not a date (give YYYY-MM-DD, e.g. "
+                         "\"2024-01-31\")");
+    }
+    const int year = std::stoi(text.substr(0, 4));
+    const auto month = static_cast<unsigned>(std::stoi(text.substr(5, 2)));
+    const auto day = static_cast<unsigned>(std::stoi(text.substr(8, 2)));
+    return days_from_civil(year, month, day) * 86400;
+}
+
+std::vector<core::MeasureId> parse_measures(const std::vector<std::string>& names) {
+    if (names.empty()) {
+        return {core::MeasureId::volume, core::MeasureId::difficulty, core::MeasureId::effort};
+    }
+    std::vector<std::string> known;
+    for (const auto id : core::k_all_measures) {
+        known.emplace_back(core::measure_name(id));
+    }
+    std::vector<core::MeasureId> out;
+    for (const auto& name : names) {
+        const auto id = core::parse_measure_name(name);
+        if (!id) {
+            const std::string near = closest_match(name, known);
+            throw UsageError("unknown measure \"" + name + "\"" +
+                             (near.empty() ? std::string(" (see \"tollgate policy --default\")")
+                                           : " (did you mean \"" + near + "\"?)"));
+        }
+        if (std::find(out.begin(), out.end(), *id) == out.end()) {
+            out.push_back(*id);
+        }
+    }
+    return out;
+}
+
+// The same discovery as check: the given file, else the repository's own at its root or build/.
+std::string read_compile_commands(const std::string& given, const std::string& workdir) {
+    namespace fs = std::filesystem;
+    std::string path = given;
+    if (path.empty() && !workdir.empty()) {
+        for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
+            if (fs::exists(fs::path(workdir) / candidate)) {
+                path = (fs::path(workdir) / candidate).string();
+                break;
+            }
+        }
+    }
+    if (path.empty()) {
+        return {};
+    }
+    std::ifstream in(path, std::ios::binary);
+    if (!in) {
+        throw UsageError("cannot read compile database \"" + path + "\"");
+    }
+    std::ostringstream text;
+    text << in.rdbuf();
+    return text.str();
+}
+
+void write_file(const std::string& path, const std::string& text) {
+    std::ofstream out(path, std::ios::binary | std::ios::trunc);
+    out << text;
+    out.close();
+    if (!out) {
+        throw UsageError("cannot write \"" + path + "\" (check the folder exists and is writable)");
+    }
+}
+
+// Progress on a terminal: commits done, rate, time left, on one rewritten line.
+class Progress {
+public:
+    explicit Progress(bool shown) : m_shown(shown), m_start(std::chrono::steady_clock::now()) {}
+    void update(std::size_t done, std::size_t total) {
+        if (!m_shown) {
+            return;
+        }
+        const double elapsed =
+            std::chrono::duration<double>(std::chrono::steady_clock::now() - m_start).count();
+        const double rate = elapsed > 0 ? static_cast<double>(done) / elapsed : 0;
+        const double left = rate > 0 ? static_cast<double>(total - done) / rate : 0;
+        std::cerr << fmt::format("\rcalibrate: {}/{} commits, {:.1f} commits/s, {:.0f} s left   ",
+                                 done, total, rate, left)
+                  << std::flush;
+    }
+    void finish() {
+        if (m_shown) {
+            std::cerr << "\n";
+        }
+    }
+
+private:
+    bool m_shown;
+    std::chrono::steady_clock::time_point m_start;
+};
+
+int run_calibrate(const CalibrateOptions& options) {
+    if (options.format != "text" && options.format != "json") {
+        throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
+    }
+    const auto measures = parse_measures(options.measures);
+    std::optional<policy::Policy> draft;
+    if (!options.policy_path.empty()) {
+        draft = policy::load_policy_file(options.policy_path);
+    }
+    const std::string repository_path = std::filesystem::current_path().string();
+    const auto repository = walker::Repository::open(repository_path);
+
+    walker::HistoryQuery query;
+    query.range = options.range;
+    query.default_branch = options.default_branch;
+    query.max_commits = options.max_commits;
+    if (!options.since.empty()) {
+        query.since = parse_since(options.since);
+    }
+    const walker::History history = walker::first_parent_history(repository, query);
+
+    calibrate::LexFileCache cache(options.cache_dir.empty()
+                                      ? (default_cache_dir().empty()
+                                             ? std::string(".tollgate-cache/calibrate")
+                                             : default_cache_dir() + "/calibrate")
+                                      : options.cache_dir);
+    calibrate::ReplaySettings settings;
+    settings.measure.measures.stroud = options.stroud;
+    settings.measure.compile_commands_json =
+        read_compile_commands(options.compile_commands, repository.workdir());
+    settings.measure.compile_commands_root = repository.workdir();
+    settings.measure.cache_dir = options.no_pch_cache ? std::string() : default_cache_dir();
+    settings.measure.lex_cache = &cache;
+    settings.changes.rename_limit = options.rename_limit;
+    settings.threads = lexer::effective_jobs(options.jobs);
+    settings.stop = &g_stop;
+    Progress progress(::isatty(STDERR_FILENO) == 1);
+    // Test hook: deliver a real SIGINT after this many commits, to test the partial result.
+    const char* interrupt_after = std::getenv("TOLLGATE_TEST_SIGINT_AFTER_COMMITS");
+    const std::size_t interrupt_at =
+        interrupt_after == nullptr ? 0 : std::strtoull(interrupt_after, nullptr, 10);
+    settings.on_progress = [&progress, interrupt_at](std::size_t done, std::size_t total) {
+        progress.update(done, total);
+        if (interrupt_at != 0 && done == interrupt_at) {
+            std::raise(SIGINT);
+        }
+    };
+
+    const auto start = std::chrono::steady_clock::now();
+    calibrate::Replay replay;
+    {
+        InterruptGuard guard;
+        replay = calibrate::replay_history(repository_path, history, settings);
+    }
+    progress.finish();
+
+    calibrate::Calibration calibration;
+    calibration.replay = &replay;
+    calibration.distributions = calibrate::distribute(replay, measures);
+    calibration.cache = cache.counts();
+    calibration.seconds =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    calibration.threads = settings.threads;
+    if (draft) {
+        policy::JudgeOptions judge_options;
+        judge_options.today = policy::current_date();
+        judge_options.policy_origin = options.policy_path;
+        calibration.what_if = calibrate::what_if(replay, *draft, judge_options);
+    }
+
+    bool stdout_taken = false;
+    if (options.suggest) {
+        const std::string text =
+            calibrate::suggest_policy(replay, calibration.distributions, *options.suggest);
+        if (options.out.empty() || options.out == "-") {
+            std::cout << text;
+            stdout_taken = true;
+        } else {
+            write_file(options.out, text);
+        }
+    }
+    if (!options.html.empty()) {
+        std::ostringstream page;
+        calibrate::write_calibration_html(page, calibration);
+        write_file(options.html, page.str());
+    }
+    if (!stdout_taken) {
+        if (options.format == "json") {
+            calibrate::write_calibration_json(std::cout, calibration);
+        } else {
+            calibrate::write_calibration_text(std::cout, calibration);
+        }
+    }
+    if (replay.end == calibrate::ReplayEnd::interrupted) {
+        std::cerr << "tollgate: interrupted: partial result of " << replay.commits.size()
+                  << " commits\n";
+        return 130; // the shell's code for a run stopped by SIGINT
+    }
+    return static_cast<int>(ExitCode::pass);
+}
+
+} // namespace
+
+void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
+                      std::function<int()>& selected) {
+    auto options = std::make_shared<CalibrateOptions>();
+    sub.description(
+        "Replay first-parent history: measure each commit against its first parent exactly as "
+        "check does, show percentiles and histograms of the deltas, count what a draft policy "
+        "would have blocked, and suggest a policy at a percentile of the history. Progress goes "
+        "to stderr on a terminal; Ctrl-C stops and prints the partial result (exit 130).");
+    sub.add_option("--range", options->range,
+                   "A..B: the first-parent commits of B not reachable from A (default: the "
+                   "default branch)");
+    sub.add_option("--default-branch", options->default_branch,
+                   "Branch replayed when --range is not given (default: the remote's HEAD, else "
+                   "main, else master)");
+    sub.add_option("--max-commits", options->max_commits,
+                   "Replay only the newest N commits (0 = all)")
+        ->capture_default_str();
+    sub.add_option("--since", options->since,
+                   "Replay only commits made on or after this date (YYYY-MM-DD, UTC)");
+    sub.add_option("--measure", options->measures,
+                   "Measure to show, repeatable (default: volume, difficulty, effort)");
+    sub.add_option("--policy", options->policy_path,
+                   "Draft policy to judge every replayed commit with (what-if)");
+    sub.add_option("--suggest", options->suggest,
+                   "Write a policy whose limits sit at the P-th percentile of the history")
+        ->check(CLI::Range(0.0, 100.0));
+    sub.add_option("--out", options->out,
+                   "Where --suggest writes the policy (default: stdout, and then no report on "
+                   "stdout)");
+    sub.add_option("--format", options->format, "Report on stdout: text or json")
+        ->capture_default_str();
+    sub.add_option("--html", options->html,
+                   "Also write a self-contained HTML page with SVG histograms to PATH");
+    sub.add_option("-j,--jobs", options->jobs, "Worker threads, one commit each (0 = all cores)")
+        ->capture_default_str();
+    sub.add_option("--cache-dir", options->cache_dir,
+                   "Folder of the lexed-file cache (default: the tool's cache folder + "
+                   "\"/calibrate\")");
+    sub.add_option("--compile-commands", options->compile_commands,
+                   "compile_commands.json to take -D/-I/-std flags from (default: the "
+                   "repository's own, at its root or in build/)");
+    sub.add_flag("--no-pch-cache", options->no_pch_cache,
+                 "Parse without the precompiled standard-library headers (as check's flag)");
+    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
+        ->check(CLI::Range(1.0, 100.0))
+        ->capture_default_str();
+    sub.add_option("--rename-limit", options->rename_limit,
+                   "Candidates compared per added file when looking for renames")
+        ->capture_default_str();
+    sub.footer("Examples:\n"
+               "  tollgate calibrate                                 the last 300 commits of "
+               "the default branch\n"
+               "  tollgate calibrate --policy .tollgate.yaml         what it would have blocked\n"
+               "  tollgate calibrate --suggest 95 --out draft.yaml   limits at the 95th "
+               "percentile\n"
+               "  tollgate calibrate --range v1.0..main --format json --html calibrate.html");
+    sub.callback(
+        [options, &selected] { selected = [options] { return run_calibrate(*options); }; });
+}
+
+} // namespace tollgate

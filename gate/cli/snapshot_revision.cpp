@@ -1,0 +1,33 @@
+// SPDX-License-Identifier: MIT
+// A whole revision, measured into a snapshot.
+#include "gate/cli/snapshot_revision.hpp"
+
+#include "gate/baseline/snapshot_file.hpp"
+#include "gate/cli/measure_span.hpp"
+#include "gate/cli/sources.hpp"
+#include "gate/lexer/lex_files.hpp"
+#include "tollgate/core/convention.hpp"
+
+namespace tollgate {
+
+SnapshotResult snapshot_revision(const SnapshotRequest& request) {
+    SourceRequest sources;
+    sources.revision = request.commit;
+    sources.compile_commands = request.compile_commands;
+    sources.cache_dir = request.cache_dir;
+    sources.no_cache = request.no_cache;
+    const LoadedSources loaded = load_sources(sources);
+    const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs);
+
+    core::MeasureSettings settings;
+    settings.stroud = request.stroud;
+    SnapshotResult result;
+    result.snapshot =
+        baseline::make_snapshot(files, request.commit, core::fingerprint(loaded.context.convention),
+                                settings, baseline::current_utc_time());
+    result.files = files.size();
+    result.warnings = collect_warnings(files).size();
+    return result;
+}
+
+} // namespace tollgate
