@@ -6,6 +6,7 @@
 #include "gate/cli/commands.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -33,8 +34,8 @@ struct SnapshotOptions {
     std::vector<std::string> compare; // --compare BASE HEAD
     std::string format = "text";      // text or json, for --compare
     std::size_t top = 10;             // grown functions listed by --compare
-    // Where the snapshot goes without --out, relative to the repository root; the policy's
-    // baseline.path will replace it. Always confined to the repository.
+    // Where the snapshot goes without --out and without a baseline.path in the revision's
+    // policy, relative to the repository root. Always confined to the repository.
     std::string configured_path = baseline::k_default_snapshot_path;
 };
 
@@ -50,15 +51,24 @@ std::string display_path(const fs::path& absolute) {
 int run_snapshot(const SnapshotOptions& options) {
     const walker::Repository repository = walker::Repository::open(fs::current_path().string());
     const walker::ObjectId commit = repository.resolve_commit(options.revision);
+    // The measured revision's policy may say where its baseline lives.
+    std::string configured_path = options.configured_path;
+    if (const auto file = repository.read_file(commit, policy::k_default_policy_path)) {
+        const auto team_policy = policy::load_policy(
+            file->content, std::string(policy::k_default_policy_path) + " at " + commit.short_hex());
+        if (!team_policy.baseline.path.empty()) {
+            configured_path = team_policy.baseline.path;
+        }
+    }
 
     std::string out_path = options.out;
     if (out_path.empty()) {
         if (repository.is_bare()) {
             throw UsageError("a bare repository has no working tree to hold \"" +
-                             options.configured_path + "\" (give the file with --out PATH)");
+                             configured_path + "\" (give the file with --out PATH)");
         }
         out_path = display_path(
-            baseline::confine_to_repository(options.configured_path, repository.workdir()));
+            baseline::confine_to_repository(configured_path, repository.workdir()));
     }
     const baseline::Overwrite overwrite =
         options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
