@@ -46,29 +46,6 @@ struct CheckOptions {
     std::size_t rename_limit = 400;   // --rename-limit
 };
 
-std::string read_compile_commands(const std::string& given, const std::string& workdir) {
-    namespace fs = std::filesystem;
-    std::string path = given;
-    if (path.empty() && !workdir.empty()) {
-        for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
-            if (fs::exists(fs::path(workdir) / candidate)) {
-                path = (fs::path(workdir) / candidate).string();
-                break;
-            }
-        }
-    }
-    if (path.empty()) {
-        return {};
-    }
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw UsageError("cannot read compile database \"" + path + "\"");
-    }
-    std::ostringstream text;
-    text << in.rdbuf();
-    return text.str();
-}
-
 // The baseline snapshot a check uses, if any.
 struct LoadedBaseline {
     std::optional<baseline::Snapshot> snapshot; // empty when none is given or configured
@@ -167,9 +144,7 @@ int run_check(const CheckOptions& options) {
     settings.compile_commands_json =
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.compile_commands_root = repository.workdir();
-    settings.cache_dir =
-        options.no_cache ? std::string()
-                         : (options.cache_dir.empty() ? default_cache_dir() : options.cache_dir);
+    settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
     const SelectedPolicy selected = select_policy(repository, range, options.policy_path);

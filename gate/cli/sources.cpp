@@ -97,7 +97,9 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
     return selected;
 }
 
-std::string find_compile_commands(const std::string& given, const fs::path& root) {
+} // namespace
+
+std::string read_compile_commands(const std::string& given, const std::string& root) {
     if (!given.empty()) {
         if (!fs::exists(given)) {
             throw UsageError("compile database \"" + given + "\" does not exist");
@@ -105,7 +107,7 @@ std::string find_compile_commands(const std::string& given, const fs::path& root
         return read_disk_file(given);
     }
     for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
-        const fs::path path = root / candidate;
+        const fs::path path = fs::path(root) / candidate;
         if (!root.empty() && fs::exists(path)) {
             spdlog::debug("using compile database {}", path.string());
             return read_disk_file(path);
@@ -114,7 +116,12 @@ std::string find_compile_commands(const std::string& given, const fs::path& root
     return {};
 }
 
-} // namespace
+std::string resolve_cache_dir(bool no_cache, const std::string& given) {
+    if (no_cache) {
+        return {};
+    }
+    return given.empty() ? default_cache_dir() : given;
+}
 
 std::string default_cache_dir() {
     if (const char* dir = std::getenv("TOLLGATE_CACHE_DIR"); dir != nullptr && *dir != '\0') {
@@ -175,12 +182,10 @@ LoadedSources load_sources(const SourceRequest& request) {
     }
     loaded.selected = select_files(all, relative, request.paths);
 
-    const std::string compile_db = find_compile_commands(request.compile_commands, root);
+    const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
     loaded.context = lexer::make_parse_context(all, compile_db, root.string());
     loaded.context.force_language = request.force_language;
-    loaded.context.cache_dir =
-        request.no_cache ? std::string()
-                         : (request.cache_dir.empty() ? default_cache_dir() : request.cache_dir);
+    loaded.context.cache_dir = resolve_cache_dir(request.no_cache, request.cache_dir);
     spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),
                   loaded.selected.size(), loaded.context.headers.size());
     return loaded;

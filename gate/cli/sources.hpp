@@ -36,6 +36,15 @@ struct LoadedSources {
 // does not exist or names no C/C++ file.
 LoadedSources load_sources(const SourceRequest& request);
 
+// Return the text of the compile database `given` (a path; UsageError when it does not exist), or
+// when `given` is empty of compile_commands.json or build/compile_commands.json under `root`, or
+// empty when there is none.
+std::string read_compile_commands(const std::string& given, const std::string& root);
+
+// Return the precompiled-header cache folder to use: none when `no_cache`, else `given`, else
+// default_cache_dir().
+std::string resolve_cache_dir(bool no_cache, const std::string& given);
+
 // Return the default folder for the precompiled-header cache: $TOLLGATE_CACHE_DIR, else
 // $XDG_CACHE_HOME/tollgate, else $HOME/.cache/tollgate, else empty (no cache).
 std::string default_cache_dir();

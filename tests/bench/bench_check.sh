@@ -6,7 +6,7 @@
 # Run by hand after building: bash tests/bench/bench_check.sh [build-dir]
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
-build=${1:-$here/../../build}
+build=$(cd "${1:-$here/../../build}" && pwd)
 tollgate=$build/gate/tollgate
 naive=$build/tests/tollgate_naive_parse
 work=$(mktemp -d)
@@ -39,5 +39,7 @@ measure "check, warm PCH cache, all cores" "$tollgate" check --base HEAD~1 --cac
 warm=$(cat "$work/last")
 measure "check, warm PCH cache, 1 thread" "$tollgate" check --base HEAD~1 --cache-dir "$cache" -j 1
 measure "check, no PCH, all cores" "$tollgate" check --base HEAD~1 --no-pch-cache
+"$tollgate" snapshot --rev HEAD~1 --out "$work/base-snapshot.json" --cache-dir "$cache" 2>/dev/null
+measure "check, warm PCH, base from a snapshot" "$tollgate" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/base-snapshot.json"
 printf '%-44s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
 python3 -c "print(f'ratio check (warm, all cores) / floor: {$warm / $floor:.3f}  (goal <= 0.25)')"
