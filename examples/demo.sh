@@ -1,12 +1,42 @@
 #!/usr/bin/env bash
 # SPDX-License-Identifier: MIT
-# Build Tollgate (installing missing Debian packages) and measure the bundled demo sources.
+# Build Tollgate (installing missing Debian packages), build the invented "skyline-sensors" demo
+# repository in a temporary folder, and gate its two pull requests: one the policy blocks, one it
+# passes. Keep the repository with TOLLGATE_DEMO_KEEP=1.
 set -euo pipefail
-cd "$(dirname "$0")/.."
-bash .ci/build >/dev/null
-cd examples/skyline-sensors
-echo "== tollgate measure (examples/skyline-sensors)"
-../../build/gate/tollgate measure .
+root="$(cd "$(dirname "$0")/.." && pwd)"
+bash "$root/.ci/build" >/dev/null
+tollgate="$root/build/gate/tollgate"
+
+demo="$(mktemp -d "${TMPDIR:-/tmp}/tollgate-demo-XXXXXX")"
+if [ "${TOLLGATE_DEMO_KEEP:-0}" = 1 ]; then
+    echo "(keeping the demo repository $demo)"
+else
+    trap 'rm -rf "$demo"' EXIT
+fi
+bash "$root/examples/make_demo_repo.sh" "$demo/skyline-sensors" 2>/dev/null
+cd "$demo/skyline-sensors"
+
+gate() {
+    echo
+    echo "== tollgate check --base main --head $1    ($2)"
+    set +e
+    "$tollgate" check --base main --head "$1"
+    code=$?
+    set -e
+    echo "-> exit code $code"
+}
+echo "== the demo repository: $(git log --oneline --all | wc -l) commits, policy .tollgate.yaml on main"
+git log --oneline --graph --all
+gate filter-outliers "outlier handling written into the filter's update step"
+gate crc-simplify "the CRC's inner branch folded into one expression"
+
 echo
-echo "== tollgate explain src/fusion_filter.cpp:FusionFilter::update"
-../../build/gate/tollgate explain src/fusion_filter.cpp:FusionFilter::update
+if [ "${TOLLGATE_DEMO_KEEP:-0}" != 1 ]; then
+    echo "The demo repository is removed now; run with TOLLGATE_DEMO_KEEP=1 to keep it and try:"
+else
+    echo "Try next (in $demo/skyline-sensors):"
+fi
+echo "  $tollgate explain --rev filter-outliers src/fusion_filter.cpp:FusionFilter::update"
+echo "  $tollgate check --base main --head filter-outliers --report markdown:-"
+echo "  $tollgate policy"

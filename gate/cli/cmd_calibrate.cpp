@@ -121,30 +121,6 @@ std::vector<core::MeasureId> parse_measures(const std::vector<std::string>& name
     return out;
 }
 
-// The same discovery as check: the given file, else the repository's own at its root or build/.
-std::string read_compile_commands(const std::string& given, const std::string& workdir) {
-    namespace fs = std::filesystem;
-    std::string path = given;
-    if (path.empty() && !workdir.empty()) {
-        for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
-            if (fs::exists(fs::path(workdir) / candidate)) {
-                path = (fs::path(workdir) / candidate).string();
-                break;
-            }
-        }
-    }
-    if (path.empty()) {
-        return {};
-    }
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw UsageError("cannot read compile database \"" + path + "\"");
-    }
-    std::ostringstream text;
-    text << in.rdbuf();
-    return text.str();
-}
-
 void write_file(const std::string& path, const std::string& text) {
     std::ofstream out(path, std::ios::binary | std::ios::trunc);
     out << text;
@@ -202,11 +178,14 @@ int run_calibrate(const CalibrateOptions& options) {
     }
     const walker::History history = walker::first_parent_history(repository, query);
 
-    calibrate::LexFileCache cache(options.cache_dir.empty()
-                                      ? (default_cache_dir().empty()
-                                             ? std::string(".tollgate-cache/calibrate")
-                                             : default_cache_dir() + "/calibrate")
-                                      : options.cache_dir);
+    // Without a cache folder ($HOME unset and no $TOLLGATE_CACHE_DIR) the system's temporary
+    // folder still lets repeated runs share parses.
+    const std::string cache_dir =
+        !options.cache_dir.empty() ? options.cache_dir
+        : !default_cache_dir().empty()
+            ? default_cache_dir() + "/calibrate"
+            : (std::filesystem::temp_directory_path() / "tollgate-calibrate").string();
+    calibrate::LexFileCache cache(cache_dir);
     calibrate::ReplaySettings settings;
     settings.measure.measures.stroud = options.stroud;
     settings.measure.compile_commands_json =

@@ -30,17 +30,18 @@ int run_install(const HookOptions& options) {
                                         : options.force ? hook::ExistingHook::replace
                                                         : hook::ExistingHook::refuse;
     const std::string binary = options.binary.empty() ? hook::self_executable() : options.binary;
-    std::cerr << "tollgate: " << hook::install_hook(hook::hooks_folder(), binary, existing) << "\n";
+    // One string, built before anything is written: a refusal leaves no dangling prefix.
+    std::cerr << ("tollgate: " + hook::install_hook(hook::hooks_folder(), binary, existing) + "\n");
     return static_cast<int>(ExitCode::pass);
 }
 
 int run_uninstall() {
-    std::cerr << "tollgate: " << hook::uninstall_hook(hook::hooks_folder()) << "\n";
+    std::cerr << ("tollgate: " + hook::uninstall_hook(hook::hooks_folder()) + "\n");
     return static_cast<int>(ExitCode::pass);
 }
 
 // Judge one planned ref with `tollgate check` run as a child of this very binary, so the hook
-// and the pipeline gate with the same code; return check's exit code.
+// and the pipeline gate with the same code; return check's exit code. Its table goes to stderr.
 int check_ref(const hook::RefPlan& plan, const HookOptions& options) {
     std::vector<std::string> argv = {
         hook::self_executable(), "check", "--base", plan.base, "--head", plan.head};
@@ -48,8 +49,8 @@ int check_ref(const hook::RefPlan& plan, const HookOptions& options) {
         argv.insert(argv.end(), {"--policy", options.policy_path});
     }
     argv.insert(argv.end(), {"--jobs", std::to_string(options.jobs)});
-    std::cout.flush();
-    return hook::run_process(argv, hook::Output::inherit).exit_code;
+    // The table is for the person pushing: it goes to stderr, which git leaves on the terminal.
+    return hook::run_process(argv, hook::Output::to_stderr).exit_code;
 }
 
 int run_pre_push(const HookOptions& options) {

@@ -98,6 +98,10 @@ DefaultBranch find_default_branch(const Repository& repository, const std::strin
 
 } // namespace
 
+std::string default_branch_name(const Repository& repository, const std::string& given) {
+    return find_default_branch(repository, given).name;
+}
+
 ResolvedRange resolve_range(const Repository& repository, const RevisionRange& range) {
     ResolvedRange resolved;
     const std::string head_name = range.head.empty() ? "HEAD" : range.head;

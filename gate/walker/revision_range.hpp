@@ -65,4 +65,9 @@ struct ResolvedRange {
 // a bare repository or together with a head other than HEAD; Failure when libgit2 fails.
 ResolvedRange resolve_range(const Repository& repository, const RevisionRange& range);
 
+// Return the default branch as resolve_range finds it: `given` when non-empty, else the target
+// of refs/remotes/origin/HEAD, else main, master, origin/main or origin/master. Throws UsageError
+// when none exists.
+std::string default_branch_name(const Repository& repository, const std::string& given);
+
 } // namespace tollgate::walker

@@ -424,7 +424,8 @@ TEST_CASE("judge grandfathers ceiling findings already in the baseline", "[polic
         CHECK(verdict.outcome == Outcome::blocked);
     }
     SECTION("with grandfathering off, the lookup is not used") {
-        const Verdict verdict = judge(policy_from(rules), report, options);
+        const Verdict verdict =
+            judge(policy_from(rules + "baseline: {grandfather: false}\n"), report, options);
         for (const auto& f : verdict.findings) {
             CHECK_FALSE(f.grandfathered);
         }

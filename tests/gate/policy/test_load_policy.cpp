@@ -100,7 +100,8 @@ TEST_CASE("load_policy fills defaults for keys left out", "[policy]") {
     CHECK(policy.noise_floor.empty());
     CHECK(policy.paths.include == std::vector<std::string>{"**"});
     CHECK(policy.paths.exclude.empty());
-    CHECK(policy.baseline.grandfather == Grandfathering::off);
+    // Grandfathering is on unless turned off: it only acts when a baseline snapshot is used.
+    CHECK(policy.baseline.grandfather == Grandfathering::on);
 }
 
 TEST_CASE("load_policy reports broken policies with file:line:column", "[policy]") {
@@ -277,7 +278,7 @@ baseline: {path: "snap shot.json", grandfather: false}
         const std::string minimal = describe_policy(load_policy("tollgate-policy: 1\n", "m"));
         CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules: []\n"
                          "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                         "waivers: []\nbaseline:\n  grandfather: false\n");
+                         "waivers: []\nbaseline:\n  grandfather: true\n");
     }
 }
 

@@ -1,0 +1,387 @@
+// SPDX-License-Identifier: MIT
+// The on-disk lexed-file cache: keys from content and reachable headers, JSON entries, atomic
+// writes.
+#include "gate/calibrate/lex_file_cache.hpp"
+
+#include "gate/common/errors.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <iostream>
+#include <map>
+#include <nlohmann/json.hpp>
+#include <sstream>
+#include <thread>
+#include <unistd.h>
+#include <vector>
+
+namespace tollgate::calibrate {
+
+namespace {
+
+namespace fs = std::filesystem;
+using nlohmann::json;
+
+constexpr const char* k_format = "tollgate.lexcache/1";
+
+__extension__ typedef unsigned __int128 Hash128;
+
+// 128-bit FNV-1a, fed in pieces.
+class Fnv128 {
+public:
+    void feed(const std::string& bytes) {
+        for (unsigned char c : bytes) {
+            m_state ^= c;
+            m_state *= k_prime;
+        }
+        // A separator so that ("ab","c") and ("a","bc") differ.
+        m_state ^= 0xffu;
+        m_state *= k_prime;
+    }
+    std::string hex() const {
+        static const char* digits = "0123456789abcdef";
+        std::string out(32, '0');
+        Hash128 value = m_state;
+        for (int i = 31; i >= 0; --i) {
+            out[static_cast<std::size_t>(i)] = digits[static_cast<unsigned>(value & 0xfu)];
+            value >>= 4;
+        }
+        return out;
+    }
+
+private:
+    static constexpr Hash128 k_prime = (static_cast<Hash128>(1) << 88) + 0x13b;
+    Hash128 m_state = (static_cast<Hash128>(0x6c62272e07bb0142ULL) << 64) | 0x62b821756295c58dULL;
+};
+
+// The names of a file's #include lines; `followable` turns false for an include the scan cannot
+// follow (a macro, or a name with "..": then only its last component is kept).
+struct IncludeScan {
+    std::vector<std::string> names;
+    bool followable = true;
+};
+
+IncludeScan scan_includes(const std::string& text) {
+    IncludeScan scan;
+    std::size_t pos = 0;
+    while (pos < text.size()) {
+        std::size_t end = text.find('\n', pos);
+        if (end == std::string::npos) {
+            end = text.size();
+        }
+        std::size_t i = pos;
+        auto skip_blank = [&] {
+            while (i < end && (text[i] == ' ' || text[i] == '\t')) {
+                ++i;
+            }
+        };
+        skip_blank();
+        if (i < end && text[i] == '#') {
+            ++i;
+            skip_blank();
+            const bool include = text.compare(i, 7, "include") == 0;
+            const bool import = text.compare(i, 6, "import") == 0;
+            if (include || import) {
+                i += include ? 7 : 6;
+                if (text.compare(i, 5, "_next") == 0) {
+                    i += 5;
+                }
+                skip_blank();
+                if (i < end && (text[i] == '"' || text[i] == '<')) {
+                    const char close = text[i] == '"' ? '"' : '>';
+                    const std::size_t stop = text.find(close, i + 1);
+                    if (stop != std::string::npos && stop < end) {
+                        std::string name = text.substr(i + 1, stop - i - 1);
+                        const auto dots = name.rfind("..");
+                        if (dots != std::string::npos) {
+                            const auto slash = name.find('/', dots);
+                            name =
+                                slash == std::string::npos ? std::string() : name.substr(slash + 1);
+                        }
+                        while (name.rfind("./", 0) == 0) {
+                            name = name.substr(2);
+                        }
+                        if (!name.empty()) {
+                            scan.names.push_back(name);
+                        } else {
+                            scan.followable = false;
+                        }
+                    }
+                } else {
+                    scan.followable = false; // #include MACRO
+                }
+            }
+        }
+        pos = end + 1;
+    }
+    return scan;
+}
+
+bool path_ends_with(const std::string& path, const std::string& name) {
+    if (path == name) {
+        return true;
+    }
+    return path.size() > name.size() &&
+           path.compare(path.size() - name.size(), name.size(), name) == 0 &&
+           path[path.size() - name.size() - 1] == '/';
+}
+
+std::string basename_of(const std::string& path) {
+    const auto slash = path.rfind('/');
+    return slash == std::string::npos ? path : path.substr(slash + 1);
+}
+
+json to_json(const lexer::FileFunctions& functions) {
+    json list = json::array();
+    for (const auto& f : functions.functions) {
+        json tokens = json::array();
+        for (const auto& t : f.tokens) {
+            tokens.push_back({t.key, t.spelling, t.role == core::Role::operand_token ? 1 : 0,
+                              t.form, static_cast<int>(t.basis), t.line});
+        }
+        list.push_back({{"usr", f.usr},
+                        {"fallback_key", f.fallback_key},
+                        {"qualified_name", f.qualified_name},
+                        {"signature", f.signature},
+                        {"path", f.path},
+                        {"start_line", f.start_line},
+                        {"end_line", f.end_line},
+                        {"lexical", f.mode == lexer::ExtentMode::lexical},
+                        {"potential_operands", f.potential_operands},
+                        {"token_hash", f.token_hash},
+                        {"tokens", tokens}});
+    }
+    json warnings = json::array();
+    for (const auto& w : functions.warnings) {
+        warnings.push_back({w.path, w.line, w.message});
+    }
+    return {{"path", functions.path},
+            {"functions", list},
+            {"warnings", warnings},
+            {"lexically_recovered", functions.lexically_recovered}};
+}
+
+lexer::FileFunctions from_json(const json& j) {
+    lexer::FileFunctions out;
+    out.path = j.at("path").get<std::string>();
+    for (const auto& f : j.at("functions")) {
+        lexer::FunctionSpan span;
+        span.usr = f.at("usr").get<std::string>();
+        span.fallback_key = f.at("fallback_key").get<std::string>();
+        span.qualified_name = f.at("qualified_name").get<std::string>();
+        span.signature = f.at("signature").get<std::string>();
+        span.path = f.at("path").get<std::string>();
+        span.start_line = f.at("start_line").get<unsigned>();
+        span.end_line = f.at("end_line").get<unsigned>();
+        span.mode = f.at("lexical").get<bool>() ? lexer::ExtentMode::lexical
+                                                : lexer::ExtentMode::syntax_tree;
+        span.potential_operands = f.at("potential_operands").get<std::uint64_t>();
+        span.token_hash = f.at("token_hash").get<std::string>();
+        for (const auto& t : f.at("tokens")) {
+            core::Token token;
+            token.key = t.at(0).get<std::string>();
+            token.spelling = t.at(1).get<std::string>();
+            token.role =
+                t.at(2).get<int>() == 1 ? core::Role::operand_token : core::Role::operator_token;
+            token.form = t.at(3).get<std::string>();
+            const int basis = t.at(4).get<int>();
+            if (basis < 0 || basis > static_cast<int>(core::Basis::lexical)) {
+                throw std::runtime_error("bad basis");
+            }
+            token.basis = static_cast<core::Basis>(basis);
+            token.line = t.at(5).get<unsigned>();
+            span.tokens.push_back(std::move(token));
+        }
+        out.functions.push_back(std::move(span));
+    }
+    for (const auto& w : j.at("warnings")) {
+        out.warnings.push_back(
+            {w.at(0).get<std::string>(), w.at(1).get<unsigned>(), w.at(2).get<std::string>()});
+    }
+    out.lexically_recovered = j.at("lexically_recovered").get<unsigned>();
+    return out;
+}
+
+} // namespace
+
+std::string content_key(const std::string& bytes) {
+    Fnv128 hash;
+    hash.feed(bytes);
+    return hash.hex();
+}
+
+std::string lex_cache_key(const SourceFile& file, const lexer::ParseContext& context) {
+    Fnv128 hash;
+    hash.feed(k_format);
+    hash.feed(core::fingerprint(context.convention));
+    hash.feed(file.path);
+    hash.feed(file.content);
+    hash.feed(context.force_language ? std::to_string(static_cast<int>(*context.force_language))
+                                     : std::string("by-extension"));
+    for (const auto& dir : context.include_dirs) {
+        hash.feed("I" + dir);
+    }
+    bool everything = false;
+    const auto flags = context.file_flags.find(file.path);
+    if (flags != context.file_flags.end()) {
+        for (const auto& flag : flags->second) {
+            hash.feed("F" + flag);
+            everything = everything || flag.rfind("-include", 0) == 0;
+        }
+    }
+
+    // Headers by basename, then a breadth-first closure over #include names.
+    std::multimap<std::string, std::size_t> by_basename;
+    for (std::size_t i = 0; i < context.headers.size(); ++i) {
+        by_basename.emplace(basename_of(context.headers[i].path), i);
+    }
+    std::vector<bool> reached(context.headers.size(), false);
+    std::vector<const std::string*> pending = {&file.content};
+    while (!pending.empty() && !everything) {
+        const IncludeScan scan = scan_includes(*pending.back());
+        pending.pop_back();
+        everything = !scan.followable;
+        for (const auto& name : scan.names) {
+            const auto range = by_basename.equal_range(basename_of(name));
+            for (auto it = range.first; it != range.second; ++it) {
+                if (!reached[it->second] &&
+                    path_ends_with(context.headers[it->second].path, name)) {
+                    reached[it->second] = true;
+                    pending.push_back(&context.headers[it->second].content);
+                }
+            }
+        }
+    }
+    // Headers are kept sorted by path in the context, so the order is stable.
+    for (std::size_t i = 0; i < context.headers.size(); ++i) {
+        if (everything || reached[i]) {
+            hash.feed("H" + context.headers[i].path);
+            hash.feed(context.headers[i].content);
+        }
+    }
+    return hash.hex();
+}
+
+LexFileCache::LexFileCache(std::string dir) : m_dir(std::move(dir)) {
+    std::error_code error;
+    fs::create_directories(m_dir, error);
+    if (error) {
+        throw Failure("cannot create cache folder \"" + m_dir + "\": " + error.message() +
+                      " (pass --cache-dir)");
+    }
+    if (const char* pause = std::getenv("TOLLGATE_TEST_PAUSE_AFTER_CACHE_WRITES")) {
+        m_pause_after = std::strtoull(pause, nullptr, 10);
+    }
+}
+
+std::string LexFileCache::entry_path(const std::string& key) const {
+    return (fs::path(m_dir) / key.substr(0, 2) / (key.substr(2) + ".json")).string();
+}
+
+std::optional<lexer::FileFunctions> LexFileCache::find(const SourceFile& file,
+                                                       const lexer::ParseContext& context) {
+    const std::string blob = content_key(file.content);
+    const std::string key = lex_cache_key(file, context);
+    const auto me = std::this_thread::get_id();
+    {
+        std::unique_lock<std::mutex> lock(m_mutex);
+        ++m_counts.visits;
+        if (m_blobs.insert(blob).second) {
+            ++m_counts.distinct_blobs;
+        }
+        const bool holds_any = std::any_of(m_in_flight.begin(), m_in_flight.end(),
+                                           [&](const auto& entry) { return entry.second == me; });
+        if (!holds_any) {
+            // Bounded: a worker that failed mid-parse never stores, and the run is ending then.
+            m_stored.wait_for(lock, std::chrono::seconds(30),
+                              [&] { return m_in_flight.count(key) == 0; });
+        }
+    }
+    const auto miss = [&](bool damaged) -> std::optional<lexer::FileFunctions> {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        if (damaged) {
+            ++m_counts.damaged;
+        }
+        ++m_counts.parses;
+        m_in_flight.emplace(key, me);
+        return std::nullopt;
+    };
+    std::ifstream in(entry_path(key), std::ios::binary);
+    if (!in) {
+        return miss(false);
+    }
+    try {
+        const json entry = json::parse(in);
+        if (entry.at("format").get<std::string>() != k_format ||
+            entry.at("key").get<std::string>() != key) {
+            throw std::runtime_error("key mismatch");
+        }
+        lexer::FileFunctions functions = from_json(entry.at("lexed"));
+        std::lock_guard<std::mutex> lock(m_mutex);
+        ++m_counts.hits;
+        return functions;
+    } catch (const std::exception&) {
+        return miss(true);
+    }
+}
+
+void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& context,
+                         const lexer::FileFunctions& functions) {
+    const std::string key = lex_cache_key(file, context);
+    const fs::path final_path = entry_path(key);
+    const json entry = {{"format", k_format}, {"key", key}, {"lexed", to_json(functions)}};
+    const std::string text = entry.dump();
+    const fs::path temp_path = fs::path(m_dir) / ("tmp." + std::to_string(::getpid()) + "." +
+                                                  std::to_string(m_temp_serial++) + ".part");
+    std::error_code error;
+    fs::create_directories(final_path.parent_path(), error);
+    bool written = false;
+    if (!error) {
+        std::ofstream out(temp_path, std::ios::binary | std::ios::trunc);
+        out << text;
+        out.close();
+        written = static_cast<bool>(out);
+        if (written) {
+            fs::rename(temp_path, final_path, error);
+            written = !error;
+        }
+        if (!written) {
+            fs::remove(temp_path, error);
+        }
+    }
+    std::uint64_t writes = 0;
+    {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        if (!written) {
+            ++m_counts.write_failures;
+        } else {
+            ++m_writes;
+        }
+        writes = m_writes;
+        const auto owner = m_in_flight.find(key);
+        if (owner != m_in_flight.end() && owner->second == std::this_thread::get_id()) {
+            m_in_flight.erase(owner);
+        }
+    }
+    m_stored.notify_all();
+    if (written && m_pause_after != 0 && writes >= m_pause_after) {
+        // Test hook: leave a half-written temporary file behind, then wait to be killed.
+        std::ofstream half(fs::path(m_dir) / "tmp.paused.part", std::ios::binary);
+        half << text.substr(0, text.size() / 2);
+        half.close();
+        std::cerr << "tollgate: test hook: paused after " << writes << " cache writes" << std::endl;
+        for (;;) {
+            std::this_thread::sleep_for(std::chrono::seconds(1));
+        }
+    }
+}
+
+CacheCounts LexFileCache::counts() const {
+    std::lock_guard<std::mutex> lock(m_mutex);
+    return m_counts;
+}
+
+} // namespace tollgate::calibrate

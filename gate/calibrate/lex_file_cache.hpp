@@ -1,0 +1,84 @@
+// SPDX-License-Identifier: MIT
+// A lexed-file cache kept on disk, one file per entry, shared by calibrate's worker threads.
+#pragma once
+
+#include "gate/lexer/lex_cache.hpp"
+
+#include <atomic>
+#include <condition_variable>
+#include <cstdint>
+#include <map>
+#include <mutex>
+#include <set>
+#include <string>
+#include <thread>
+
+namespace tollgate::calibrate {
+
+// Return the 128-bit FNV-1a digest of `bytes` as 32 lowercase hex digits (offset basis
+// 0x6c62272e07bb014262b821756295c58d, prime 2^88 + 0x13b). Never fails.
+std::string content_key(const std::string& bytes);
+
+// Return the key under which the lexed form of `file` is kept: a digest of the cache format
+// version, the convention fingerprint, the file's path and content, its flags, the include folders
+// and every header of `context` the file can reach through #include lines (found lexically and
+// over-approximated: a name matches every header whose path ends with it; an include the scan
+// cannot follow, such as `#include MACRO` or a forced `-include`, makes every header count).
+std::string lex_cache_key(const SourceFile& file, const lexer::ParseContext& context);
+
+// How the cache was used in one run.
+struct CacheCounts {
+    std::uint64_t visits = 0;         // lookups (one per file side measured)
+    std::uint64_t hits = 0;           // lookups answered from disk
+    std::uint64_t parses = 0;         // lookups that had to parse (misses)
+    std::uint64_t damaged = 0;        // entries found unreadable, ignored and rewritten
+    std::uint64_t write_failures = 0; // entries that could not be written
+    std::uint64_t distinct_blobs = 0; // distinct file contents visited
+
+    bool operator==(const CacheCounts& other) const {
+        return visits == other.visits && hits == other.hits && parses == other.parses &&
+               damaged == other.damaged && write_failures == other.write_failures &&
+               distinct_blobs == other.distinct_blobs;
+    }
+};
+
+// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/1"),
+// written to a temporary file and renamed into place, so a killed run leaves whole entries or
+// none. Entries that do not parse or whose recorded key differs are ignored and rewritten.
+// Thread-safe: a lookup of a key that another thread is parsing waits for its entry (unless the
+// asking thread is itself parsing something, which could deadlock), so parallel workers parse
+// each key once.
+class LexFileCache : public lexer::LexCache {
+public:
+    // Use folder `dir` (created when missing). Throws Failure when it cannot be created.
+    explicit LexFileCache(std::string dir);
+
+    // Return the entry of `file` under `context`'s key, or nothing when there is none or it is
+    // damaged (counted, and rewritten by the next store).
+    std::optional<lexer::FileFunctions> find(const SourceFile& file,
+                                             const lexer::ParseContext& context) override;
+    // Write `functions` under the key of `file` and `context`, atomically; a failed write is
+    // counted, not thrown.
+    void store(const SourceFile& file, const lexer::ParseContext& context,
+               const lexer::FileFunctions& functions) override;
+
+    // Return the counts so far.
+    CacheCounts counts() const;
+    // Return the folder.
+    const std::string& dir() const { return m_dir; }
+
+private:
+    std::string entry_path(const std::string& key) const;
+
+    std::string m_dir;
+    mutable std::mutex m_mutex;
+    std::condition_variable m_stored;                   // signalled after each store
+    std::map<std::string, std::thread::id> m_in_flight; // keys being parsed, by whom
+    CacheCounts m_counts;
+    std::set<std::string> m_blobs;
+    std::atomic<std::uint64_t> m_temp_serial{0};
+    std::uint64_t m_writes = 0;      // entries written this run
+    std::uint64_t m_pause_after = 0; // test hook: stop after this many writes (0: never)
+};
+
+} // namespace tollgate::calibrate

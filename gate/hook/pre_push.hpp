@@ -1,0 +1,54 @@
+// SPDX-License-Identifier: MIT
+// git's pre-push protocol: the refs a push updates, and the base and head each one is judged on.
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace tollgate::hook {
+
+// One line of the pre-push hook's standard input.
+struct PushedRef {
+    std::string local_ref;  // e.g. "refs/heads/feature", or "(delete)" for a deletion
+    std::string local_sha;  // the commit pushed; all zeros when the remote ref is deleted
+    std::string remote_ref; // the ref updated on the remote
+    std::string remote_sha; // its current commit on the remote; all zeros when it is new
+    bool operator==(const PushedRef& other) const {
+        return local_ref == other.local_ref && local_sha == other.local_sha &&
+               remote_ref == other.remote_ref && remote_sha == other.remote_sha;
+    }
+};
+
+// Parse the pre-push standard input `text` (one ref per line, four fields separated by spaces).
+// Blank lines are skipped; an empty input yields none. Throws UsageError naming the line when a
+// line does not have four fields.
+std::vector<PushedRef> parse_pushed_refs(const std::string& text);
+
+// Return true when `sha` is an all-zero object id (git's "no such ref").
+bool is_null_sha(const std::string& sha);
+
+// What the hook does with one pushed ref.
+enum class RefAction {
+    check, // judge the commits from `base` to `head`
+    skip,  // nothing to judge; `reason` says why
+};
+
+// The judgement plan for one pushed ref.
+struct RefPlan {
+    PushedRef ref;                       // the ref as git announced it
+    RefAction action = RefAction::check; // check or skip
+    std::string base;                    // base commit id (check only)
+    std::string head;                    // head commit id (check only)
+    std::string reason;                  // how the base was chosen, or why the ref is skipped
+};
+
+// Plan `ref` for a push to `remote` by asking git in the current folder: a deleted ref is
+// skipped; an updated ref is judged from the remote's commit when this clone has it; a new
+// branch (or a remote commit this clone lacks) from its merge base with the remote's default
+// branch (refs/remotes/REMOTE/HEAD, else REMOTE/main, else REMOTE/master), else from the parent
+// of the first pushed commit not on any remote-tracking ref. A ref whose commits are all on the
+// remote already, or whose history has no commit to compare with, is skipped. Throws Failure
+// when git cannot be run.
+RefPlan plan_ref(const PushedRef& ref, const std::string& remote);
+
+} // namespace tollgate::hook

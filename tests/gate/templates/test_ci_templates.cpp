@@ -1,0 +1,231 @@
+// SPDX-License-Identifier: MIT
+// The pipeline templates of ci-templates/: each parses and wires the gate the way its platform
+// expects, and the generic shell script gates a real repository with the real binary.
+#include "support/temp_repo.hpp"
+
+#include <catch2/catch.hpp>
+#include <filesystem>
+#include <nlohmann/json.hpp>
+#include <string>
+#include <vector>
+
+using tollgate::test::commit_all;
+using tollgate::test::git;
+using tollgate::test::init_repo;
+using tollgate::test::read_text;
+using tollgate::test::run_command;
+using tollgate::test::shell_quote;
+using tollgate::test::TempDir;
+
+namespace {
+
+const std::string k_templates = std::string(TOLLGATE_SOURCE_DIR) + "/ci-templates";
+
+// Run a python3 program that loads `file` with PyYAML as `doc` and then runs `checks` (asserts).
+tollgate::test::RunResult check_yaml(const std::string& file, const std::string& checks) {
+    TempDir dir;
+    dir.write("check.py", "import sys, yaml\n"
+                          "doc = yaml.safe_load(open(sys.argv[1]))\n"
+                          "def steps_text(steps):\n"
+                          "    return '\\n'.join(str(s) for s in steps)\n" +
+                              checks + "\nprint('ok')\n");
+    return run_command("python3 " + shell_quote(dir.path() + "/check.py") + " " +
+                           shell_quote(k_templates + "/" + file),
+                       dir.path());
+}
+
+// Return the first bracket mismatch of a Groovy text ("" when balanced), skipping comments and
+// the four string forms a Jenkinsfile uses ('...', "...", '''...''', """...""").
+std::string bracket_mismatch(const std::string& text) {
+    std::vector<char> open;
+    for (std::size_t i = 0; i < text.size(); ++i) {
+        const char c = text[i];
+        if (text.compare(i, 2, "//") == 0) {
+            i = text.find('\n', i);
+            if (i == std::string::npos) {
+                break;
+            }
+            continue;
+        }
+        if (text.compare(i, 3, "'''") == 0 || text.compare(i, 3, "\"\"\"") == 0) {
+            const std::size_t end = text.find(text.substr(i, 3), i + 3);
+            if (end == std::string::npos) {
+                return "unterminated triple-quoted string";
+            }
+            i = end + 2;
+            continue;
+        }
+        if (c == '\'' || c == '"') {
+            std::size_t end = i + 1;
+            while (end < text.size() && text[end] != c && text[end] != '\n') {
+                end += text[end] == '\\' ? 2 : 1;
+            }
+            if (end >= text.size() || text[end] != c) {
+                return "unterminated string at offset " + std::to_string(i);
+            }
+            i = end;
+            continue;
+        }
+        if (c == '{' || c == '(' || c == '[') {
+            open.push_back(c);
+        } else if (c == '}' || c == ')' || c == ']') {
+            const char expected = c == '}' ? '{' : c == ')' ? '(' : '[';
+            if (open.empty() || open.back() != expected) {
+                return std::string("unmatched '") + c + "' at offset " + std::to_string(i);
+            }
+            open.pop_back();
+        }
+    }
+    return open.empty() ? std::string() : std::string("unclosed '") + open.back() + "'";
+}
+
+} // namespace
+
+TEST_CASE("github-actions.yml parses and wires the gate", "[templates]") {
+    // PyYAML reads the bare key `on` as the boolean true (YAML 1.1), hence doc.get(True).
+    const auto result = check_yaml(
+        "github-actions.yml",
+        "triggers = doc.get('on', doc.get(True))\n"
+        "assert 'pull_request' in triggers, triggers\n"
+        "assert doc['permissions']['security-events'] == 'write'\n"
+        "steps = doc['jobs']['gate']['steps']\n"
+        "checkout = [s for s in steps if s.get('uses', '').startswith('actions/checkout')]\n"
+        "assert checkout and checkout[0]['with']['fetch-depth'] == 0, checkout\n"
+        "gate = [s for s in steps if 'tollgate check' in s.get('run', '')]\n"
+        "assert len(gate) == 1, gate\n"
+        "run = gate[0]['run']\n"
+        "assert '${{ github.event.pull_request.base.sha }}' in run\n"
+        "assert '${{ github.event.pull_request.head.sha }}' in run\n"
+        "assert 'GITHUB_STEP_SUMMARY' in run and 'markdown:' in run and 'sarif:' in run\n"
+        "sarif = [s for s in steps if s.get('uses', '').startswith("
+        "'github/codeql-action/upload-sarif')]\n"
+        "assert sarif and sarif[0]['with']['sarif_file'].endswith('.sarif')\n"
+        "caches = [s for s in steps if s.get('uses', '').startswith('actions/cache')]\n"
+        "assert all(c['with']['path'] == 'baselines/' for c in caches) and len(caches) == 2\n"
+        "assert any('tollgate snapshot' in s.get('run', '') for s in steps)\n");
+    INFO(result.err);
+    CHECK(result.exit_code == 0);
+    CHECK(result.out == "ok\n");
+}
+
+TEST_CASE("gitlab-ci.yml parses and wires the gate", "[templates]") {
+    const auto result = check_yaml(
+        "gitlab-ci.yml",
+        "assert doc['variables']['GIT_DEPTH'] == '0'\n"
+        "job = doc['tollgate-gate']\n"
+        "script = '\\n'.join(job['script'])\n"
+        "assert 'tollgate check' in script\n"
+        "assert '$CI_MERGE_REQUEST_DIFF_BASE_SHA' in script and '$CI_COMMIT_SHA' in script\n"
+        "assert 'TOLLGATE_NOTE_TOKEN' in script and '/notes' in script\n"
+        "assert job['artifacts']['when'] == 'always'\n"
+        "paths = job['artifacts']['paths']\n"
+        "assert any(p.endswith('.md') for p in paths) and any(p.endswith('.sarif') for p in "
+        "paths)\n"
+        "assert job['cache']['paths'] == ['baselines/']\n"
+        "snap = doc['tollgate-snapshot']\n"
+        "assert snap['cache']['paths'] == ['baselines/'] and snap['cache']['policy'] == 'push'\n"
+        "assert 'tollgate snapshot' in '\\n'.join(snap['script'])\n"
+        "base = doc['.tollgate-install']\n"
+        "assert any('.deb' in line for line in base['before_script'])\n");
+    INFO(result.err);
+    CHECK(result.exit_code == 0);
+    CHECK(result.out == "ok\n");
+}
+
+TEST_CASE("Jenkinsfile is a balanced declarative pipeline that gates change requests",
+          "[templates]") {
+    const std::string text = read_text(k_templates + "/Jenkinsfile");
+    REQUIRE_FALSE(text.empty());
+    CHECK(bracket_mismatch(text).empty());
+    CHECK(text.find("pipeline {") != std::string::npos);
+    CHECK(text.find("stages {") != std::string::npos);
+    CHECK(text.find("when { changeRequest() }") != std::string::npos);
+    CHECK(text.find("tollgate check") != std::string::npos);
+    CHECK(text.find("CHANGE_TARGET") != std::string::npos);
+    CHECK(text.find("git fetch --unshallow") != std::string::npos);
+    CHECK(text.find("archiveArtifacts") != std::string::npos);
+    CHECK(text.find("tollgate snapshot") != std::string::npos);
+
+    SECTION("the structural check itself catches a missing brace") {
+        CHECK(bracket_mismatch("pipeline { stages { stage('x') { steps { sh 'a' } }") ==
+              "unclosed '{'");
+        CHECK(bracket_mismatch("sh '''${X:-}''' }") == "unmatched '}' at offset 16");
+    }
+}
+
+TEST_CASE("the shell templates pass bash -n and shellcheck", "[templates]") {
+    for (const char* file : {"tollgate-gate.sh", "pre-push"}) {
+        const std::string path = shell_quote(k_templates + "/" + file);
+        const auto syntax = run_command("bash -n " + path, k_templates);
+        INFO(file << ": " << syntax.err);
+        CHECK(syntax.exit_code == 0);
+        CHECK(std::filesystem::status(k_templates + "/" + file).permissions() ==
+              (std::filesystem::status(k_templates + "/" + file).permissions() |
+               std::filesystem::perms::owner_exec));
+        if (run_command("command -v shellcheck", k_templates).exit_code == 0) {
+            const auto lint = run_command("shellcheck " + path, k_templates);
+            INFO(lint.out);
+            CHECK(lint.exit_code == 0);
+        } else {
+            WARN("shellcheck is not installed: only bash -n checked " << file);
+        }
+    }
+}
+
+TEST_CASE("tollgate-gate.sh gates a real repository", "[templates]") {
+    TempDir dir;
+    const std::string repo = dir.path() + "/repo";
+    init_repo(repo);
+    dir.write("repo/.tollgate.yaml", "tollgate-policy: 1\n"
+                                     "noise-floor: {volume: 1}\n"
+                                     "rules:\n"
+                                     "  - {id: effort-growth, kind: growth, measure: effort,\n"
+                                     "     max-increase-percent: 10, level: blocking}\n");
+    dir.write("repo/gain.c", "int gain(int x, int k) {\n    return x * k;\n}\n");
+    const std::string base = commit_all(repo, "base");
+    const std::string script = shell_quote(k_templates + "/tollgate-gate.sh");
+    const std::string env = "TOLLGATE=" + shell_quote(TOLLGATE_BINARY) + " TOLLGATE_FETCH=no ";
+
+    SECTION("a change that keeps the measures passes with exit 0 and writes the reports") {
+        // A renamed parameter: the same counts, so every measure stays.
+        dir.write("repo/gain.c", "int gain(int v, int k) {\n    return v * k;\n}\n");
+        commit_all(repo, "rename");
+        const auto result =
+            run_command(env + "bash " + script + " --base " + base + " --out ../out", repo);
+        INFO(result.err);
+        CHECK(result.exit_code == 0);
+        CHECK(result.out.find("verdict: pass") != std::string::npos);
+        const std::string markdown = read_text(dir.path() + "/out/tollgate.md");
+        CHECK(markdown.find("gain") != std::string::npos);
+        const auto sarif = nlohmann::json::parse(read_text(dir.path() + "/out/tollgate.sarif"));
+        CHECK(sarif["version"] == "2.1.0");
+        CHECK(sarif["runs"][0]["results"].empty());
+    }
+    SECTION("a change the policy blocks exits 1 with the finding in every report") {
+        dir.write("repo/gain.c", "int gain(int x, int k) {\n"
+                                 "    int y = x * k + 3;\n"
+                                 "    if (y > 100 || y < -100) {\n"
+                                 "        y = y > 0 ? 100 : -100;\n"
+                                 "    }\n"
+                                 "    return y - x % 5;\n"
+                                 "}\n");
+        commit_all(repo, "grow");
+        // Base from the environment, as a CI job sets it.
+        const auto result = run_command(env + "TOLLGATE_BASE=" + base + " TOLLGATE_OUT=" +
+                                            shell_quote(dir.path() + "/out") + " bash " + script,
+                                        repo);
+        INFO(result.err);
+        CHECK(result.exit_code == 1);
+        CHECK(result.err.find("the policy blocks the change") != std::string::npos);
+        CHECK(read_text(dir.path() + "/out/tollgate.md").find("effort-growth") !=
+              std::string::npos);
+        const auto sarif = nlohmann::json::parse(read_text(dir.path() + "/out/tollgate.sarif"));
+        REQUIRE(sarif["runs"][0]["results"].size() == 1);
+        CHECK(sarif["runs"][0]["results"][0]["ruleId"] == "effort-growth");
+    }
+    SECTION("an unknown option is a usage error") {
+        const auto result = run_command(env + "bash " + script + " --bogus", repo);
+        CHECK(result.exit_code == 2);
+        CHECK(result.err == "tollgate-gate: error: unknown option \"--bogus\" (see --help)\n");
+    }
+}
