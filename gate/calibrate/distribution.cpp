@@ -189,10 +189,12 @@ std::string limit_text(double value) {
 
 std::string origin_comment(double p, const char* what, core::MeasureId measure, const Series& s,
                            const Replay& replay, double value, const char* unit) {
-    std::string text =
-        fmt::format("p{:g} of {} {} over {} functions in {} commits {}: {}{}", p,
-                    core::measure_name(measure), what, s.summary.count, replay.commits.size(),
-                    replay_span(replay), fmt::format("{:+.2f}", value), unit);
+    std::string text = fmt::format("p{:g} of {} {} over {} functions in {} commits {}: {}{}", p,
+                                   core::measure_name(measure), what, s.summary.count,
+                                   replay.commits.size(), replay_span(replay),
+                                   std::string(what) == "growth" ? fmt::format("{:+.2f}", value)
+                                                                 : fmt::format("{:.2f}", value),
+                                   unit);
     if (value < 0) {
         text += " (raised to 0: a limit cannot be negative)";
     }

@@ -154,7 +154,8 @@ TEST_CASE("calibrate lexed-file cache", "[calibrate]") {
             "cd " + shell_quote(dir) + "; TOLLGATE_TEST_PAUSE_AFTER_CACHE_WRITES=2 " +
                 std::string(TOLLGATE_BINARY) + " calibrate --no-pch-cache -j 1 " + cache_arg +
                 " >/dev/null 2>" + err + " & pid=$!; for i in $(seq 1 600); do grep -q paused " +
-                err + " && break; sleep 0.1; done; kill -9 $pid; { wait $pid; } 2>/dev/null; cat " + err,
+                err + " && break; sleep 0.1; done; kill -9 $pid; { wait $pid; } 2>/dev/null; cat " +
+                err,
             repo.path());
         REQUIRE(killed.out.find("paused after 2 cache writes") != std::string::npos);
         auto entries = cache_entries(cache.path());
