@@ -54,8 +54,9 @@ int run_snapshot(const SnapshotOptions& options) {
     // The measured revision's policy may say where its baseline lives.
     std::string configured_path = options.configured_path;
     if (const auto file = repository.read_file(commit, policy::k_default_policy_path)) {
-        const auto team_policy = policy::load_policy(
-            file->content, std::string(policy::k_default_policy_path) + " at " + commit.short_hex());
+        const auto team_policy =
+            policy::load_policy(file->content, std::string(policy::k_default_policy_path) + " at " +
+                                                   commit.short_hex());
         if (!team_policy.baseline.path.empty()) {
             configured_path = team_policy.baseline.path;
         }
@@ -64,11 +65,11 @@ int run_snapshot(const SnapshotOptions& options) {
     std::string out_path = options.out;
     if (out_path.empty()) {
         if (repository.is_bare()) {
-            throw UsageError("a bare repository has no working tree to hold \"" +
-                             configured_path + "\" (give the file with --out PATH)");
+            throw UsageError("a bare repository has no working tree to hold \"" + configured_path +
+                             "\" (give the file with --out PATH)");
         }
-        out_path = display_path(
-            baseline::confine_to_repository(configured_path, repository.workdir()));
+        out_path =
+            display_path(baseline::confine_to_repository(configured_path, repository.workdir()));
     }
     const baseline::Overwrite overwrite =
         options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;

@@ -29,7 +29,7 @@ struct MeasureChangeSettings {
     const baseline::Snapshot* base_snapshot = nullptr; // a snapshot of the base commit: its
                                                        // measures replace parsing the base side;
                                                        // ignored when its commit is not the base
-    std::string base_snapshot_path; // where it was read, for the report's note
+    std::string base_snapshot_path;                    // where it was read, for the report's note
 };
 
 // Measure the change `changes` in `repository`: each changed C/C++ file is parsed once per side

@@ -148,8 +148,8 @@ enum class Grandfathering {
 
 // Where the baseline snapshot is and how it is used (read by the baseline work).
 struct BaselineSettings {
-    std::string path;                                 // snapshot file; empty: none configured
-    Grandfathering grandfather = Grandfathering::on;  // see Grandfathering; on unless turned off
+    std::string path;                                // snapshot file; empty: none configured
+    Grandfathering grandfather = Grandfathering::on; // see Grandfathering; on unless turned off
 
     bool operator==(const BaselineSettings& other) const {
         return path == other.path && grandfather == other.grandfather;
