@@ -5,6 +5,7 @@
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "gate/calibrate/replay.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/options.hpp"
 #include "gate/cli/run_cli.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
@@ -306,9 +307,7 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
                    "repository's own, at its root or in build/)");
     sub.add_flag("--no-pch-cache", options->no_pch_cache,
                  "Parse without the precompiled standard-library headers (as check's flag)");
-    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
-        ->check(CLI::Range(1.0, 100.0))
-        ->capture_default_str();
+    add_stroud_option(sub, options->stroud);
     sub.add_option("--rename-limit", options->rename_limit,
                    "Candidates compared per added file when looking for renames")
         ->capture_default_str();

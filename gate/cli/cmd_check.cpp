@@ -2,6 +2,7 @@
 // `tollgate check`: the gate. Measure the functions a change touched, before and after.
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/options.hpp"
 #include "gate/cli/policy_source.hpp"
 #include "gate/cli/report_targets.hpp"
 #include "gate/cli/run_cli.hpp"
@@ -224,8 +225,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     sub.add_option("--markdown-rows", options->markdown_rows,
                    "Rows of the Markdown table shown before the rest is folded")
         ->capture_default_str();
-    sub.add_option("-j,--jobs", options->jobs, "Parser threads (0 = all cores)")
-        ->capture_default_str();
+    add_jobs_option(sub, options->jobs);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, at its root or in build/)");
@@ -233,9 +233,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "Folder for the precompiled standard-library headers");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
-    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
-        ->check(CLI::Range(1.0, 100.0))
-        ->capture_default_str();
+    add_stroud_option(sub, options->stroud);
     sub.add_option("--rename-limit", options->rename_limit,
                    "Candidates compared per added file when looking for renames")
         ->capture_default_str();

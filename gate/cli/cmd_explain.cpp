@@ -144,9 +144,7 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--format", options->format, "Output format")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
-    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
-        ->check(CLI::Range(1.0, 100.0))
-        ->capture_default_str();
+    add_stroud_option(sub, options->stroud);
     sub.footer("Examples:\n"
                "  tollgate explain src/filter.cpp:Kalman::update\n"
                "  tollgate explain src/crc.c:crc16 --rev HEAD~1\n"

@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // `tollgate hook`: install or remove the pre-push hook, and run it for git's pre-push protocol.
 #include "gate/cli/commands.hpp"
+#include "gate/cli/options.hpp"
 #include "gate/cli/run_cli.hpp"
 #include "gate/hook/hook_file.hpp"
 #include "gate/hook/pre_push.hpp"
@@ -130,8 +131,7 @@ void attach_hook(CLI::App& sub, const GlobalOptions& /*global*/, std::function<i
     run->add_option("url", options->url, "URL of the remote (git's second argument)");
     run->add_option("--policy", options->policy_path,
                     "Policy file (default: .tollgate.yaml of each base commit)");
-    run->add_option("-j,--jobs", options->jobs, "Parser threads (0 = all cores)")
-        ->capture_default_str();
+    add_jobs_option(*run, options->jobs);
     run->callback(
         [options, &selected] { selected = [options] { return run_pre_push(*options); }; });
 

@@ -61,11 +61,8 @@ void attach_measure(CLI::App& sub, const GlobalOptions& /*global*/,
         ->capture_default_str();
     sub.add_flag("-a,--all-measures", options->all_measures,
                  "Show every measure (N n N^ V D L^ E T B V* V*/V), not only the essential ones");
-    sub.add_option("-j,--jobs", options->jobs, "Parser threads (0 = all cores)")
-        ->capture_default_str();
-    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
-        ->check(CLI::Range(1.0, 100.0))
-        ->capture_default_str();
+    add_jobs_option(sub, options->jobs);
+    add_stroud_option(sub, options->stroud);
     sub.footer("Examples:\n"
                "  tollgate measure src/filter.cpp            the working tree's file\n"
                "  tollgate measure --rev HEAD~3 src/         every file under src/ three commits "

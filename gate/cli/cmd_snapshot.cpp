@@ -4,6 +4,7 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/baseline/snapshot_trend.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/policy/policy.hpp"
@@ -129,11 +130,8 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
             " in the repository)");
     auto* force = sub.add_flag("--force", options->force,
                                "Replace the output file even when it is not a Tollgate snapshot");
-    sub.add_option("-j,--jobs", options->jobs, "Parser threads (0 = all cores)")
-        ->capture_default_str();
-    sub.add_option("--stroud", options->stroud, "Stroud number S for the time T = E / S")
-        ->check(CLI::Range(1.0, 100.0))
-        ->capture_default_str();
+    add_jobs_option(sub, options->jobs);
+    add_stroud_option(sub, options->stroud);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, if any, at its root or in build/)");

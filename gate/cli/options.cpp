@@ -24,6 +24,16 @@ void add_source_options(CLI::App& sub, SourceOptions& options, const std::string
         ->check(CLI::IsMember({"c", "c++"}));
 }
 
+void add_stroud_option(CLI::App& sub, double& stroud) {
+    sub.add_option("--stroud", stroud, "Stroud number S for the time T = E / S")
+        ->check(CLI::Range(1.0, 100.0))
+        ->capture_default_str();
+}
+
+void add_jobs_option(CLI::App& sub, unsigned& jobs) {
+    sub.add_option("-j,--jobs", jobs, "Parser threads (0 = all cores)")->capture_default_str();
+}
+
 SourceRequest to_request(const SourceOptions& options) {
     SourceRequest request;
     request.revision = options.revision;

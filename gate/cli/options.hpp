@@ -23,6 +23,12 @@ struct SourceOptions {
 // Add the source options to `sub`; `paths_help` describes the positional paths.
 void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help);
 
+// Add `--stroud S` (the Stroud number for T = E / S, 1 to 100) bound to `stroud`.
+void add_stroud_option(CLI::App& sub, double& stroud);
+
+// Add `-j,--jobs N` (parser threads, 0 = all cores) bound to `jobs`.
+void add_jobs_option(CLI::App& sub, unsigned& jobs);
+
 // Turn parsed source options into a request for load_sources.
 SourceRequest to_request(const SourceOptions& options);
 
