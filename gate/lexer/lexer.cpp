@@ -461,8 +461,8 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     std::vector<std::string> other_flags;
     bool has_std = false;
     bool has_include = false;
-    if (auto found = context.file_flags.find(file.path); found != context.file_flags.end()) {
-        const auto& flags = found->second;
+    if (const auto* found = flags_for(context, file.path)) {
+        const auto& flags = *found;
         for (std::size_t i = 0; i < flags.size(); ++i) {
             const std::string& flag = flags[i];
             if (flag.rfind("-std=", 0) == 0) {

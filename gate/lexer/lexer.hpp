@@ -49,6 +49,12 @@ ParseContext make_parse_context(const std::vector<SourceFile>& files,
                                 const std::string& compile_commands_json = {},
                                 const std::string& repository_root = {});
 
+// Return the compile-database flags for `path`: its own entry, else (a header, or a source the
+// build does not list) the entry of the same language whose folder shares the longest leading
+// path with `path`'s folder, as an IDE infers a header's flags from a neighbouring source. Return
+// null when the database has no entry to borrow from.
+const std::vector<std::string>* flags_for(const ParseContext& context, const std::string& path);
+
 // A libclang front end. One per thread: it owns a CXIndex. Not copyable.
 class Lexer {
 public:

@@ -213,4 +213,53 @@ ParseContext make_parse_context(const std::vector<SourceFile>& files,
     return context;
 }
 
+namespace {
+
+// Number of leading '/'-separated components `a` and `b` share.
+std::size_t shared_components(const std::string& a, const std::string& b) {
+    std::size_t shared = 0;
+    std::size_t i = 0;
+    while (i < a.size() && i < b.size()) {
+        const std::size_t next_a = a.find('/', i);
+        const std::size_t next_b = b.find('/', i);
+        const std::size_t end_a = next_a == std::string::npos ? a.size() : next_a;
+        const std::size_t end_b = next_b == std::string::npos ? b.size() : next_b;
+        if (end_a != end_b || a.compare(i, end_a - i, b, i, end_b - i) != 0) {
+            break;
+        }
+        ++shared;
+        i = end_a + 1;
+    }
+    return shared;
+}
+
+std::string folder_of(const std::string& path) {
+    const auto slash = path.rfind('/');
+    return slash == std::string::npos ? std::string() : path.substr(0, slash);
+}
+
+} // namespace
+
+const std::vector<std::string>* flags_for(const ParseContext& context, const std::string& path) {
+    if (const auto own = context.file_flags.find(path); own != context.file_flags.end()) {
+        return &own->second;
+    }
+    const auto language = language_for_path(path, context.force_language);
+    const std::string folder = folder_of(path);
+    const std::vector<std::string>* best = nullptr;
+    std::size_t best_shared = 0;
+    // The map is ordered, so ties go to the first path: the choice is deterministic.
+    for (const auto& [candidate, flags] : context.file_flags) {
+        if (language_for_path(candidate, context.force_language) != language) {
+            continue;
+        }
+        const std::size_t shared = shared_components(folder, folder_of(candidate));
+        if (best == nullptr || shared > best_shared) {
+            best = &flags;
+            best_shared = shared;
+        }
+    }
+    return best;
+}
+
 } // namespace tollgate::lexer

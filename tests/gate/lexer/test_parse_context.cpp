@@ -54,6 +54,31 @@ TEST_CASE("make_parse_context", "[lexer]") {
                                                      "-include", "/tollgate-src/include/top.h"};
         CHECK(context.file_flags.at("tools/main.c") == main_flags);
     }
+    SECTION("a file without an entry borrows the nearest entry of its language") {
+        // common practice, no source: editors infer a header's flags from a nearby source.
+        const std::string database = R"([
+          {"directory": "/r", "file": "lib/core/src/api.cpp", "command": "c++ -DCORE -c x"},
+          {"directory": "/r", "file": "tools/main.c", "command": "cc -DTOOL -c x"},
+          {"directory": "/r", "file": "lib/other/o.cpp", "command": "c++ -DOTHER -c x"}
+        ])";
+        const auto context = lexer::make_parse_context(files, database, "/r");
+        const auto* header = lexer::flags_for(context, "lib/core/include/core/api.hpp");
+        REQUIRE(header != nullptr);
+        CHECK(*header == std::vector<std::string>{"-DCORE"});
+        const auto* c_file = lexer::flags_for(context, "tools/other.c");
+        REQUIRE(c_file != nullptr);
+        CHECK(*c_file == std::vector<std::string>{"-DTOOL"});
+        CHECK(lexer::flags_for(lexer::make_parse_context(files), "x.hpp") == nullptr);
+    }
+    SECTION("a header parses with the flags it borrowed") {
+        const std::string database = R"json([{"directory": "/r", "file": "src/use.cpp",
+                                           "arguments": ["c++", "-DSCALE=3", "-c", "src/use.cpp"]}])json";
+        const auto context = lexer::make_parse_context({}, database, "/r");
+        const auto file = test::lex_snippet(
+            "src/scale.hpp", "inline int scaled(int a) { return a * SCALE; }\n", context);
+        REQUIRE(file.functions.size() == 1);
+        CHECK(file.warnings.empty());
+    }
     SECTION("a broken compile_commands.json is a usage error") {
         CHECK_THROWS_AS(lexer::make_parse_context(files, "{not json", "/r"), UsageError);
         CHECK_THROWS_AS(lexer::make_parse_context(files, "{}", "/r"), UsageError);
