@@ -13,6 +13,19 @@ namespace tollgate::calibrate {
 
 namespace {
 
+// Cut a commit subject for one terminal line (the JSON and HTML keep it whole).
+std::string short_subject(const std::string& subject) {
+    constexpr std::size_t k_limit = 60;
+    if (subject.size() <= k_limit) {
+        return subject;
+    }
+    std::size_t cut = k_limit - 3;
+    while (cut > 0 && (static_cast<unsigned char>(subject[cut]) & 0xC0) == 0x80) {
+        --cut; // never split a UTF-8 sequence
+    }
+    return subject.substr(0, cut) + "...";
+}
+
 using nlohmann::json;
 
 std::string number(double value) {
@@ -98,7 +111,7 @@ void write_calibration_text(std::ostream& out, const Calibration& c) {
             for (const auto& s : v.series->largest) {
                 const auto& commit = r.commits[s.commit].commit;
                 out << fmt::format("    {}{}  {} {}  {}\n", number(s.value), v.unit,
-                                   commit.id.short_hex(), commit.subject,
+                                   commit.id.short_hex(), short_subject(commit.subject),
                                    function_place(function_of(r, s)));
             }
         }
@@ -119,7 +132,7 @@ void write_calibration_text(std::ostream& out, const Calibration& c) {
             }
             out << fmt::format("  {} {:<8} {}  ({})\n", commit.id.short_hex(),
                                j.outcome == policy::Outcome::blocked ? "blocked" : "warned",
-                               commit.subject, rules);
+                               short_subject(commit.subject), rules);
         }
     }
 }
