@@ -2,6 +2,7 @@
 // A queue of commits, N workers, results put back in history order.
 #include "gate/calibrate/replay.hpp"
 
+#include "gate/common/workers.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/walker/repository.hpp"
 
@@ -79,17 +80,7 @@ Replay replay_history(const std::string& repository_path, const walker::History&
     const unsigned threads =
         std::min<unsigned>(lexer::effective_jobs(settings.threads),
                            static_cast<unsigned>(std::max<std::size_t>(1, todo.size())));
-    if (threads <= 1) {
-        work();
-    } else {
-        std::vector<std::thread> pool;
-        for (unsigned t = 0; t < threads; ++t) {
-            pool.emplace_back(work);
-        }
-        for (auto& thread : pool) {
-            thread.join();
-        }
-    }
+    run_workers(threads, work);
     if (first_error) {
         std::rethrow_exception(first_error);
     }

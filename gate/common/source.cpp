@@ -11,6 +11,13 @@ namespace tollgate {
 
 namespace {
 
+constexpr std::array<std::string_view, 7> k_header_extensions = {".h",   ".hh",  ".hpp", ".hxx",
+                                                                 ".inl", ".ipp", ".tpp"};
+constexpr std::array<std::string_view, 5> k_source_extensions = {".c", ".cc", ".cpp", ".cxx",
+                                                                 ".c++"};
+
+} // namespace
+
 std::string lower_extension(const std::string& path) {
     const auto slash = path.find_last_of('/');
     const auto dot = path.find_last_of('.');
@@ -22,13 +29,6 @@ std::string lower_extension(const std::string& path) {
                    [](unsigned char c) { return static_cast<char>(std::tolower(c)); });
     return ext;
 }
-
-constexpr std::array<std::string_view, 7> k_header_extensions = {".h",   ".hh",  ".hpp", ".hxx",
-                                                                 ".inl", ".ipp", ".tpp"};
-constexpr std::array<std::string_view, 5> k_source_extensions = {".c", ".cc", ".cpp", ".cxx",
-                                                                 ".c++"};
-
-} // namespace
 
 bool is_header_path(const std::string& path) {
     const std::string ext = lower_extension(path);

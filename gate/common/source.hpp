@@ -17,6 +17,10 @@ struct SourceFile {
     }
 };
 
+// Return the extension of `path`'s last component, lowercased and with its dot (".cpp"), or
+// empty when it has none.
+std::string lower_extension(const std::string& path);
+
 // Return true when `path` has an extension Tollgate measures as C or C++ (.c .cc .cpp .cxx .c++
 // .h .hh .hpp .hxx .inl .ipp .tpp, case-insensitive).
 bool is_c_family_path(const std::string& path);

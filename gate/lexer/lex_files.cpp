@@ -2,6 +2,8 @@
 // A small work queue over files: each worker thread owns one Lexer (one CXIndex).
 #include "gate/lexer/lex_files.hpp"
 
+#include "gate/common/workers.hpp"
+
 #include <algorithm>
 #include <atomic>
 #include <exception>
@@ -56,18 +58,7 @@ std::vector<FileFunctions> lex_jobs(const std::vector<LexJob>& files, unsigned j
         }
     };
 
-    if (threads <= 1) {
-        work();
-    } else {
-        std::vector<std::thread> pool;
-        pool.reserve(threads);
-        for (unsigned t = 0; t < threads; ++t) {
-            pool.emplace_back(work);
-        }
-        for (auto& thread : pool) {
-            thread.join();
-        }
-    }
+    run_workers(threads, work);
     if (first_error) {
         std::rethrow_exception(first_error);
     }

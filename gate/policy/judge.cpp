@@ -428,10 +428,8 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
             };
             return key(a) < key(b);
         });
-    const bool blocks =
-        std::any_of(verdict.findings.begin(), verdict.findings.end(), [](const Finding& x) {
-            return x.level == Level::blocking && !x.grandfathered;
-        });
+    const bool blocks = std::any_of(verdict.findings.begin(), verdict.findings.end(),
+                                    [](const Finding& x) { return x.blocks(); });
     verdict.outcome = blocks ? Outcome::blocked : Outcome::pass;
 
     if (out_of_scope > 0) {

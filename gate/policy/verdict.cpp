@@ -38,4 +38,12 @@ const char* outcome_name(Outcome outcome) {
     return "blocked";
 }
 
+std::size_t count_blocking(const Verdict& verdict) {
+    std::size_t blocking = 0;
+    for (const auto& finding : verdict.findings) {
+        blocking += finding.blocks() ? 1 : 0;
+    }
+    return blocking;
+}
+
 } // namespace tollgate::policy

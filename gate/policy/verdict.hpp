@@ -4,6 +4,7 @@
 
 #include "tollgate/core/measures.hpp"
 
+#include <cstddef>
 #include <optional>
 #include <string>
 #include <vector>
@@ -57,6 +58,9 @@ struct Finding {
                                 // exceeds +40% (rule \"effort-growth\")"
     bool grandfathered = false; // above a ceiling already in the baseline; reported, not blocking
 
+    // Return true when this finding blocks the change: a blocking rule, not grandfathered.
+    bool blocks() const { return level == Level::blocking && !grandfathered; }
+
     bool operator==(const Finding& other) const {
         return rule_id == other.rule_id && kind == other.kind && level == other.level &&
                measure == other.measure && function == other.function &&
@@ -81,5 +85,8 @@ struct Verdict {
     std::string policy_change_summary;       // one sentence saying the change edits its policy and
                                              // which side judges; empty when it does not
 };
+
+// Return how many of `verdict`'s findings block the change (see Finding::blocks).
+std::size_t count_blocking(const Verdict& verdict);
 
 } // namespace tollgate::policy

@@ -112,10 +112,7 @@ void write_table(std::ostream& out, const ChangeReport& report, const policy::Ve
 void write_change_markdown(std::ostream& out, const ChangeReport& report,
                            const policy::Verdict& verdict, const RenderOptions& options) {
     const auto& t = report.totals;
-    std::size_t blocking = 0;
-    for (const auto& f : verdict.findings) {
-        blocking += f.level == policy::Level::blocking && !f.grandfathered ? 1 : 0;
-    }
+    const std::size_t blocking = policy::count_blocking(verdict);
     const std::size_t warnings = verdict.findings.size() - blocking;
     const bool blocked = verdict.outcome == policy::Outcome::blocked;
     std::string summary = blocked ? fmt::format("**Tollgate: blocked** by {} finding{}", blocking,
@@ -152,7 +149,7 @@ void write_change_markdown(std::ostream& out, const ChangeReport& report,
         out << "\n";
     }
     for (const auto& f : verdict.findings) {
-        const bool blocks = f.level == policy::Level::blocking && !f.grandfathered;
+        const bool blocks = f.blocks();
         out << "- " << (blocks ? "**blocking**" : "warning") << ": " << cell_text(f.message)
             << "\n";
     }

@@ -53,8 +53,7 @@ std::string rules_broken_by(const policy::Verdict& verdict, const FunctionDelta&
             finding.start_line != side.start_line) {
             continue;
         }
-        std::string& list =
-            finding.level == policy::Level::blocking && !finding.grandfathered ? blocking : warning;
+        std::string& list = finding.blocks() ? blocking : warning;
         list += (list.empty() ? "" : ", ") + finding.rule_id;
     }
     if (blocking.empty() || warning.empty()) {
@@ -67,10 +66,7 @@ namespace {
 
 void write_verdict_text(std::ostream& out, const policy::Verdict& verdict,
                         const std::function<std::string(const char*, const std::string&)>& paint) {
-    std::size_t blocking = 0;
-    for (const auto& f : verdict.findings) {
-        blocking += f.level == policy::Level::blocking && !f.grandfathered ? 1 : 0;
-    }
+    const std::size_t blocking = policy::count_blocking(verdict);
     const std::size_t warnings = verdict.findings.size() - blocking;
     const bool blocked = verdict.outcome == policy::Outcome::blocked;
     std::string line = blocked ? fmt::format("verdict: BLOCKED by {} blocking finding{}", blocking,
@@ -83,7 +79,7 @@ void write_verdict_text(std::ostream& out, const policy::Verdict& verdict,
     line += " (policy: " + verdict.policy_origin + ")";
     out << paint(blocked ? k_red : k_green, line) << "\n";
     for (const auto& f : verdict.findings) {
-        const bool blocks = f.level == policy::Level::blocking && !f.grandfathered;
+        const bool blocks = f.blocks();
         out << "  " << paint(blocks ? k_red : k_yellow, blocks ? "blocking" : "warning ") << "  "
             << f.message << "\n";
     }
