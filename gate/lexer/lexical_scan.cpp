@@ -473,6 +473,46 @@ std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t op
     return tokens.size();
 }
 
+// The scan state at an open #if, restored by its #else / #elif, and how many definitions had
+// been found before it.
+struct SavedCondition {
+    ScanState state;
+    std::size_t found_before = 0;
+};
+
+// Apply the conditional directive `mark` to the scan: an #if saves the state, an #else / #elif
+// restores it, an #endif forgets it. `found_count` is the number of definitions found so far.
+void apply_directive(const DirectiveMark& mark, std::size_t found_count, ScanState& state,
+                     std::vector<SavedCondition>& saved) {
+    switch (mark.kind) {
+    case DirectiveKind::open_condition:
+        saved.push_back({state, found_count});
+        break;
+    case DirectiveKind::alternative:
+        if (!saved.empty()) {
+            state = saved.back().state;
+            // A branch that completed a definition ended a statement inside itself: the next
+            // branch's statement starts after the directive, not before the #if (else
+            // `#if A f(){} #else f(){} #endif` would measure both as one).
+            const bool outside_function =
+                state.stack.empty() || state.stack.back().kind == ScopeKind::container;
+            if (outside_function && found_count > saved.back().found_before) {
+                state.statement_start = std::max(state.statement_start, mark.before);
+                state.pending_body = k_npos;
+                state.paren_depth = 0;
+            }
+        }
+        break;
+    case DirectiveKind::close_condition:
+        if (!saved.empty()) {
+            saved.pop_back();
+        }
+        break;
+    case DirectiveKind::other:
+        break;
+    }
+}
+
 // Add `definition` to `found`, keeping definitions apart. An #else restores the brace count of
 // its #if, so one header can be seen to close twice (`f() { #if X } #else } #endif`), or an
 // unbalanced #else can reopen a body that closed: a definition that starts no later than the
@@ -492,41 +532,12 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                                                 const std::vector<DirectiveMark>& directives) {
     std::vector<LexicalDefinition> found;
     ScanState state;
-    // The state at each open #if, restored by #else / #elif, with the count of definitions
-    // found before it.
-    std::vector<std::pair<ScanState, std::size_t>> saved;
+    std::vector<SavedCondition> saved;
     std::size_t next_directive = 0;
     for (std::size_t i = 0; i < tokens.size(); ++i) {
-        while (next_directive < directives.size() && directives[next_directive].before <= i) {
-            switch (directives[next_directive].kind) {
-            case DirectiveKind::open_condition:
-                saved.emplace_back(state, found.size());
-                break;
-            case DirectiveKind::alternative:
-                if (!saved.empty()) {
-                    state = saved.back().first;
-                    // A branch that completed a definition ended a statement inside itself:
-                    // the next branch's statement starts after the directive, not before the #if
-                    // (else `#if A f(){} #else f(){} #endif` would measure both as one).
-                    const bool outside_function =
-                        state.stack.empty() || state.stack.back().kind == ScopeKind::container;
-                    if (outside_function && found.size() > saved.back().second) {
-                        state.statement_start =
-                            std::max(state.statement_start, directives[next_directive].before);
-                        state.pending_body = k_npos;
-                        state.paren_depth = 0;
-                    }
-                }
-                break;
-            case DirectiveKind::close_condition:
-                if (!saved.empty()) {
-                    saved.pop_back();
-                }
-                break;
-            case DirectiveKind::other:
-                break;
-            }
-            ++next_directive;
+        for (; next_directive < directives.size() && directives[next_directive].before <= i;
+             ++next_directive) {
+            apply_directive(directives[next_directive], found.size(), state, saved);
         }
         const SourceToken& token = tokens[i];
         const bool in_function =
