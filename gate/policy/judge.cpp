@@ -131,7 +131,8 @@ bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::Funct
     }
     for (const auto& floor : floors) {
         for (const auto* side : {&f.base, &f.head}) {
-            if (*side && core::measure_value((*side)->measures, floor.measure) >= floor.below) {
+            // Written so that a value that is not a number is judged rather than skipped.
+            if (*side && !(core::measure_value((*side)->measures, floor.measure) < floor.below)) {
                 return false;
             }
         }
@@ -221,8 +222,12 @@ Finding start_finding(const Rule& rule, const delta::FunctionDelta& f) {
 std::optional<Finding> judge_growth(const Rule& rule, const delta::FunctionDelta& f) {
     const core::Delta change = f.delta(rule.measure);
     const bool over_absolute = rule.max_increase && change.absolute > *rule.max_increase;
+    // A percent limit allows base * percent / 100 of growth; from a zero base that is nothing,
+    // so any growth breaks it, judged by its absolute value (the percentage is undefined).
+    const bool from_zero = !change.percent && change.base == 0.0;
     const bool over_percent =
-        rule.max_increase_percent && change.percent && *change.percent > *rule.max_increase_percent;
+        rule.max_increase_percent && (change.percent ? *change.percent > *rule.max_increase_percent
+                                                     : from_zero && change.absolute > 0.0);
     if (!over_absolute && !over_percent) {
         return std::nullopt;
     }
@@ -235,7 +240,7 @@ std::optional<Finding> judge_growth(const Rule& rule, const delta::FunctionDelta
         limits = "the limit " + format_amount(*rule.max_increase, Sign::always) + " by " +
                  amount_beside(finding.excess, 0, Sign::as_is);
     }
-    if (over_percent) {
+    if (over_percent && change.percent) {
         const double excess = *change.percent - *rule.max_increase_percent;
         if (!over_absolute) {
             finding.value = *change.percent;
@@ -246,11 +251,20 @@ std::optional<Finding> judge_growth(const Rule& rule, const delta::FunctionDelta
         limits += (limits.empty() ? "" : " and ") + std::string("the limit ") +
                   percent_text(*rule.max_increase_percent, Sign::always) + " by " +
                   points_text(excess);
+    } else if (over_percent) {
+        if (!over_absolute) {
+            finding.value = change.absolute;
+            finding.limit = 0;
+            finding.excess = change.absolute;
+        }
+        limits += (limits.empty() ? "" : " and ") + std::string("the limit ") +
+                  percent_text(*rule.max_increase_percent, Sign::always) +
+                  ", which allows no growth from a zero base";
     }
     const std::string percent =
         change.percent
             ? " (" + percent_text(*change.percent, Sign::always, rule.max_increase_percent) + ")"
-            : "";
+            : (from_zero ? std::string(" (from 0)") : std::string());
     finding.message =
         location_text(f) + ": " + std::string(core::measure_name(rule.measure)) + " " +
         (rule.max_increase ? amount_beside(change.absolute, *rule.max_increase, Sign::always)
@@ -290,7 +304,8 @@ std::optional<Finding> judge_ceiling(const Rule& rule, const delta::FunctionDelt
     if (grandfather == Grandfathering::on && options.baseline_lookup) {
         if (const auto recorded = options.baseline_lookup(f.identity)) {
             const double before = core::measure_value(*recorded, rule.measure);
-            if (before > *rule.ceiling && value <= before) {
+            // Only a finite recorded value can grandfather: an infinite one would cover anything.
+            if (std::isfinite(before) && before > *rule.ceiling && value <= before) {
                 finding.grandfathered = true;
                 extra = ", grandfathered: the baseline has " + format_amount(before, Sign::as_is);
             }
