@@ -3,9 +3,12 @@
 #include "gate/baseline/snapshot_file.hpp"
 
 #include "gate/common/errors.hpp"
+#include "tollgate/core/counts.hpp"
 
+#include <algorithm>
 #include <cerrno>
 #include <chrono>
+#include <cmath>
 #include <cstdlib>
 #include <cstring>
 #include <fcntl.h>
@@ -197,6 +200,7 @@ public:
                             "damaged");
         }
         check_expectations(snapshot);
+        check_measures_follow_counts(snapshot);
         return snapshot;
     }
 
@@ -297,6 +301,34 @@ private:
                                          "(rebuild it: {})",
                                          m_path, format_stroud(snapshot.stroud),
                                          format_stroud(*m_expectations.stroud), rebuild_command()));
+        }
+    }
+
+    // The digest can be recomputed by anyone, so it does not show a forged measure: refuse a
+    // snapshot whose stored measures are not the ones its own counts give. Counts are exact;
+    // derived measures may differ in the last bits between two builds of the math library.
+    void check_measures_follow_counts(const Snapshot& snapshot) const {
+        core::MeasureSettings settings;
+        settings.stroud = snapshot.stroud;
+        for (std::size_t i = 0; i < snapshot.functions.size(); ++i) {
+            const core::Measures& stored = snapshot.functions[i].measures;
+            const core::Measures expected = core::compute_measures(
+                core::counts_from_totals(stored.n1, stored.n2, stored.N1, stored.N2),
+                stored.potential_operands, settings);
+            for (const auto id : core::k_all_measures) {
+                const double have = core::measure_value(stored, id);
+                const double want = core::measure_value(expected, id);
+                const bool close =
+                    have == want ||
+                    std::fabs(have - want) <= 1e-9 * std::max(std::fabs(have), std::fabs(want));
+                if (!close) {
+                    throw corrupted(fmt::format(
+                        "/functions/{}/measures/{}: {} does not follow from the function's "
+                        "counts (n1 {} n2 {} N1 {} N2 {} give {})",
+                        i, core::measure_name(id), have, stored.n1, stored.n2, stored.N1, stored.N2,
+                        want));
+                }
+            }
         }
     }
 
