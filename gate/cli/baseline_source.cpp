@@ -4,8 +4,10 @@
 
 #include "gate/common/errors.hpp"
 
+#include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <set>
 #include <sstream>
 
 namespace tollgate {
@@ -74,6 +76,23 @@ std::optional<std::string> written_by_change(const std::string& given,
         return std::nullopt;
     }
     return relative.generic_string();
+}
+
+// Index the snapshot's measures by the identity the report uses (USR, else the fallback key);
+// identities recorded twice (macro-made functions) are left out rather than guessed.
+std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snapshot& snapshot) {
+    std::map<std::string, core::Measures> by_identity;
+    std::set<std::string> repeated;
+    for (const auto& f : snapshot.functions) {
+        const std::string& identity = f.usr.empty() ? f.fallback_key : f.usr;
+        if (!by_identity.emplace(identity, f.measures).second) {
+            repeated.insert(identity);
+        }
+    }
+    for (const auto& identity : repeated) {
+        by_identity.erase(identity);
+    }
+    return by_identity;
 }
 
 } // namespace
@@ -150,6 +169,37 @@ SnapshotUse decide_snapshot_use(const TrustedBaseline& trusted, const walker::Re
                   range.base.short_hex() + " --out " + trusted.rebuild_path + ")";
     use.notes.push_back(use.warning);
     return use;
+}
+
+CheckBaseline::CheckBaseline(const std::string& given, const policy::Policy& judging,
+                             const walker::Repository& repository,
+                             const walker::ResolvedRange& range,
+                             delta::MeasureChangeSettings& settings) {
+    baseline::SnapshotExpectations expectations;
+    expectations.convention = core::fingerprint(settings.convention);
+    expectations.stroud = settings.measures.stroud;
+    m_trusted = load_trusted_baseline(given, judging, repository, range, expectations);
+    if (m_trusted.snapshot) {
+        settings.base_snapshot = &*m_trusted.snapshot;
+        settings.snapshot_check = &m_check;
+    }
+}
+
+void CheckBaseline::apply(const walker::ResolvedRange& range, delta::ChangeReport& report,
+                          policy::JudgeOptions& options) {
+    const SnapshotUse use = decide_snapshot_use(m_trusted, range, m_check);
+    report.notes.insert(report.notes.end(), use.notes.begin(), use.notes.end());
+    if (!use.warning.empty()) {
+        std::fprintf(stderr, "tollgate: warning: %s\n", use.warning.c_str());
+    }
+    if (!use.grandfathers) {
+        return;
+    }
+    m_recorded = baseline_by_identity(*m_trusted.snapshot);
+    options.baseline_lookup = [this](const std::string& identity) -> std::optional<core::Measures> {
+        const auto it = m_recorded.find(identity);
+        return it == m_recorded.end() ? std::nullopt : std::optional(it->second);
+    };
 }
 
 } // namespace tollgate

@@ -5,11 +5,14 @@
 
 #include "gate/baseline/snapshot.hpp"
 #include "gate/baseline/snapshot_file.hpp"
+#include "gate/delta/measure_change.hpp"
 #include "gate/delta/snapshot_check.hpp"
+#include "gate/policy/judge.hpp"
 #include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
 #include "gate/walker/revision_range.hpp"
 
+#include <map>
 #include <optional>
 #include <string>
 #include <vector>
@@ -49,5 +52,30 @@ struct SnapshotUse {
 // the warning name the first function, both values and the command that rebuilds it.
 SnapshotUse decide_snapshot_use(const TrustedBaseline& trusted, const walker::ResolvedRange& range,
                                 const delta::SnapshotCheck& check);
+
+// The baseline side of one check: read before anything is measured or written (so a snapshot
+// the run writes with --update-baseline is never read back in it), used once the base is parsed.
+class CheckBaseline {
+public:
+    // Load the snapshot the check may trust (see load_trusted_baseline, with the convention and
+    // Stroud number of `settings`) and, when there is one, have `settings` compare it with the
+    // parsed base. `settings` then points into this object: keep it alive while measuring.
+    CheckBaseline(const std::string& given, const policy::Policy& judging,
+                  const walker::Repository& repository, const walker::ResolvedRange& range,
+                  delta::MeasureChangeSettings& settings);
+    CheckBaseline(const CheckBaseline&) = delete;
+    CheckBaseline& operator=(const CheckBaseline&) = delete;
+
+    // Add the notes of the snapshot's use to `report`, print a disagreement on stderr as a
+    // warning, and give `options` the snapshot's measures for grandfathering when it may
+    // grandfather (see decide_snapshot_use). `options` then points into this object.
+    void apply(const walker::ResolvedRange& range, delta::ChangeReport& report,
+               policy::JudgeOptions& options);
+
+private:
+    TrustedBaseline m_trusted;
+    delta::SnapshotCheck m_check;
+    std::map<std::string, core::Measures> m_recorded; // by identity, for grandfathering
+};
 
 } // namespace tollgate

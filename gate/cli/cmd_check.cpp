@@ -19,10 +19,8 @@
 
 #include <cstdio>
 #include <filesystem>
-#include <map>
 #include <memory>
 #include <optional>
-#include <set>
 #include <spdlog/spdlog.h>
 #include <sstream>
 
@@ -46,23 +44,6 @@ struct CheckOptions {
     double stroud = 18.0;             // --stroud
     std::size_t rename_limit = 400;   // --rename-limit
 };
-
-// Index the snapshot's measures by the identity the report uses (USR, else the fallback key);
-// identities recorded twice (macro-made functions) are left out rather than guessed.
-std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snapshot& snapshot) {
-    std::map<std::string, core::Measures> by_identity;
-    std::set<std::string> repeated;
-    for (const auto& f : snapshot.functions) {
-        const std::string& identity = f.usr.empty() ? f.fallback_key : f.usr;
-        if (!by_identity.emplace(identity, f.measures).second) {
-            repeated.insert(identity);
-        }
-    }
-    for (const auto& identity : repeated) {
-        by_identity.erase(identity);
-    }
-    return by_identity;
-}
 
 // After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
 // policy's baseline.path in the working tree (the pipeline on the main branch keeps it from
@@ -121,35 +102,10 @@ int run_check(const CheckOptions& options) {
     judge_options.today = policy::current_date();
     judge_options.policy_origin = selected.origin;
 
-    // Everything the base side may trust is read before anything is measured or written, so a
-    // snapshot this run writes (--update-baseline, after the verdict) is never read back in it.
-    baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(settings.convention);
-    expectations.stroud = settings.measures.stroud;
-    const TrustedBaseline trusted = load_trusted_baseline(options.baseline_path, selected.policy,
-                                                          repository, range, expectations);
-    delta::SnapshotCheck snapshot_check;
-    if (trusted.snapshot) {
-        settings.base_snapshot = &*trusted.snapshot;
-        settings.snapshot_check = &snapshot_check;
-    }
-
+    CheckBaseline baseline(options.baseline_path, selected.policy, repository, range, settings);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
     delta::ChangeReport report = delta::measure_change(repository, changes, settings);
-    const SnapshotUse use = decide_snapshot_use(trusted, range, snapshot_check);
-    report.notes.insert(report.notes.end(), use.notes.begin(), use.notes.end());
-    if (!use.warning.empty()) {
-        std::fprintf(stderr, "tollgate: warning: %s\n", use.warning.c_str());
-    }
-    std::map<std::string, core::Measures> recorded;
-    if (use.grandfathers) {
-        recorded = baseline_by_identity(*trusted.snapshot);
-        judge_options.baseline_lookup =
-            [&recorded](const std::string& identity) -> std::optional<core::Measures> {
-            const auto it = recorded.find(identity);
-            return it == recorded.end() ? std::nullopt : std::optional(it->second);
-        };
-    }
+    baseline.apply(range, report, judge_options);
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
     verdict.policy_change_summary = selected.change_summary;

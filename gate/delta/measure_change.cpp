@@ -76,6 +76,22 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
     return lexed;
 }
 
+// Compare `parsed`, the touched functions measured from `sides`, with the same change measured
+// with `snapshot`'s base functions in place of the parsed ones.
+SnapshotCheck compare_with_snapshot(const std::vector<FileSides>& sides,
+                                    const walker::ChangeSet& changes,
+                                    const baseline::Snapshot& snapshot,
+                                    const std::vector<FunctionDelta>& parsed,
+                                    const core::MeasureSettings& measures) {
+    std::vector<FileSides> recorded = sides;
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const std::string& path = changes.files[i].base_path;
+        recorded[i].base =
+            path.empty() ? std::vector<SideFunction>{} : side_functions(snapshot, path);
+    }
+    return check_base_snapshot(parsed, compare_functions(recorded, measures));
+}
+
 } // namespace
 
 ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
@@ -140,16 +156,8 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
     report.functions = compare_functions(sides, settings.measures);
     if (settings.base_snapshot != nullptr && settings.snapshot_check != nullptr &&
         settings.base_snapshot->commit == changes.range.base.hex) {
-        // The same change with the snapshot's base functions in place of the parsed ones.
-        std::vector<FileSides> recorded_sides = sides;
-        for (std::size_t i = 0; i < changes.files.size(); ++i) {
-            recorded_sides[i].base =
-                changes.files[i].base_path.empty()
-                    ? std::vector<SideFunction>{}
-                    : side_functions(*settings.base_snapshot, changes.files[i].base_path);
-        }
-        *settings.snapshot_check = check_base_snapshot(
-            report.functions, compare_functions(recorded_sides, settings.measures));
+        *settings.snapshot_check = compare_with_snapshot(sides, changes, *settings.base_snapshot,
+                                                         report.functions, settings.measures);
     }
     compute_totals(report);
     return report;
