@@ -31,7 +31,7 @@ measure() { # $1 label, rest: command
     start=$(date +%s.%N)
     /usr/bin/time -f "%M" -o "$work/mem" "$@" >/dev/null
     end=$(date +%s.%N)
-    python3 -c "print(f'{\"$label\":<44} {($end - $start):7.3f} s   peak {int(open(\"$work/mem\").read().split()[-1])/1024:6.1f} MiB')"
+    python3 -c "print(f'{\"$label\":<52} {($end - $start):7.3f} s   peak {int(open(\"$work/mem\").read().split()[-1])/1024:6.1f} MiB')"
     python3 -c "print($end - $start)" >"$work/last"
 }
 measure "check, cold PCH cache, all cores" "$tollgate" check --base HEAD~1 --cache-dir "$cache"
@@ -53,7 +53,7 @@ other=$(cat "$work/last")
 if [ -n "${TOLLGATE_UNCHECKED:-}" ]; then
     measure "older tollgate, base from the snapshot unchecked" "$TOLLGATE_UNCHECKED" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/base-snapshot.json"
 fi
-printf '%-44s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
+printf '%-52s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
 python3 -c "print(f'ratio check (warm, all cores) / floor: {$warm / $floor:.3f}  (goal <= 0.25)')"
 python3 -c "print(f'ratio check with a checked snapshot of the base / without a snapshot: {$checked / $warm:.3f}')"
 python3 -c "print(f'ratio check with a checked snapshot of the base / with one of another commit: {$checked / $other:.3f}')"

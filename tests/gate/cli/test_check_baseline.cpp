@@ -275,6 +275,16 @@ TEST_CASE("check grandfathers a function already above a ceiling in a trusted ba
         CHECK(result.exit_code == 1);
         CHECK(result.out.find("grandfathered") == std::string::npos);
     }
+    SECTION("a bare repository reads it from the base commit too") {
+        TempDir dir, bare;
+        const auto h = history_with_committed_baseline(dir, true, k_hard_same);
+        git("clone -q --bare " + dir.path() + " " + bare.path() + "/repo.git", dir.path());
+        const auto result =
+            run_tollgate("check --no-pch-cache --no-color --base " + h.base + " --head " + h.head,
+                         bare.path() + "/repo.git");
+        CHECK(result.exit_code == 0);
+        CHECK(result.out.find("grandfathered: the baseline has") != std::string::npos);
+    }
     SECTION("a snapshot the change adds grandfathers nothing") {
         TempDir dir;
         init_repo(dir.path());
