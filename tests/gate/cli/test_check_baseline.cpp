@@ -336,3 +336,24 @@ TEST_CASE("check --update-baseline writes the head's snapshot only after a passi
         CHECK(result.err.find("the baseline was not updated") != std::string::npos);
     }
 }
+
+TEST_CASE("check refuses a baseline.path that leaves the repository", "[check][baseline]") {
+    TempDir dir;
+    const std::string policy = "tollgate-policy: 1\nrules: []\nbaseline:\n  path: ";
+    SECTION("by ..") {
+        const auto h = two_commits(dir, policy + "../elsewhere.json\n", k_hard_base, k_hard_same);
+        const auto result = run_tollgate("check --no-pch-cache" + range_of(h), dir.path());
+        CHECK(result.exit_code == 2);
+        CHECK(result.err ==
+              "tollgate: error: baseline.path \"../elsewhere.json\" leaves the repository by "
+              "\"..\" (give a path relative to the repository root, such as "
+              "\"baselines/snapshot.json\", or name a snapshot elsewhere with --baseline)\n");
+    }
+    SECTION("as an absolute path") {
+        const auto h = two_commits(dir, policy + "/tmp/snapshot.json\n", k_hard_base, k_hard_same);
+        const auto result = run_tollgate("check --no-pch-cache" + range_of(h), dir.path());
+        CHECK(result.exit_code == 2);
+        CHECK(result.err.find("baseline.path \"/tmp/snapshot.json\" is an absolute path; it is "
+                              "read from the base commit") != std::string::npos);
+    }
+}
