@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // `tollgate check`: the gate. Measure the functions a change touched, before and after.
 #include "gate/baseline/snapshot_file.hpp"
+#include "gate/cli/baseline_source.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/policy_source.hpp"
@@ -18,11 +19,8 @@
 
 #include <cstdio>
 #include <filesystem>
-#include <fstream>
-#include <map>
 #include <memory>
 #include <optional>
-#include <set>
 #include <spdlog/spdlog.h>
 #include <sstream>
 
@@ -47,58 +45,9 @@ struct CheckOptions {
     std::size_t rename_limit = 400;   // --rename-limit
 };
 
-// The baseline snapshot a check uses, if any.
-struct LoadedBaseline {
-    std::optional<baseline::Snapshot> snapshot; // empty when none is given or configured
-    std::string path;                           // where it is (or would be)
-    std::string note;                           // a sentence for the report, or empty
-};
-
-// Load the snapshot named by --baseline, else by the policy's baseline.path (confined to the
-// repository). A configured snapshot that does not exist yet is a note; a given one is an error.
-LoadedBaseline load_baseline(const CheckOptions& options, const policy::Policy& judging,
-                             const walker::Repository& repository,
-                             const delta::MeasureChangeSettings& settings) {
-    LoadedBaseline loaded;
-    bool configured = false;
-    if (!options.baseline_path.empty()) {
-        loaded.path = options.baseline_path;
-    } else if (!judging.baseline.path.empty() && !repository.is_bare()) {
-        loaded.path = baseline::confine_to_repository(judging.baseline.path, repository.workdir());
-        configured = true;
-    } else {
-        return loaded;
-    }
-    if (configured && !std::filesystem::exists(loaded.path)) {
-        loaded.note = "no baseline snapshot at " + judging.baseline.path +
-                      " yet (\"tollgate snapshot\" on the main branch writes it)";
-        return loaded;
-    }
-    baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(settings.convention);
-    expectations.stroud = settings.measures.stroud;
-    loaded.snapshot = baseline::load_snapshot(loaded.path, expectations);
-    return loaded;
-}
-
-// Index the snapshot's measures by the identity the report uses (USR, else the fallback key);
-// identities recorded twice (macro-made functions) are left out rather than guessed.
-std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snapshot& snapshot) {
-    std::map<std::string, core::Measures> by_identity;
-    std::set<std::string> repeated;
-    for (const auto& f : snapshot.functions) {
-        const std::string& identity = f.usr.empty() ? f.fallback_key : f.usr;
-        if (!by_identity.emplace(identity, f.measures).second) {
-            repeated.insert(identity);
-        }
-    }
-    for (const auto& identity : repeated) {
-        by_identity.erase(identity);
-    }
-    return by_identity;
-}
-
-// After a passing run, write the head's snapshot where the baseline lives.
+// After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
+// policy's baseline.path in the working tree (the pipeline on the main branch keeps it from
+// there). A check reads the policy's path from the base commit, never from the working tree.
 void update_baseline(const CheckOptions& options, const policy::Verdict& verdict,
                      const walker::ResolvedRange& range, const policy::Policy& judging,
                      const walker::Repository& repository) {
@@ -153,25 +102,10 @@ int run_check(const CheckOptions& options) {
     judge_options.today = policy::current_date();
     judge_options.policy_origin = selected.origin;
 
-    const LoadedBaseline loaded_baseline =
-        load_baseline(options, selected.policy, repository, settings);
-    std::map<std::string, core::Measures> recorded;
-    if (loaded_baseline.snapshot) {
-        settings.base_snapshot = &*loaded_baseline.snapshot;
-        settings.base_snapshot_path = loaded_baseline.path;
-        recorded = baseline_by_identity(*loaded_baseline.snapshot);
-        judge_options.baseline_lookup =
-            [&recorded](const std::string& identity) -> std::optional<core::Measures> {
-            const auto it = recorded.find(identity);
-            return it == recorded.end() ? std::nullopt : std::optional(it->second);
-        };
-    }
-
+    CheckBaseline baseline(options.baseline_path, selected.policy, repository, range, settings);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
     delta::ChangeReport report = delta::measure_change(repository, changes, settings);
-    if (!loaded_baseline.note.empty()) {
-        report.notes.push_back(loaded_baseline.note);
-    }
+    baseline.apply(range, report, judge_options);
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
     verdict.policy_change_summary = selected.change_summary;
@@ -208,9 +142,10 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "Policy file that judges the change (default: .tollgate.yaml of the base "
                    "commit, else the built-in policy; see \"tollgate policy --default\")");
     sub.add_option("--baseline", options->baseline_path,
-                   "Baseline snapshot (default: the policy's baseline.path); when it is of the "
-                   "base commit its measures replace parsing the base, and functions already "
-                   "above a ceiling in it are grandfathered");
+                   "Baseline snapshot kept by the pipeline (default: the policy's baseline.path "
+                   "as the base commit has it); functions already above a ceiling in it are "
+                   "grandfathered, and one of the base commit is checked against the parsed "
+                   "base");
     sub.add_flag("--update-baseline", options->update_baseline,
                  "After a passing run, write the head commit's snapshot to the baseline path");
     sub.add_option("--report", options->reports,

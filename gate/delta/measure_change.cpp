@@ -3,6 +3,7 @@
 #include "gate/delta/measure_change.hpp"
 
 #include "gate/delta/compare.hpp"
+#include "gate/delta/snapshot_check.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 
@@ -75,6 +76,22 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
     return lexed;
 }
 
+// Compare `parsed`, the touched functions measured from `sides`, with the same change measured
+// with `snapshot`'s base functions in place of the parsed ones.
+SnapshotCheck compare_with_snapshot(const std::vector<FileSides>& sides,
+                                    const walker::ChangeSet& changes,
+                                    const baseline::Snapshot& snapshot,
+                                    const std::vector<FunctionDelta>& parsed,
+                                    const core::MeasureSettings& measures) {
+    std::vector<FileSides> recorded = sides;
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const std::string& path = changes.files[i].base_path;
+        recorded[i].base =
+            path.empty() ? std::vector<SideFunction>{} : side_functions(snapshot, path);
+    }
+    return check_base_snapshot(parsed, compare_functions(recorded, measures));
+}
+
 } // namespace
 
 ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
@@ -100,23 +117,15 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         return report;
     }
 
-    const bool base_from_snapshot = settings.base_snapshot != nullptr &&
-                                    settings.base_snapshot->commit == changes.range.base.hex;
-    if (base_from_snapshot) {
-        report.notes.push_back("base-side measures come from the baseline snapshot " +
-                               settings.base_snapshot_path + " of " +
-                               changes.range.base.short_hex() + " (the base was not re-parsed)");
-    }
-    const SideSources base = base_from_snapshot
-                                 ? SideSources{}
-                                 : read_side_sources(repository, changes, Side::base, settings);
+    // The base is always parsed: a snapshot of it is only compared (see check_base_snapshot).
+    const SideSources base = read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
 
     // One job per file and side; both sides go through one pool.
     std::vector<lexer::LexJob> jobs;
     std::vector<std::pair<std::size_t, Side>> job_owner;
     for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        if (!base_from_snapshot && base.changed[i]) {
+        if (base.changed[i]) {
             jobs.push_back({&*base.changed[i], &base.context});
             job_owner.emplace_back(i, Side::base);
         }
@@ -135,9 +144,6 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         sides[i].head_path = file.head_path;
         sides[i].base_lines = &file.base_lines;
         sides[i].head_lines = &file.head_lines;
-        if (base_from_snapshot && !file.base_path.empty()) {
-            sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
-        }
     }
     for (std::size_t j = 0; j < lexed.size(); ++j) {
         const auto [index, side] = job_owner[j];
@@ -148,6 +154,11 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         }
     }
     report.functions = compare_functions(sides, settings.measures);
+    if (settings.base_snapshot != nullptr && settings.snapshot_check != nullptr &&
+        settings.base_snapshot->commit == changes.range.base.hex) {
+        *settings.snapshot_check = compare_with_snapshot(sides, changes, *settings.base_snapshot,
+                                                         report.functions, settings.measures);
+    }
     compute_totals(report);
     return report;
 }
