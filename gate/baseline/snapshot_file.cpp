@@ -3,7 +3,9 @@
 #include "gate/baseline/snapshot_file.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 
+#include <algorithm>
 #include <cerrno>
 #include <chrono>
 #include <cstdlib>
@@ -38,10 +40,20 @@ const char* extent_name(lexer::ExtentMode mode) {
 }
 
 // Serialize as written to disk; invalid UTF-8 in source text becomes U+FFFD so dumping never
-// throws and a re-read dumps to the same bytes.
+// throws and a re-read dumps to the same bytes (the exact bytes are kept under "exact").
 std::string dump(const Json& value, int indent) {
-    return value.dump(indent, ' ', false, Json::error_handler_t::replace);
+    return text::dump_json(value, indent);
 }
+
+// The text keys of a function whose exact bytes are kept under "exact" when they are not valid
+// UTF-8 (JSON strings cannot hold them), with the field each one fills.
+constexpr std::pair<const char*, std::string SnapshotFunction::*> k_text_keys[] = {
+    {"file", &SnapshotFunction::path},
+    {"usr", &SnapshotFunction::usr},
+    {"fallback_key", &SnapshotFunction::fallback_key},
+    {"function", &SnapshotFunction::qualified_name},
+    {"signature", &SnapshotFunction::signature},
+};
 
 // Digest everything but the time and the digest itself, as dumped compactly: equal content
 // gives an equal digest, and any edit or damage elsewhere shows.
@@ -75,6 +87,15 @@ Json function_json(const SnapshotFunction& f) {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
     object["potential_operands"] = f.measures.potential_operands;
     object["measures"] = std::move(measures);
+    Json exact = Json::object();
+    for (const auto& [key, field] : k_text_keys) {
+        if (!text::is_valid_utf8(f.*field)) {
+            exact[key] = text::store_bytes(f.*field);
+        }
+    }
+    if (!exact.empty()) {
+        object["exact"] = std::move(exact);
+    }
     return object;
 }
 
@@ -340,7 +361,40 @@ private:
             const double value = number_at(measures, name.c_str(), measures_pointer);
             set_measure(f.measures, id, value);
         }
+        read_exact(object, pointer, f);
         return f;
+    }
+
+    // Take the exact bytes of text keys that are not valid UTF-8 from "exact", checking that
+    // each shows as the key's own text does.
+    void read_exact(const Json& object, const std::string& pointer, SnapshotFunction& f) const {
+        const auto it = object.find("exact");
+        if (it == object.end()) {
+            return;
+        }
+        const std::string exact_pointer = pointer + "/exact";
+        if (!it->is_object()) {
+            throw corrupted(ill_typed(exact_pointer, "an object", *it));
+        }
+        for (const auto& [key, value] : it->items()) {
+            const auto known =
+                std::find_if(std::begin(k_text_keys), std::end(k_text_keys),
+                             [&key = key](const auto& entry) { return key == entry.first; });
+            if (known == std::end(k_text_keys)) {
+                throw corrupted(exact_pointer + ": unknown key \"" + key + "\"");
+            }
+            const std::string stored = string_at(*it, key.c_str(), exact_pointer);
+            const auto bytes = text::unstore_bytes(stored);
+            if (!bytes) {
+                throw corrupted(exact_pointer + "/" + key + ": not a stored byte string");
+            }
+            std::string& field = f.*(known->second);
+            if (text::to_valid_utf8(*bytes) != field) {
+                throw corrupted(exact_pointer + "/" + key + ": does not match " + pointer + "/" +
+                                key);
+            }
+            field = *bytes;
+        }
     }
 
     static void set_measure(core::Measures& m, core::MeasureId id, double value) {

@@ -4,6 +4,7 @@
 
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 
 #include <CLI/CLI.hpp>
 #include <algorithm>
@@ -42,7 +43,8 @@ int run_cli(int argc, char** argv) {
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
     } catch (const CLI::ParseError& e) {
-        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n", e.what());
+        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n",
+                     text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::usage);
     }
 
@@ -54,21 +56,23 @@ int run_cli(int argc, char** argv) {
     try {
         return selected ? selected() : static_cast<int>(ExitCode::usage);
     } catch (const UsageError& e) {
-        // A broken policy carries one message per line; each gets the prefix.
-        const std::string text = e.what();
-        for (std::size_t start = 0; start <= text.size();) {
-            const std::size_t end = std::min(text.find('\n', start), text.size());
-            std::fprintf(stderr, "tollgate: error: %s\n", text.substr(start, end - start).c_str());
+        // A broken policy carries one message per line; each gets the prefix. Messages quote
+        // paths, names and revisions: every line is made visible.
+        const std::string message = e.what();
+        for (std::size_t start = 0; start <= message.size();) {
+            const std::size_t end = std::min(message.find('\n', start), message.size());
+            std::fprintf(stderr, "tollgate: error: %s\n",
+                         text::terminal_text(message.substr(start, end - start)).c_str());
             start = end + 1;
         }
         return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
-        std::fprintf(stderr, "tollgate: error: %s%s\n", e.what(),
+        std::fprintf(stderr, "tollgate: error: %s%s\n", text::terminal_text(e.what()).c_str(),
                      global.verbose ? "" : " (run with --verbose for details)");
         return static_cast<int>(ExitCode::failure);
     } catch (const std::exception& e) {
         std::fprintf(stderr, "tollgate: internal error: %s (run with --verbose and report it)\n",
-                     e.what());
+                     text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::failure);
     }
 }

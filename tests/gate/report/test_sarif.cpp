@@ -4,6 +4,7 @@
 #include "../policy/policy_test_support.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/report/sarif.hpp"
+#include "hostile_report.hpp"
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -119,6 +120,24 @@ TEST_CASE("write_sarif output validates against the OASIS SARIF 2.1.0 schema", "
     };
     SECTION("a log with findings") {
         validate("findings.sarif", judged_change());
+    }
+    SECTION("a log of hostile text: invalid UTF-8, escape sequences, markup") {
+        const auto hostile = hostile_change();
+        Judged j{hostile.report, hostile.policy, hostile.verdict};
+        REQUIRE(j.verdict.findings.size() > 3);
+        validate("hostile.sarif", j);
+        std::ostringstream out;
+        report::write_sarif(out, j.report, j.verdict, j.policy);
+        const auto log = nlohmann::json::parse(out.str());
+        // Locations stay exact: the URI keeps every byte, percent-encoded.
+        bool latin1 = false;
+        for (const auto& result : log["runs"][0]["results"]) {
+            for (const auto& location : result["locations"]) {
+                latin1 = latin1 ||
+                         location["physicalLocation"]["artifactLocation"]["uri"] == "src/caf%E9.c";
+            }
+        }
+        CHECK(latin1);
     }
     SECTION("a log without findings") {
         Judged j;
