@@ -5,6 +5,7 @@
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/policy/policy.hpp"
 
 #include <CLI/CLI.hpp>
 #include <algorithm>
@@ -55,16 +56,16 @@ int run_cli(int argc, char** argv) {
 
     try {
         return selected ? selected() : static_cast<int>(ExitCode::usage);
-    } catch (const UsageError& e) {
-        // A broken policy carries one message per line; each gets the prefix. Messages quote
-        // paths, names and revisions: every line is made visible.
-        const std::string message = e.what();
-        for (std::size_t start = 0; start <= message.size();) {
-            const std::size_t end = std::min(message.find('\n', start), message.size());
-            std::fprintf(stderr, "tollgate: error: %s\n",
-                         text::terminal_text(message.substr(start, end - start)).c_str());
-            start = end + 1;
+    } catch (const policy::PolicyError& e) {
+        // A broken policy carries one message per fault; each gets its line and the prefix.
+        for (const auto& message : e.messages()) {
+            std::fprintf(stderr, "tollgate: error: %s\n", text::terminal_text(message).c_str());
         }
+        return static_cast<int>(ExitCode::usage);
+    } catch (const UsageError& e) {
+        // Messages quote paths, names and revisions: a line break or escape sequence among them
+        // is shown, never obeyed, so every message stays one line.
+        std::fprintf(stderr, "tollgate: error: %s\n", text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
         std::fprintf(stderr, "tollgate: error: %s%s\n", text::terminal_text(e.what()).c_str(),
