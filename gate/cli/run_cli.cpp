@@ -11,11 +11,33 @@
 #include <algorithm>
 #include <cstdio>
 #include <exception>
+#include <memory>
+#include <spdlog/formatter.h>
 #include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 #include <string>
 
 namespace tollgate {
+
+namespace {
+
+// Log lines as "tollgate: LEVEL: MESSAGE", the message made visible: logs quote paths and names.
+class VisibleFormatter : public spdlog::formatter {
+public:
+    void format(const spdlog::details::log_msg& message, spdlog::memory_buf_t& out) override {
+        const auto level = spdlog::level::to_string_view(message.level);
+        const std::string line =
+            "tollgate: " + std::string(level.data(), level.size()) + ": " +
+            text::terminal_text(std::string_view(message.payload.data(), message.payload.size())) +
+            "\n";
+        out.append(line.data(), line.data() + line.size());
+    }
+    std::unique_ptr<spdlog::formatter> clone() const override {
+        return std::make_unique<VisibleFormatter>();
+    }
+};
+
+} // namespace
 
 int run_cli(int argc, char** argv) {
     CLI::App app{"tollgate: gate C/C++ changes on the Halstead measures of the functions they "
@@ -50,7 +72,7 @@ int run_cli(int argc, char** argv) {
     }
 
     auto logger = spdlog::stderr_color_st("tollgate");
-    logger->set_pattern("tollgate: %l: %v");
+    logger->set_formatter(std::make_unique<VisibleFormatter>());
     logger->set_level(global.verbose ? spdlog::level::debug : spdlog::level::warn);
     spdlog::set_default_logger(logger);
 
