@@ -68,6 +68,17 @@ std::string content_digest(Json document) {
     return fmt::format("{}{:016x}", k_digest_prefix, hash);
 }
 
+// The exact bytes of `f`'s text keys that are not valid UTF-8, by key; empty when all are.
+Json exact_json(const SnapshotFunction& f) {
+    Json exact = Json::object();
+    for (const auto& [key, field] : k_text_keys) {
+        if (!text::is_valid_utf8(f.*field)) {
+            exact[key] = text::store_bytes(f.*field);
+        }
+    }
+    return exact;
+}
+
 Json function_json(const SnapshotFunction& f) {
     Json measures = Json::object();
     for (const auto id : core::k_all_measures) {
@@ -87,13 +98,7 @@ Json function_json(const SnapshotFunction& f) {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
     object["potential_operands"] = f.measures.potential_operands;
     object["measures"] = std::move(measures);
-    Json exact = Json::object();
-    for (const auto& [key, field] : k_text_keys) {
-        if (!text::is_valid_utf8(f.*field)) {
-            exact[key] = text::store_bytes(f.*field);
-        }
-    }
-    if (!exact.empty()) {
+    if (Json exact = exact_json(f); !exact.empty()) {
         object["exact"] = std::move(exact);
     }
     return object;

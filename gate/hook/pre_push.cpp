@@ -98,6 +98,17 @@ RefPlan plan_new_history(RefPlan plan, const std::string& remote) {
     return plan;
 }
 
+// The ids reach git's command line: only full hexadecimal object ids pass.
+void check_object_ids(const PushedRef& ref, int number) {
+    for (const std::string* sha : {&ref.local_sha, &ref.remote_sha}) {
+        if (!is_object_id(*sha)) {
+            throw UsageError("pre-push input line " + std::to_string(number) +
+                             ": expected a full hexadecimal object id, got \"" + *sha +
+                             "\" (is the hook called by git?)");
+        }
+    }
+}
+
 } // namespace
 
 bool is_null_sha(const std::string& sha) {
@@ -121,14 +132,7 @@ std::vector<PushedRef> parse_pushed_refs(const std::string& text) {
                              "LOCAL-REF LOCAL-SHA REMOTE-REF REMOTE-SHA\", got \"" + trim(line) +
                              "\" (is the hook called by git?)");
         }
-        // The ids reach git's command line: only full hexadecimal object ids pass.
-        for (const std::string* sha : {&ref.local_sha, &ref.remote_sha}) {
-            if (!is_object_id(*sha)) {
-                throw UsageError("pre-push input line " + std::to_string(number) +
-                                 ": expected a full hexadecimal object id, got \"" + *sha +
-                                 "\" (is the hook called by git?)");
-            }
-        }
+        check_object_ids(ref, number);
         refs.push_back(ref);
     }
     return refs;

@@ -218,6 +218,30 @@ std::string format_percent(const std::optional<double>& percent) {
     return fmt::format("{}{:.0f}%", rounded > 0 ? "+" : "", rounded);
 }
 
+namespace {
+
+// Return `link_template` with each placeholder of `fields` replaced by its value and the text
+// between them passed through text::url_text.
+std::string fill_template(const std::string& link_template,
+                          const std::vector<std::pair<std::string, std::string>>& fields) {
+    std::string link, literal;
+    for (std::size_t i = 0; i < link_template.size();) {
+        const auto field = std::find_if(fields.begin(), fields.end(), [&](const auto& entry) {
+            return link_template.compare(i, entry.first.size(), entry.first) == 0;
+        });
+        if (field == fields.end()) {
+            literal += link_template[i++];
+            continue;
+        }
+        link += text::url_text(literal) + field->second;
+        literal.clear();
+        i += field->first.size();
+    }
+    return link + text::url_text(literal);
+}
+
+} // namespace
+
 std::string make_link(const std::string& link_template, const std::string& commit,
                       const std::string& path, unsigned line) {
     if (link_template.empty()) {
@@ -225,27 +249,9 @@ std::string make_link(const std::string& link_template, const std::string& commi
     }
     // Data goes in percent-encoded (lossless, byte by byte); the template is the pipeline's own
     // and only loses what cannot stand in a URL.
-    const std::pair<std::string, std::string> fields[] = {
-        {"{commit}", text::percent_encode(commit)},
-        {"{path}", text::percent_encode(path, "/")},
-        {"{line}", std::to_string(line)}};
-    std::string link, literal;
-    for (std::size_t i = 0; i < link_template.size();) {
-        bool replaced = false;
-        for (const auto& [name, value] : fields) {
-            if (link_template.compare(i, name.size(), name) == 0) {
-                link += text::url_text(literal) + value;
-                literal.clear();
-                i += name.size();
-                replaced = true;
-                break;
-            }
-        }
-        if (!replaced) {
-            literal += link_template[i++];
-        }
-    }
-    return link + text::url_text(literal);
+    return fill_template(link_template, {{"{commit}", text::percent_encode(commit)},
+                                         {"{path}", text::percent_encode(path, "/")},
+                                         {"{line}", std::to_string(line)}});
 }
 
 } // namespace tollgate::report
