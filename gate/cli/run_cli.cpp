@@ -8,7 +8,6 @@
 #include "gate/policy/policy.hpp"
 
 #include <CLI/CLI.hpp>
-#include <algorithm>
 #include <cstdio>
 #include <exception>
 #include <memory>
