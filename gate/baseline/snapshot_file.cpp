@@ -4,6 +4,7 @@
 
 #include "gate/baseline/snapshot_text.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 
 #include <cerrno>
 #include <chrono>
@@ -19,11 +20,22 @@ namespace fs = std::filesystem;
 
 namespace tollgate::baseline {
 
-using namespace text;
+using namespace snapshot_text;
 
 namespace {
 
 constexpr const char* k_temp_marker = ".tollgate-tmp-";
+
+// The exact bytes of `f`'s text keys that are not valid UTF-8, by key; empty when all are.
+Json exact_json(const SnapshotFunction& f) {
+    Json exact = Json::object();
+    for (const auto& [key, field] : k_text_keys) {
+        if (!::tollgate::text::is_valid_utf8(f.*field)) {
+            exact[key] = ::tollgate::text::store_bytes(f.*field);
+        }
+    }
+    return exact;
+}
 
 Json function_json(const SnapshotFunction& f) {
     Json measures = Json::object();
@@ -44,6 +56,9 @@ Json function_json(const SnapshotFunction& f) {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
     object["potential_operands"] = f.measures.potential_operands;
     object["measures"] = std::move(measures);
+    if (Json exact = exact_json(f); !exact.empty()) {
+        object["exact"] = std::move(exact);
+    }
     return object;
 }
 

@@ -3,6 +3,7 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/baseline/snapshot_text.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 #include "tollgate/core/counts.hpp"
 
 #include <algorithm>
@@ -17,7 +18,7 @@ namespace fs = std::filesystem;
 
 namespace tollgate::baseline {
 
-using namespace text;
+using namespace snapshot_text;
 
 namespace {
 
@@ -292,7 +293,40 @@ private:
             const double value = number_at(measures, name.c_str(), measures_pointer);
             set_measure(f.measures, id, value);
         }
+        read_exact(object, pointer, f);
         return f;
+    }
+
+    // Take the exact bytes of text keys that are not valid UTF-8 from "exact", checking that
+    // each shows as the key's own text does.
+    void read_exact(const Json& object, const std::string& pointer, SnapshotFunction& f) const {
+        const auto it = object.find("exact");
+        if (it == object.end()) {
+            return;
+        }
+        const std::string exact_pointer = pointer + "/exact";
+        if (!it->is_object()) {
+            throw corrupted(ill_typed(exact_pointer, "an object", *it));
+        }
+        for (const auto& [key, value] : it->items()) {
+            const auto known =
+                std::find_if(std::begin(k_text_keys), std::end(k_text_keys),
+                             [&key = key](const auto& entry) { return key == entry.first; });
+            if (known == std::end(k_text_keys)) {
+                throw corrupted(exact_pointer + ": unknown key \"" + key + "\"");
+            }
+            const std::string stored = string_at(*it, key.c_str(), exact_pointer);
+            const auto bytes = ::tollgate::text::unstore_bytes(stored);
+            if (!bytes) {
+                throw corrupted(exact_pointer + "/" + key + ": not a stored byte string");
+            }
+            std::string& field = f.*(known->second);
+            if (::tollgate::text::to_valid_utf8(*bytes) != field) {
+                throw corrupted(exact_pointer + "/" + key + ": does not match " + pointer + "/" +
+                                key);
+            }
+            field = *bytes;
+        }
     }
 
     static void set_measure(core::Measures& m, core::MeasureId id, double value) {

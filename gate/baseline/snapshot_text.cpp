@@ -2,6 +2,8 @@
 // The snapshot file's text: schema name, JSON dumping, the content digest, message helpers.
 #include "gate/baseline/snapshot_text.hpp"
 
+#include "gate/common/text_safety.hpp"
+
 #include "gate/baseline/snapshot.hpp"
 
 #include <cctype>
@@ -9,7 +11,7 @@
 #include <cstring>
 #include <fmt/format.h>
 
-namespace tollgate::baseline::text {
+namespace tollgate::baseline::snapshot_text {
 
 std::string schema_text(int version) {
     return std::string(k_snapshot_schema_name) + "/" + std::to_string(version);
@@ -20,7 +22,7 @@ const char* extent_name(lexer::ExtentMode mode) {
 }
 
 std::string dump(const Json& value, int indent) {
-    return value.dump(indent, ' ', false, Json::error_handler_t::replace);
+    return ::tollgate::text::dump_json(value, indent);
 }
 
 std::string content_digest(Json document) {
@@ -61,4 +63,4 @@ std::string lowercase_error(int error) {
     return text;
 }
 
-} // namespace tollgate::baseline::text
+} // namespace tollgate::baseline::snapshot_text

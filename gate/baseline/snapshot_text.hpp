@@ -3,12 +3,14 @@
 // content digest and message helpers. Internal to gate/baseline.
 #pragma once
 
+#include "gate/baseline/snapshot.hpp"
 #include "gate/lexer/function_span.hpp"
 
 #include <nlohmann/json.hpp>
 #include <string>
+#include <utility>
 
-namespace tollgate::baseline::text {
+namespace tollgate::baseline::snapshot_text {
 
 using Json = nlohmann::ordered_json;
 
@@ -22,8 +24,19 @@ std::string schema_text(int version);
 const char* extent_name(lexer::ExtentMode mode);
 
 // Serialize `value` as written to disk (`indent` -1 is compact); invalid UTF-8 in source text
-// becomes U+FFFD so dumping never throws and a re-read dumps to the same bytes.
+// becomes U+FFFD so dumping never throws and a re-read dumps to the same bytes (the exact bytes
+// are kept under a function's "exact" key).
 std::string dump(const Json& value, int indent);
+
+// The text keys of a function whose exact bytes are kept under "exact" when they are not valid
+// UTF-8 (JSON strings cannot hold them), with the field each one fills.
+inline constexpr std::pair<const char*, std::string SnapshotFunction::*> k_text_keys[] = {
+    {"file", &SnapshotFunction::path},
+    {"usr", &SnapshotFunction::usr},
+    {"fallback_key", &SnapshotFunction::fallback_key},
+    {"function", &SnapshotFunction::qualified_name},
+    {"signature", &SnapshotFunction::signature},
+};
 
 // Return the digest of `document` without its "created" and "content_digest" keys, as dumped
 // compactly: equal content gives an equal digest. Anyone can recompute it: it shows damage and
@@ -39,4 +52,4 @@ std::string shell_word(const std::string& text);
 // Return the text of errno value `error`, starting lowercase.
 std::string lowercase_error(int error);
 
-} // namespace tollgate::baseline::text
+} // namespace tollgate::baseline::snapshot_text

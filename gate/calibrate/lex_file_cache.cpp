@@ -4,6 +4,7 @@
 #include "gate/calibrate/lex_file_cache.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -25,7 +26,9 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-constexpr const char* k_format = "tollgate.lexcache/1";
+// Version 2: every text is kept losslessly with text::store_bytes (source text need not be
+// UTF-8, JSON strings must be).
+constexpr const char* k_format = "tollgate.lexcache/2";
 
 __extension__ typedef unsigned __int128 Hash128;
 
@@ -134,19 +137,31 @@ std::string basename_of(const std::string& path) {
     return slash == std::string::npos ? path : path.substr(slash + 1);
 }
 
+using text::store_bytes;
+
+// The bytes store_bytes kept in the string `stored`; throws when the entry is damaged.
+std::string stored_text(const json& stored) {
+    auto bytes = text::unstore_bytes(stored.get<std::string>());
+    if (!bytes) {
+        throw std::runtime_error("bad stored text");
+    }
+    return std::move(*bytes);
+}
+
 json to_json(const lexer::FileFunctions& functions) {
     json list = json::array();
     for (const auto& f : functions.functions) {
         json tokens = json::array();
         for (const auto& t : f.tokens) {
-            tokens.push_back({t.key, t.spelling, t.role == core::Role::operand_token ? 1 : 0,
-                              t.form, static_cast<int>(t.basis), t.line});
+            tokens.push_back({store_bytes(t.key), store_bytes(t.spelling),
+                              t.role == core::Role::operand_token ? 1 : 0, store_bytes(t.form),
+                              static_cast<int>(t.basis), t.line});
         }
-        list.push_back({{"usr", f.usr},
-                        {"fallback_key", f.fallback_key},
-                        {"qualified_name", f.qualified_name},
-                        {"signature", f.signature},
-                        {"path", f.path},
+        list.push_back({{"usr", store_bytes(f.usr)},
+                        {"fallback_key", store_bytes(f.fallback_key)},
+                        {"qualified_name", store_bytes(f.qualified_name)},
+                        {"signature", store_bytes(f.signature)},
+                        {"path", store_bytes(f.path)},
                         {"start_line", f.start_line},
                         {"end_line", f.end_line},
                         {"lexical", f.mode == lexer::ExtentMode::lexical},
@@ -156,9 +171,9 @@ json to_json(const lexer::FileFunctions& functions) {
     }
     json warnings = json::array();
     for (const auto& w : functions.warnings) {
-        warnings.push_back({w.path, w.line, w.message});
+        warnings.push_back({store_bytes(w.path), w.line, store_bytes(w.message)});
     }
-    return {{"path", functions.path},
+    return {{"path", store_bytes(functions.path)},
             {"functions", list},
             {"warnings", warnings},
             {"lexically_recovered", functions.lexically_recovered}};
@@ -166,14 +181,14 @@ json to_json(const lexer::FileFunctions& functions) {
 
 lexer::FileFunctions from_json(const json& j) {
     lexer::FileFunctions out;
-    out.path = j.at("path").get<std::string>();
+    out.path = stored_text(j.at("path"));
     for (const auto& f : j.at("functions")) {
         lexer::FunctionSpan span;
-        span.usr = f.at("usr").get<std::string>();
-        span.fallback_key = f.at("fallback_key").get<std::string>();
-        span.qualified_name = f.at("qualified_name").get<std::string>();
-        span.signature = f.at("signature").get<std::string>();
-        span.path = f.at("path").get<std::string>();
+        span.usr = stored_text(f.at("usr"));
+        span.fallback_key = stored_text(f.at("fallback_key"));
+        span.qualified_name = stored_text(f.at("qualified_name"));
+        span.signature = stored_text(f.at("signature"));
+        span.path = stored_text(f.at("path"));
         span.start_line = f.at("start_line").get<unsigned>();
         span.end_line = f.at("end_line").get<unsigned>();
         span.mode = f.at("lexical").get<bool>() ? lexer::ExtentMode::lexical
@@ -182,11 +197,11 @@ lexer::FileFunctions from_json(const json& j) {
         span.token_hash = f.at("token_hash").get<std::string>();
         for (const auto& t : f.at("tokens")) {
             core::Token token;
-            token.key = t.at(0).get<std::string>();
-            token.spelling = t.at(1).get<std::string>();
+            token.key = stored_text(t.at(0));
+            token.spelling = stored_text(t.at(1));
             token.role =
                 t.at(2).get<int>() == 1 ? core::Role::operand_token : core::Role::operator_token;
-            token.form = t.at(3).get<std::string>();
+            token.form = stored_text(t.at(3));
             const int basis = t.at(4).get<int>();
             if (basis < 0 || basis > static_cast<int>(core::Basis::lexical)) {
                 throw std::runtime_error("bad basis");
@@ -199,7 +214,7 @@ lexer::FileFunctions from_json(const json& j) {
     }
     for (const auto& w : j.at("warnings")) {
         out.warnings.push_back(
-            {w.at(0).get<std::string>(), w.at(1).get<unsigned>(), w.at(2).get<std::string>()});
+            {stored_text(w.at(0)), w.at(1).get<unsigned>(), stored_text(w.at(2))});
     }
     out.lexically_recovered = j.at("lexically_recovered").get<unsigned>();
     return out;
@@ -333,7 +348,7 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
     const std::string key = lex_cache_key(file, context);
     const fs::path final_path = entry_path(key);
     const json entry = {{"format", k_format}, {"key", key}, {"lexed", to_json(functions)}};
-    const std::string text = entry.dump();
+    const std::string serialised = text::dump_json(entry, -1);
     const fs::path temp_path = fs::path(m_dir) / ("tmp." + std::to_string(::getpid()) + "." +
                                                   std::to_string(m_temp_serial++) + ".part");
     std::error_code error;
@@ -341,7 +356,7 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
     bool written = false;
     if (!error) {
         std::ofstream out(temp_path, std::ios::binary | std::ios::trunc);
-        out << text;
+        out << serialised;
         out.close();
         written = static_cast<bool>(out);
         if (written) {
@@ -370,7 +385,7 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
     if (written && m_pause_after != 0 && writes >= m_pause_after) {
         // Test hook: leave a half-written temporary file behind, then wait to be killed.
         std::ofstream half(fs::path(m_dir) / "tmp.paused.part", std::ios::binary);
-        half << text.substr(0, text.size() / 2);
+        half << serialised.substr(0, serialised.size() / 2);
         half.close();
         std::cerr << "tollgate: test hook: paused after " << writes << " cache writes" << std::endl;
         for (;;) {

@@ -10,6 +10,7 @@
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/delta/measure_change.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
@@ -78,8 +79,9 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.stroud = options.stroud;
     const SnapshotResult result = snapshot_revision(request);
     baseline::save_snapshot(result.snapshot, path);
-    std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n", path.c_str(),
-                 result.snapshot.functions.size(), range.head.short_hex().c_str());
+    std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n",
+                 text::terminal_text(path).c_str(), result.snapshot.functions.size(),
+                 range.head.short_hex().c_str());
 }
 
 int run_check(const CheckOptions& options) {

@@ -85,11 +85,12 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
     }
     std::string candidates;
     for (const auto* span : matches) {
-        candidates += fmt::format("\n  {}:{}  {}({})", path, span->start_line, span->qualified_name,
-                                  span->signature);
+        candidates += fmt::format("{}{}:{} {}({})", candidates.empty() ? "" : ", ", path,
+                                  span->start_line, span->qualified_name, span->signature);
     }
-    throw UsageError(fmt::format("\"{}\" matches {} functions in \"{}\" (name one as "
-                                 "PATH:LINE or PATH:NAME(SIGNATURE)):{}",
+    // One line: an error message is printed as one line (see run_cli).
+    throw UsageError(fmt::format("\"{}\" matches {} functions in \"{}\": {} (name one as "
+                                 "PATH:LINE or PATH:NAME(SIGNATURE))",
                                  wanted, matches.size(), path, candidates));
 }
 

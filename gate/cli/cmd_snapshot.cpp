@@ -7,6 +7,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
@@ -90,8 +91,8 @@ int run_snapshot(const SnapshotOptions& options) {
 
     const std::size_t warnings = measured.warnings;
     std::cerr << fmt::format("tollgate: wrote {}: {} functions in {} files of commit {}{}\n",
-                             out_path, snapshot.functions.size(), measured.files,
-                             commit.short_hex(),
+                             text::terminal_text(out_path), snapshot.functions.size(),
+                             measured.files, commit.short_hex(),
                              warnings == 0 ? std::string()
                                            : fmt::format(" ({} parse warnings: tollgate measure "
                                                          "--rev {} shows them)",

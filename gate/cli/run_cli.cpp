@@ -4,16 +4,39 @@
 
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
+#include "gate/policy/policy.hpp"
 
 #include <CLI/CLI.hpp>
-#include <algorithm>
 #include <cstdio>
 #include <exception>
+#include <memory>
+#include <spdlog/formatter.h>
 #include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 #include <string>
 
 namespace tollgate {
+
+namespace {
+
+// Log lines as "tollgate: LEVEL: MESSAGE", the message made visible: logs quote paths and names.
+class VisibleFormatter : public spdlog::formatter {
+public:
+    void format(const spdlog::details::log_msg& message, spdlog::memory_buf_t& out) override {
+        const auto level = spdlog::level::to_string_view(message.level);
+        const std::string line =
+            "tollgate: " + std::string(level.data(), level.size()) + ": " +
+            text::terminal_text(std::string_view(message.payload.data(), message.payload.size())) +
+            "\n";
+        out.append(line.data(), line.data() + line.size());
+    }
+    std::unique_ptr<spdlog::formatter> clone() const override {
+        return std::make_unique<VisibleFormatter>();
+    }
+};
+
+} // namespace
 
 int run_cli(int argc, char** argv) {
     CLI::App app{"tollgate: gate C/C++ changes on the Halstead measures of the functions they "
@@ -42,33 +65,36 @@ int run_cli(int argc, char** argv) {
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
     } catch (const CLI::ParseError& e) {
-        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n", e.what());
+        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n",
+                     text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::usage);
     }
 
     auto logger = spdlog::stderr_color_st("tollgate");
-    logger->set_pattern("tollgate: %l: %v");
+    logger->set_formatter(std::make_unique<VisibleFormatter>());
     logger->set_level(global.verbose ? spdlog::level::debug : spdlog::level::warn);
     spdlog::set_default_logger(logger);
 
     try {
         return selected ? selected() : static_cast<int>(ExitCode::usage);
-    } catch (const UsageError& e) {
-        // A broken policy carries one message per line; each gets the prefix.
-        const std::string text = e.what();
-        for (std::size_t start = 0; start <= text.size();) {
-            const std::size_t end = std::min(text.find('\n', start), text.size());
-            std::fprintf(stderr, "tollgate: error: %s\n", text.substr(start, end - start).c_str());
-            start = end + 1;
+    } catch (const policy::PolicyError& e) {
+        // A broken policy carries one message per fault; each gets its line and the prefix.
+        for (const auto& message : e.messages()) {
+            std::fprintf(stderr, "tollgate: error: %s\n", text::terminal_text(message).c_str());
         }
         return static_cast<int>(ExitCode::usage);
+    } catch (const UsageError& e) {
+        // Messages quote paths, names and revisions: a line break or escape sequence among them
+        // is shown, never obeyed, so every message stays one line.
+        std::fprintf(stderr, "tollgate: error: %s\n", text::terminal_text(e.what()).c_str());
+        return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
-        std::fprintf(stderr, "tollgate: error: %s%s\n", e.what(),
+        std::fprintf(stderr, "tollgate: error: %s%s\n", text::terminal_text(e.what()).c_str(),
                      global.verbose ? "" : " (run with --verbose for details)");
         return static_cast<int>(ExitCode::failure);
     } catch (const std::exception& e) {
         std::fprintf(stderr, "tollgate: internal error: %s (run with --verbose and report it)\n",
-                     e.what());
+                     text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::failure);
     }
 }

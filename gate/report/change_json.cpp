@@ -1,5 +1,6 @@
 // SPDX-License-Identifier: MIT
 // The change report as JSON, schema "tollgate.check/1".
+#include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
 
 #include <nlohmann/json.hpp>
@@ -116,7 +117,7 @@ void write_change_json(std::ostream& out, const delta::ChangeReport& report,
         {"skipped", skipped},
         {"warnings", warnings},
     };
-    out << document.dump(2) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 } // namespace tollgate::report

@@ -1,5 +1,6 @@
 // SPDX-License-Identifier: MIT
-// The Markdown delta table a reviewer reads in the merge request.
+// The Markdown delta table a reviewer reads in the merge request, kept under a size limit.
+#include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
 #include "gate/report/measure_table.hpp"
 
@@ -12,50 +13,29 @@ namespace {
 using core::MeasureId;
 using delta::ChangeReport;
 using delta::FunctionDelta;
+using text::MarkdownPlace;
 
-// Escape text for a table cell: pipes split cells, backslashes and angle brackets need care.
-std::string cell_text(const std::string& text) {
-    std::string escaped;
-    for (char c : text) {
-        switch (c) {
-        case '|':
-            escaped += "\\|";
-            break;
-        case '<':
-            escaped += "&lt;";
-            break;
-        case '>':
-            escaped += "&gt;";
-            break;
-        case '\\':
-            escaped += "\\\\";
-            break;
-        case '*':
-        case '_':
-        case '`':
-        case '[':
-        case ']':
-            escaped += '\\';
-            escaped += c;
-            break;
-        default:
-            escaped += c;
-        }
-    }
-    return escaped;
+// The most bytes one piece of data (a name, a path, a message) shows in the Markdown report;
+// the JSON report keeps it whole.
+constexpr std::size_t k_item_bytes = 1000;
+
+std::string shortened(const std::string& data) {
+    return text::clip(text::to_valid_utf8(data), k_item_bytes);
 }
 
-// Put a function name in a code span; only the pipe needs escaping there inside a table.
-std::string code_cell(const std::string& text) {
-    std::string escaped;
-    for (char c : text) {
-        if (c == '|') {
-            escaped += "\\|";
-        } else {
-            escaped += c;
-        }
-    }
-    return "`" + escaped + "`";
+// Data as Markdown text that renders as itself (no markup, links or HTML of its own).
+std::string data_text(const std::string& data) {
+    return text::markdown_text(shortened(data));
+}
+
+// Data as a code span.
+std::string data_code(const std::string& data, MarkdownPlace place) {
+    return text::markdown_code(shortened(data), place);
+}
+
+std::string plural(std::size_t count, const char* one, const char* many) {
+    return fmt::format("{} {}", group_thousands(static_cast<double>(count)),
+                       count == 1 ? one : many);
 }
 
 std::string pair_cell(const FunctionDelta& f, MeasureId id, int decimals) {
@@ -81,36 +61,168 @@ std::string growth_cell(const FunctionDelta& f) {
 std::string location_cell(const FunctionDelta& f, const ChangeReport& report,
                           const RenderOptions& options) {
     const auto& side = f.shown_side();
-    const std::string text = fmt::format("{}:{}", side.path, side.start_line);
+    const std::string text = data_text(side.path) + ":" + std::to_string(side.start_line);
+    if (side.path.size() > k_item_bytes) {
+        return text; // a link to a shortened path would lead elsewhere
+    }
     const std::string commit = f.head ? report.head_commit : report.base_commit;
     const std::string link = make_link(options.link_template, commit.empty() ? "HEAD" : commit,
                                        side.path, side.start_line);
-    if (link.empty()) {
-        return cell_text(text);
-    }
-    return "[" + cell_text(text) + "](" + link + ")";
+    return link.empty() ? text : "[" + text + "](" + link + ")";
 }
 
-void write_table(std::ostream& out, const ChangeReport& report, const policy::Verdict& verdict,
-                 const RenderOptions& options, std::size_t first, std::size_t last) {
-    out << "| | function | location | volume | difficulty | effort | effort change | rules |\n";
-    out << "|---|---|---|---:|---:|---:|---:|---|\n";
-    for (std::size_t i = first; i < last; ++i) {
-        const FunctionDelta& f = report.functions[i];
-        const std::string rules = rules_broken_by(verdict, f);
-        out << fmt::format("| {} | {} | {} | {} | {} | {} | {} | {} |\n",
-                           delta::label_name(f.label), code_cell(f.name),
-                           location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
-                           pair_cell(f, MeasureId::difficulty, 2),
-                           pair_cell(f, MeasureId::effort, 0), growth_cell(f),
-                           rules.empty() ? std::string() : cell_text(rules));
+constexpr const char* k_table_head =
+    "| | function | location | volume | difficulty | effort | effort change | rules |\n"
+    "|---|---|---|---:|---:|---:|---:|---|\n";
+
+std::string table_row(const FunctionDelta& f, const ChangeReport& report, const RulesIndex& rules,
+                      const RenderOptions& options) {
+    return fmt::format("| {} | {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
+                       data_code(f.name, MarkdownPlace::table_cell),
+                       location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
+                       pair_cell(f, MeasureId::difficulty, 2), pair_cell(f, MeasureId::effort, 0),
+                       growth_cell(f), data_text(rules.of(f)));
+}
+
+// The report in pieces, every list in order of importance, so that the least important items
+// can be left out from the end when the whole would be too large.
+struct Parts {
+    std::string summary;                   // the first paragraph
+    std::string policy_head;               // the policy-change warning's first lines, or empty
+    std::vector<std::string> policy_lines; // one line per policy difference
+    std::vector<std::string> findings;     // one list item per finding
+    std::vector<std::string> rows;         // one table row per function, largest growth first
+    std::size_t shown_rows = 0;            // rows before the rest is folded
+    std::string footer;                    // the line under the table
+    std::vector<std::string> bullets;      // notes, skipped files, warnings
+};
+
+// How many items of each list go into the document.
+struct Kept {
+    std::size_t policy_lines = 0;
+    std::size_t findings = 0;
+    std::size_t rows = 0;
+    std::size_t bullets = 0;
+};
+
+std::string cut_note(const Parts& parts, const Kept& kept, std::size_t limit) {
+    std::vector<std::string> cuts;
+    const auto count_cut = [&cuts](std::size_t kept_count, std::size_t all, const char* one,
+                                   const char* many) {
+        if (kept_count < all) {
+            cuts.push_back(fmt::format("{} of {}",
+                                       group_thousands(static_cast<double>(all - kept_count)),
+                                       plural(all, one, many)));
+        }
+    };
+    count_cut(kept.rows, parts.rows.size(), "function row", "function rows");
+    count_cut(kept.bullets, parts.bullets.size(), "note or warning", "notes and warnings");
+    count_cut(kept.findings, parts.findings.size(), "finding", "findings");
+    count_cut(kept.policy_lines, parts.policy_lines.size(), "policy difference",
+              "policy differences");
+    if (cuts.empty()) {
+        return {};
     }
+    std::string list;
+    for (std::size_t i = 0; i < cuts.size(); ++i) {
+        list += (i == 0 ? "" : i + 1 == cuts.size() ? " and " : ", ") + cuts[i];
+    }
+    return fmt::format("> [!NOTE]\n> This report is cut to stay under {} bytes: it leaves out {} "
+                       "(the least growth and the last listed go first). The JSON report "
+                       "(`--report json:PATH`) has everything.\n\n",
+                       group_thousands(static_cast<double>(limit)), list);
+}
+
+std::string assemble(const Parts& parts, const Kept& kept, std::size_t limit) {
+    std::string out = parts.summary + "\n\n" + cut_note(parts, kept, limit);
+    if (!parts.policy_head.empty()) {
+        out += parts.policy_head;
+        for (std::size_t i = 0; i < kept.policy_lines; ++i) {
+            out += parts.policy_lines[i];
+        }
+        out += "\n";
+    }
+    for (std::size_t i = 0; i < kept.findings; ++i) {
+        out += parts.findings[i];
+    }
+    if (kept.findings > 0) {
+        out += "\n";
+    }
+    const std::size_t shown = std::min(parts.shown_rows, kept.rows);
+    if (shown > 0) {
+        out += k_table_head;
+        for (std::size_t i = 0; i < shown; ++i) {
+            out += parts.rows[i];
+        }
+    }
+    if (kept.rows > shown) {
+        const std::size_t rest = kept.rows - shown;
+        out += fmt::format("\n<details><summary>{} more function{}</summary>\n\n", rest,
+                           rest == 1 ? "" : "s");
+        out += k_table_head;
+        for (std::size_t i = shown; i < kept.rows; ++i) {
+            out += parts.rows[i];
+        }
+        out += "\n</details>\n";
+    }
+    out += parts.footer;
+    if (kept.bullets > 0) {
+        out += "\n";
+        for (std::size_t i = 0; i < kept.bullets; ++i) {
+            out += parts.bullets[i];
+        }
+    }
+    return out;
+}
+
+// Return the largest count in [0, `all`] for which `size_with(count)` stays within `limit`
+// (the size grows with the count), or 0 when none does.
+template <typename SizeWith>
+std::size_t most_that_fit(std::size_t all, std::size_t limit, SizeWith size_with) {
+    std::size_t low = 0, high = all;
+    while (low < high) {
+        const std::size_t middle = low + (high - low + 1) / 2;
+        if (size_with(middle) <= limit) {
+            low = middle;
+        } else {
+            high = middle - 1;
+        }
+    }
+    return low;
+}
+
+// Assemble the document within `limit` bytes, leaving out items from the end of the least
+// important list first: function rows, then notes and warnings, then findings, then policy
+// differences. The fixed parts (summary, footer, note) always stay.
+std::string fit(const Parts& parts, std::size_t limit) {
+    Kept kept{parts.policy_lines.size(), parts.findings.size(), parts.rows.size(),
+              parts.bullets.size()};
+    std::string document = assemble(parts, kept, limit);
+    for (std::size_t Kept::*list :
+         {&Kept::rows, &Kept::bullets, &Kept::findings, &Kept::policy_lines}) {
+        if (document.size() <= limit) {
+            break;
+        }
+        kept.*list = most_that_fit(kept.*list, limit, [&](std::size_t count) {
+            Kept trial = kept;
+            trial.*list = count;
+            return assemble(parts, trial, limit).size();
+        });
+        document = assemble(parts, kept, limit);
+        // The note's counts change its length a little: step back until it fits.
+        while (document.size() > limit && kept.*list > 0) {
+            --(kept.*list);
+            document = assemble(parts, kept, limit);
+        }
+    }
+    return document;
 }
 
 } // namespace
 
 void write_change_markdown(std::ostream& out, const ChangeReport& report,
                            const policy::Verdict& verdict, const RenderOptions& options) {
+    Parts parts;
     const auto& t = report.totals;
     const std::size_t blocking = policy::count_blocking(verdict);
     const std::size_t warnings = verdict.findings.size() - blocking;
@@ -135,62 +247,49 @@ void write_change_markdown(std::ostream& out, const ChangeReport& report,
         const FunctionDelta& top = report.functions.front();
         const auto top_growth = top.delta(MeasureId::effort);
         if (top_growth.absolute > 0) {
-            summary += fmt::format(", largest growth `{}` +{}", top.name,
+            summary += fmt::format(", largest growth {} +{}",
+                                   data_code(top.name, MarkdownPlace::inline_text),
                                    group_thousands(top_growth.absolute));
         }
         summary += ".";
     }
-    out << summary << "\n\n";
+    parts.summary = summary;
     if (!verdict.policy_change_summary.empty()) {
-        out << "> [!WARNING]\n> " << cell_text(verdict.policy_change_summary) << ":\n";
+        parts.policy_head = "> [!WARNING]\n> " + data_text(verdict.policy_change_summary) + ":\n";
         for (const auto& change : verdict.policy_changes) {
-            out << "> - " << cell_text(change) << "\n";
+            parts.policy_lines.push_back("> - " + data_text(change) + "\n");
         }
-        out << "\n";
     }
     for (const auto& f : verdict.findings) {
-        const bool blocks = f.blocks();
-        out << "- " << (blocks ? "**blocking**" : "warning") << ": " << cell_text(f.message)
-            << "\n";
+        parts.findings.push_back(std::string("- ") + (f.blocks() ? "**blocking**" : "warning") +
+                                 ": " + data_text(f.message) + "\n");
     }
-    if (!verdict.findings.empty()) {
-        out << "\n";
+    const RulesIndex rules(verdict);
+    for (const auto& f : report.functions) {
+        parts.rows.push_back(table_row(f, report, rules, options));
     }
-    if (!report.functions.empty()) {
-        const std::size_t shown = std::min(options.markdown_rows, report.functions.size());
-        write_table(out, report, verdict, options, 0, shown);
-        if (shown < report.functions.size()) {
-            const std::size_t rest = report.functions.size() - shown;
-            out << fmt::format("\n<details><summary>{} more function{}</summary>\n\n", rest,
-                               rest == 1 ? "" : "s");
-            write_table(out, report, verdict, options, shown, report.functions.size());
-            out << "\n</details>\n";
-        }
-    }
-    out << fmt::format("\n<sub>base {} → head {} · convention {} · policy {}</sub>\n",
-                       cell_text(report.base_label), cell_text(report.head_label),
-                       report.convention, cell_text(verdict.policy_origin));
-    std::vector<std::string> bullets;
+    parts.shown_rows = std::min(options.markdown_rows, report.functions.size());
+    parts.footer = fmt::format("\n<sub>base {} → head {} · convention {} · policy {}</sub>\n",
+                               data_text(report.base_label), data_text(report.head_label),
+                               data_text(report.convention), data_text(verdict.policy_origin));
     for (const auto& note : verdict.notes) {
-        bullets.push_back("policy note: " + cell_text(note));
+        parts.bullets.push_back("- policy note: " + data_text(note) + "\n");
     }
     for (const auto& note : report.notes) {
-        bullets.push_back("note: " + cell_text(note));
+        parts.bullets.push_back("- note: " + data_text(note) + "\n");
     }
     for (const auto& s : report.skipped) {
-        bullets.push_back(fmt::format("skipped `{}` ({})", s.path, s.reason));
+        parts.bullets.push_back("- skipped " + data_code(s.path, MarkdownPlace::inline_text) +
+                                " (" + data_text(s.reason) + ")\n");
     }
     for (const auto& w : report.warnings) {
-        bullets.push_back(fmt::format("warning ({}) `{}{}`: {}", w.side, w.path,
-                                      w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
-                                      cell_text(w.message)));
+        const std::string place =
+            w.path + (w.line > 0 ? ":" + std::to_string(w.line) : std::string());
+        parts.bullets.push_back("- warning (" + data_text(w.side) + ") " +
+                                data_code(place, MarkdownPlace::inline_text) + ": " +
+                                data_text(w.message) + "\n");
     }
-    if (!bullets.empty()) {
-        out << "\n";
-        for (const auto& bullet : bullets) {
-            out << "- " << bullet << "\n";
-        }
-    }
+    out << fit(parts, options.markdown_bytes);
 }
 
 } // namespace tollgate::report

@@ -1,5 +1,6 @@
 // SPDX-License-Identifier: MIT
 // The terminal table of a change report.
+#include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
 #include "gate/report/measure_table.hpp"
 
@@ -40,22 +41,34 @@ std::string change_cell(const FunctionDelta& f, MeasureId id, int decimals) {
 
 std::string location_of(const FunctionDelta& f) {
     const auto& side = f.shown_side();
-    return fmt::format("{}:{}", side.path, side.start_line);
+    return fmt::format("{}:{}", text::terminal_text(side.path), side.start_line);
 }
+
+// Every line of the table says something that came from the repository: neutralise it whole.
+using text::terminal_text;
 
 } // namespace
 
 std::string rules_broken_by(const policy::Verdict& verdict, const FunctionDelta& f) {
-    const auto& side = f.shown_side();
-    std::string blocking, warning;
+    return RulesIndex(verdict).of(f);
+}
+
+RulesIndex::RulesIndex(const policy::Verdict& verdict) {
     for (const auto& finding : verdict.findings) {
-        if (finding.function != f.name || finding.path != side.path ||
-            finding.start_line != side.start_line) {
-            continue;
-        }
+        auto& [blocking, warning] =
+            m_rules[Key{finding.function, finding.path, finding.start_line}];
         std::string& list = finding.blocks() ? blocking : warning;
         list += (list.empty() ? "" : ", ") + finding.rule_id;
     }
+}
+
+std::string RulesIndex::of(const FunctionDelta& f) const {
+    const auto& side = f.shown_side();
+    const auto it = m_rules.find(Key{f.name, side.path, side.start_line});
+    if (it == m_rules.end()) {
+        return {};
+    }
+    const auto& [blocking, warning] = it->second;
     if (blocking.empty() || warning.empty()) {
         return blocking + warning;
     }
@@ -77,14 +90,14 @@ void write_verdict_text(std::ostream& out, const policy::Verdict& verdict,
                             warnings == 1 ? "" : "s");
     }
     line += " (policy: " + verdict.policy_origin + ")";
-    out << paint(blocked ? k_red : k_green, line) << "\n";
+    out << paint(blocked ? k_red : k_green, terminal_text(line)) << "\n";
     for (const auto& f : verdict.findings) {
         const bool blocks = f.blocks();
         out << "  " << paint(blocks ? k_red : k_yellow, blocks ? "blocking" : "warning ") << "  "
-            << f.message << "\n";
+            << terminal_text(f.message) << "\n";
     }
     for (const auto& note : verdict.notes) {
-        out << "  note: " << note << "\n";
+        out << "  note: " << terminal_text(note) << "\n";
     }
 }
 
@@ -97,16 +110,17 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
         [colour](const char* code, const std::string& text) {
             return colour ? std::string(code) + text + k_reset : text;
         };
-    out << paint(k_bold, fmt::format("tollgate: {} -> {}", report.base_label, report.head_label))
+    out << paint(k_bold, terminal_text(fmt::format("tollgate: {} -> {}", report.base_label,
+                                                   report.head_label)))
         << "\n";
     if (!verdict.policy_change_summary.empty()) {
-        out << paint(k_yellow, "policy: " + verdict.policy_change_summary) << "\n";
+        out << paint(k_yellow, terminal_text("policy: " + verdict.policy_change_summary)) << "\n";
         for (const auto& change : verdict.policy_changes) {
-            out << paint(k_yellow, "  " + change) << "\n";
+            out << paint(k_yellow, terminal_text("  " + change)) << "\n";
         }
     }
     for (const auto& note : report.notes) {
-        out << "note: " << note << "\n";
+        out << "note: " << terminal_text(note) << "\n";
     }
     if (report.functions.empty()) {
         if (report.measured_files == 0) {
@@ -116,13 +130,14 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
                                report.measured_files, report.measured_files == 1 ? "" : "s");
         }
     } else {
+        const RulesIndex rules(verdict);
         std::vector<std::vector<std::string>> rows;
         rows.push_back({"label", "location", "function", "V", "D", "E", "rules"});
         for (const auto& f : report.functions) {
-            rows.push_back({delta::label_name(f.label), location_of(f), f.name,
+            rows.push_back({delta::label_name(f.label), location_of(f), terminal_text(f.name),
                             change_cell(f, MeasureId::volume, 1),
                             change_cell(f, MeasureId::difficulty, 2),
-                            change_cell(f, MeasureId::effort, 0), rules_broken_by(verdict, f)});
+                            change_cell(f, MeasureId::effort, 0), terminal_text(rules.of(f))});
         }
         std::vector<std::size_t> widths(rows.front().size(), 0);
         for (const auto& row : rows) {
@@ -168,11 +183,13 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
     }
     write_verdict_text(out, verdict, paint);
     for (const auto& s : report.skipped) {
-        out << fmt::format("skipped: {} ({})\n", s.path, s.reason);
+        out << terminal_text(fmt::format("skipped: {} ({})", s.path, s.reason)) << "\n";
     }
     for (const auto& w : report.warnings) {
-        out << fmt::format("warning: {} {}{}: {}\n", w.side, w.path,
-                           w.line > 0 ? ":" + std::to_string(w.line) : std::string(), w.message);
+        out << terminal_text(fmt::format("warning: {} {}{}: {}", w.side, w.path,
+                                         w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
+                                         w.message))
+            << "\n";
     }
 }
 
@@ -201,22 +218,40 @@ std::string format_percent(const std::optional<double>& percent) {
     return fmt::format("{}{:.0f}%", rounded > 0 ? "+" : "", rounded);
 }
 
+namespace {
+
+// Return `link_template` with each placeholder of `fields` replaced by its value and the text
+// between them passed through text::url_text.
+std::string fill_template(const std::string& link_template,
+                          const std::vector<std::pair<std::string, std::string>>& fields) {
+    std::string link, literal;
+    for (std::size_t i = 0; i < link_template.size();) {
+        const auto field = std::find_if(fields.begin(), fields.end(), [&](const auto& entry) {
+            return link_template.compare(i, entry.first.size(), entry.first) == 0;
+        });
+        if (field == fields.end()) {
+            literal += link_template[i++];
+            continue;
+        }
+        link += text::url_text(literal) + field->second;
+        literal.clear();
+        i += field->first.size();
+    }
+    return link + text::url_text(literal);
+}
+
+} // namespace
+
 std::string make_link(const std::string& link_template, const std::string& commit,
                       const std::string& path, unsigned line) {
     if (link_template.empty()) {
         return {};
     }
-    std::string link = link_template;
-    const auto replace_all = [&link](const std::string& from, const std::string& to) {
-        for (auto pos = link.find(from); pos != std::string::npos;
-             pos = link.find(from, pos + to.size())) {
-            link.replace(pos, from.size(), to);
-        }
-    };
-    replace_all("{commit}", commit);
-    replace_all("{path}", path);
-    replace_all("{line}", std::to_string(line));
-    return link;
+    // Data goes in percent-encoded (lossless, byte by byte); the template is the pipeline's own
+    // and only loses what cannot stand in a URL.
+    return fill_template(link_template, {{"{commit}", text::percent_encode(commit)},
+                                         {"{path}", text::percent_encode(path, "/")},
+                                         {"{line}", std::to_string(line)}});
 }
 
 } // namespace tollgate::report

@@ -2,6 +2,8 @@
 // Text and JSON renderers for per-function measures.
 #include "gate/report/measure_table.hpp"
 
+#include "gate/common/text_safety.hpp"
+
 #include <algorithm>
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
@@ -47,12 +49,14 @@ const std::vector<Column>& columns_for(Columns columns) {
     return columns == Columns::all ? all : essential;
 }
 
+using text::terminal_text;
+
 std::string location(const MeasuredFunction& f) {
-    return fmt::format("{}:{}", f.path, f.start_line);
+    return fmt::format("{}:{}", terminal_text(f.path), f.start_line);
 }
 
 std::string display_name(const MeasuredFunction& f) {
-    return f.lexical ? f.name + " [lexical]" : f.name;
+    return terminal_text(f.lexical ? f.name + " [lexical]" : f.name);
 }
 
 nlohmann::json measures_json(const core::Measures& m) {
@@ -97,7 +101,7 @@ void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& 
                         const std::vector<SourceWarning>& warnings, Columns columns,
                         const std::string& source_label) {
     if (functions.empty()) {
-        out << "no function definitions found in " << source_label << "\n";
+        out << "no function definitions found in " << terminal_text(source_label) << "\n";
     } else {
         const auto& cols = columns_for(columns);
         std::size_t where_width = std::string("location").size();
@@ -151,9 +155,10 @@ void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& 
     }
     for (const auto& w : warnings) {
         if (w.line > 0) {
-            out << fmt::format("warning: {}:{}: {}\n", w.path, w.line, w.message);
+            out << terminal_text(fmt::format("warning: {}:{}: {}", w.path, w.line, w.message))
+                << "\n";
         } else {
-            out << fmt::format("warning: {}: {}\n", w.path, w.message);
+            out << terminal_text(fmt::format("warning: {}: {}", w.path, w.message)) << "\n";
         }
     }
 }
@@ -184,17 +189,23 @@ void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& 
           {"effort", effort}}},
         {"warnings", warnings_json(warnings)},
     };
-    out << document.dump(2) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         const std::string& source_label, const std::string& convention,
                         double stroud) {
-    out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line, f.name,
-                       f.signature, source_label, convention, f.lexical ? ", lexical extent" : "");
+    out << terminal_text(fmt::format("{}:{}-{}  {}({})  [{}, {}{}]", f.path, f.start_line,
+                                     f.end_line, f.name, f.signature, source_label, convention,
+                                     f.lexical ? ", lexical extent" : ""))
+        << "\n\n";
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {
-        std::vector<std::pair<std::string, core::TableEntry>> rows(table.begin(), table.end());
+        // Tokens are the function's own text (string literals and all): made visible.
+        std::vector<std::pair<std::string, core::TableEntry>> rows;
+        for (const auto& [key, entry] : table) {
+            rows.emplace_back(terminal_text(key), entry);
+        }
         // Most frequent first; ties by token so the order is deterministic.
         std::stable_sort(rows.begin(), rows.end(), [](const auto& a, const auto& b) {
             return a.second.count > b.second.count;
@@ -263,7 +274,7 @@ void write_explain_json(std::ostream& out, const MeasuredFunction& f,
     document["source"] = source_label;
     document["operators"] = table_json(f.counts.operators);
     document["operands"] = table_json(f.counts.operands);
-    out << document.dump(2) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 } // namespace tollgate::report

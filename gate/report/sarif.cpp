@@ -2,10 +2,9 @@
 // The SARIF 2.1.0 writer: rules from the policy, results from the verdict's findings.
 #include "gate/report/sarif.hpp"
 
+#include "gate/common/text_safety.hpp"
 #include "gate/policy/judge.hpp"
 
-#include <cctype>
-#include <cstdio>
 #include <nlohmann/json.hpp>
 
 namespace tollgate::report {
@@ -100,18 +99,7 @@ const delta::FunctionDelta* largest_growth(const delta::ChangeReport& report,
 } // namespace
 
 std::string path_to_uri(const std::string& path) {
-    std::string uri;
-    for (const char c : path) {
-        const auto byte = static_cast<unsigned char>(c);
-        if (std::isalnum(byte) || c == '-' || c == '.' || c == '_' || c == '~' || c == '/') {
-            uri += c;
-        } else {
-            char escaped[4];
-            std::snprintf(escaped, sizeof escaped, "%%%02X", byte);
-            uri += escaped;
-        }
-    }
-    return uri;
+    return text::percent_encode(path, "/");
 }
 
 void write_sarif(std::ostream& out, const delta::ChangeReport& report,
@@ -180,7 +168,7 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
     };
     const json log = {
         {"$schema", k_sarif_schema}, {"version", "2.1.0"}, {"runs", json::array({run})}};
-    out << log.dump(2) << "\n";
+    out << text::dump_json(log, 2) << "\n";
 }
 
 } // namespace tollgate::report
