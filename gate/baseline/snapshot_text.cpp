@@ -2,9 +2,8 @@
 // The snapshot file's text: schema name, JSON dumping, the content digest, message helpers.
 #include "gate/baseline/snapshot_text.hpp"
 
-#include "gate/common/text_safety.hpp"
-
 #include "gate/baseline/snapshot.hpp"
+#include "gate/common/text_safety.hpp"
 
 #include <cctype>
 #include <cstdint>
