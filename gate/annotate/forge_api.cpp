@@ -89,11 +89,14 @@ std::string platform_reason(const std::string& body) {
         }
         if (answer.contains("errors") && answer["errors"].is_array() && !answer["errors"].empty()) {
             const json& first = answer["errors"][0];
-            reason +=
-                (reason.empty() ? "" : ": ") +
-                (first.is_object() && first.contains("message") && first["message"].is_string()
-                     ? first["message"].get<std::string>()
-                     : first.dump());
+            std::string detail = first.dump();
+            if (first.is_string()) {
+                detail = first.get<std::string>();
+            } else if (first.is_object() && first.contains("message") &&
+                       first["message"].is_string()) {
+                detail = first["message"].get<std::string>();
+            }
+            reason += (reason.empty() ? "" : ": ") + detail;
         }
     }
     std::string clean;
@@ -287,7 +290,7 @@ Account ForgeApi::who_am_i() {
     // GitHub "REST API endpoints for users" - "Get the authenticated user": GET /user; GitLab
     // "Users API" - "Get the current user": GET /user; Gitea "user" - "Get the authenticated
     // user": GET /user (`from memory`). GitHub's workflow token (GITHUB_TOKEN) is refused with
-    // 403 there, which only means "unknown".
+    // 403 there, which only means "unknown" (as does a 404).
     try {
         const HttpResponse response =
             call(Method::get, m_target.api_url + "/user", {}, "asking who the token belongs to");
@@ -301,8 +304,8 @@ Account ForgeApi::who_am_i() {
         account.known = !account.author.empty();
         return account;
     } catch (const PostError& e) {
-        if (e.status() == 401 || e.status() == 0) {
-            throw;
+        if (e.status() != 403 && e.status() != 404) {
+            throw; // a refused token, an unreachable or failing platform
         }
         return {};
     }

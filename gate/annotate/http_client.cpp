@@ -125,6 +125,22 @@ bool worth_retrying(long status) {
     return status == 429 || (status >= 500 && status <= 599);
 }
 
+// Transport errors that may pass by themselves; a refused certificate or a bad URL does not.
+bool transient(CURLcode code) {
+    switch (code) {
+    case CURLE_COULDNT_RESOLVE_HOST:
+    case CURLE_COULDNT_CONNECT:
+    case CURLE_OPERATION_TIMEDOUT:
+    case CURLE_SEND_ERROR:
+    case CURLE_RECV_ERROR:
+    case CURLE_GOT_NOTHING:
+    case CURLE_PARTIAL_FILE:
+        return true;
+    default:
+        return false;
+    }
+}
+
 // Own a curl_slist of request headers.
 struct HeaderList {
     curl_slist* list = nullptr;
@@ -217,7 +233,8 @@ HttpClient::~HttpClient() {
     curl_easy_cleanup(static_cast<CURL*>(m_curl));
 }
 
-HttpResponse HttpClient::send_once(const HttpRequest& request, std::string& transport_error) {
+HttpResponse HttpClient::send_once(const HttpRequest& request, std::string& transport_error,
+                                   bool& retryable) {
     CURL* curl = static_cast<CURL*>(m_curl);
     curl_easy_reset(curl);
     HttpResponse response;
@@ -263,6 +280,7 @@ HttpResponse HttpClient::send_once(const HttpRequest& request, std::string& tran
     const CURLcode code = curl_easy_perform(curl);
     if (code != CURLE_OK) {
         transport_error = error[0] != '\0' ? std::string(error) : curl_easy_strerror(code);
+        retryable = transient(code);
         return response;
     }
     curl_easy_getinfo(curl, CURLINFO_RESPONSE_CODE, &response.status);
@@ -279,14 +297,15 @@ HttpResponse HttpClient::send(const HttpRequest& request) {
     const unsigned attempts = std::max(1U, m_settings.attempts);
     for (unsigned attempt = 1;; ++attempt) {
         std::string transport_error;
-        HttpResponse response = send_once(request, transport_error);
+        bool retryable = true;
+        HttpResponse response = send_once(request, transport_error, retryable);
         const bool failed = !transport_error.empty();
         if (!failed && !worth_retrying(response.status)) {
             return response;
         }
         const std::string what = failed ? redact(transport_error, m_settings.secret)
                                         : "HTTP " + std::to_string(response.status);
-        if (attempt >= attempts) {
+        if (attempt >= attempts || !retryable) {
             if (failed) {
                 throw PostError(std::string(method_name(request.method)) + " " +
                                 redact(request.url, m_settings.secret) + " failed after " +

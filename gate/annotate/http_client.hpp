@@ -88,7 +88,8 @@ public:
     HttpClient(const HttpClient&) = delete;
     HttpClient& operator=(const HttpClient&) = delete;
 
-    // Send `request`, retrying on 429, 5xx and transport errors up to the configured attempts
+    // Send `request`, retrying on 429, 5xx and transient transport errors (no connection, time-out,
+    // broken transfer; never a refused certificate) up to the configured attempts
     // (waiting as Retry-After says, else the doubling backoff), and return the last answer, which
     // may be any status. Throws PostError when `request.url` is not allowed or no answer came.
     HttpResponse send(const HttpRequest& request);
@@ -102,7 +103,8 @@ public:
     }
 
 private:
-    HttpResponse send_once(const HttpRequest& request, std::string& transport_error);
+    HttpResponse send_once(const HttpRequest& request, std::string& transport_error,
+                           bool& retryable);
 
     HttpSettings m_settings;
     void* m_curl = nullptr; // CURL*, kept opaque so that no other folder sees libcurl

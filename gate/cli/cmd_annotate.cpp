@@ -65,10 +65,10 @@ void validate(const AnnotateOptions& options) {
                          "\" should be 1 to 64 letters, digits, dots, dashes or underscores");
     }
     if (!valid_variable_name(options.token_variable)) {
-        throw UsageError("--token-env takes the name of an environment variable, not \"" +
-                         options.token_variable +
-                         "\" (the token itself never goes on the "
-                         "command line)");
+        // The value is not repeated: it may be a token given here by mistake.
+        throw UsageError("--token-env takes the name of an environment variable (letters, "
+                         "digits and underscores); the token itself never goes on the command "
+                         "line");
     }
     if (!options.ca_file.empty() && !std::filesystem::is_regular_file(options.ca_file)) {
         throw UsageError("CA file \"" + options.ca_file + "\" does not exist");
