@@ -73,6 +73,9 @@ void validate(const AnnotateOptions& options) {
     if (!options.ca_file.empty() && !std::filesystem::is_regular_file(options.ca_file)) {
         throw UsageError("CA file \"" + options.ca_file + "\" does not exist");
     }
+    if (options.body_limit != 0 && options.body_limit < 1000) {
+        throw UsageError("--body-limit should be 0 (the platform's limit) or at least 1000 bytes");
+    }
     if (options.timeout == 0 || options.timeout > 600) {
         throw UsageError("--timeout should be 1 to 600 seconds");
     }

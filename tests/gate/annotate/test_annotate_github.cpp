@@ -243,6 +243,9 @@ TEST_CASE("annotate usage errors", "[annotate][cli]") {
     CHECK(usage("--from check.json -- --base main") ==
           "tollgate: error: give either --from REPORT or check's options after \"--\", not "
           "both\n");
+    CHECK(usage("--from check.json --body-limit 200") ==
+          "tollgate: error: --body-limit should be 0 (the platform's limit) or at least 1000 "
+          "bytes\n");
     CHECK(usage("--from missing.json") == "tollgate: error: cannot read report \"missing.json\" "
                                           "(run \"tollgate check --report json:missing.json\" "
                                           "first)\n");

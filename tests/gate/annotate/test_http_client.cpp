@@ -6,6 +6,7 @@
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
+#include <filesystem>
 
 using namespace tollgate::annotate;
 using std::chrono::milliseconds;
@@ -184,4 +185,21 @@ TEST_CASE("HttpClient::send verifies TLS", "[annotate]") {
         CHECK(client.send(user_request(forge.origin())).status == 200);
         CHECK(forge.requests("GET", "/user").size() == 1);
     }
+}
+
+TEST_CASE("libcurl is included only in gate/annotate", "[annotate]") {
+    // DEVELOPERS.md's dependency direction: one folder speaks HTTP.
+    namespace fs = std::filesystem;
+    std::vector<std::string> users;
+    for (const char* root : {"core", "gate"}) {
+        for (const auto& entry :
+             fs::recursive_directory_iterator(fs::path(TOLLGATE_SOURCE_DIR) / root)) {
+            if (entry.is_regular_file() &&
+                tollgate::test::read_text(entry.path().string()).find("#include <curl/") !=
+                    std::string::npos) {
+                users.push_back(fs::relative(entry.path(), TOLLGATE_SOURCE_DIR).string());
+            }
+        }
+    }
+    CHECK(users == std::vector<std::string>{"gate/annotate/http_client.cpp"});
 }
