@@ -25,6 +25,34 @@ std::string note_key_of(const std::string& body, const std::string& slot) {
     return starts_with_marker(body, note_marker(slot, key)) ? key : std::string();
 }
 
+// Return our line notes of `slot` by key (the oldest note of each key).
+std::map<std::string, RemoteComment> our_line_notes(ForgeApi& api, const Account& account,
+                                                    const std::string& slot) {
+    std::map<std::string, RemoteComment> notes;
+    for (const auto& note : api.list_line_notes()) {
+        const std::string key = note_key_of(note.body, slot);
+        if (!key.empty() && written_by(note, account, *api.target().platform)) {
+            notes.emplace(key, note);
+        }
+    }
+    return notes;
+}
+
+// Edit the line note `note` of a finding that no longer blocks to say so (once).
+void resolve_note(ForgeApi& api, const std::string& key, const RemoteComment& note,
+                  const std::string& slot, const std::string& head_commit, AnnotateResult& result) {
+    const std::string body = compose_resolved_note(key, slot, head_commit);
+    if (normalise_newlines(note.body) == body) {
+        return;
+    }
+    try {
+        api.update_line_note(note.id, body);
+        ++result.notes_updated;
+    } catch (const PostError& e) {
+        result.warnings.push_back(std::string("resolving a line note: ") + e.what());
+    }
+}
+
 void annotate_lines(const delta::ChangeReport& report, const policy::Verdict& verdict,
                     ForgeApi& api, const Account& account, const AnnotateSettings& settings,
                     AnnotateResult& result) {
@@ -44,13 +72,8 @@ void annotate_lines(const delta::ChangeReport& report, const policy::Verdict& ve
             wanted.emplace(finding_key(finding), &finding);
         }
     }
-    std::map<std::string, RemoteComment> existing; // key -> our oldest note with it
-    for (const auto& note : api.list_line_notes()) {
-        const std::string key = note_key_of(note.body, settings.slot);
-        if (!key.empty() && written_by(note, account, platform)) {
-            existing.emplace(key, note);
-        }
-    }
+    const std::map<std::string, RemoteComment> existing =
+        our_line_notes(api, account, settings.slot);
     for (const auto& [key, finding] : wanted) {
         const std::string body = compose_line_note(*finding, settings.slot);
         try {
@@ -68,18 +91,8 @@ void annotate_lines(const delta::ChangeReport& report, const policy::Verdict& ve
         }
     }
     for (const auto& [key, note] : existing) {
-        if (wanted.count(key) != 0) {
-            continue;
-        }
-        const std::string body = compose_resolved_note(key, settings.slot, report.head_commit);
-        if (normalise_newlines(note.body) == body) {
-            continue;
-        }
-        try {
-            api.update_line_note(note.id, body);
-            ++result.notes_updated;
-        } catch (const PostError& e) {
-            result.warnings.push_back(std::string("resolving a line note: ") + e.what());
+        if (wanted.count(key) == 0) {
+            resolve_note(api, key, note, settings.slot, report.head_commit, result);
         }
     }
 }

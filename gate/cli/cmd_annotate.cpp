@@ -130,6 +130,36 @@ std::string describe(const annotate::Target& target) {
            ")";
 }
 
+// Return the line that says what a run did to the comment (and the line notes).
+std::string summarise(const annotate::AnnotateResult& result, const annotate::Target& target,
+                      bool line_notes) {
+    std::string line;
+    switch (result.action) {
+    case annotate::CommentAction::none:
+        line = "no comment posted: the change touches no C/C++ function";
+        break;
+    case annotate::CommentAction::unchanged:
+        line = "comment " + result.comment_id + " on " + describe(target) + " is up to date";
+        break;
+    default:
+        line = std::string("comment ") +
+               (result.comment_id.empty() ? "" : result.comment_id + " ") +
+               annotate::action_name(result.action) + " on " + describe(target);
+    }
+    if (result.cut) {
+        line += "; the report was cut to fit the platform's size limit";
+    }
+    if (result.duplicates > 0) {
+        line += "; " + std::to_string(result.duplicates) +
+                " later comment(s) with the same marker were left as they are";
+    }
+    if (line_notes) {
+        line += "; line notes: " + std::to_string(result.notes_created) + " created, " +
+                std::to_string(result.notes_updated) + " updated";
+    }
+    return line;
+}
+
 // Post or update the comment; every failure becomes a warning on stderr.
 void post(const annotate::CheckedChange& change, const AnnotateOptions& options) {
     annotate::Target given = options.target;
@@ -167,30 +197,7 @@ void post(const annotate::CheckedChange& change, const AnnotateOptions& options)
         annotate::ForgeApi api(target, client, token);
         const annotate::AnnotateResult result =
             annotate::annotate_change(change.report, change.verdict, api, settings);
-        std::string line;
-        switch (result.action) {
-        case annotate::CommentAction::none:
-            line = "no comment posted: the change touches no C/C++ function";
-            break;
-        case annotate::CommentAction::unchanged:
-            line = "comment " + result.comment_id + " on " + describe(target) + " is up to date";
-            break;
-        default:
-            line = std::string("comment ") +
-                   (result.comment_id.empty() ? "" : result.comment_id + " ") +
-                   annotate::action_name(result.action) + " on " + describe(target);
-        }
-        if (result.cut) {
-            line += "; the report was cut to fit the platform's size limit";
-        }
-        if (result.duplicates > 0) {
-            line += "; " + std::to_string(result.duplicates) +
-                    " older duplicate(s) with the same marker were left as they are";
-        }
-        if (options.line_notes) {
-            line += "; line notes: " + std::to_string(result.notes_created) + " created, " +
-                    std::to_string(result.notes_updated) + " updated";
-        }
+        const std::string line = summarise(result, target, options.line_notes);
         std::cerr << annotate::redact("tollgate: " + line + "\n", token);
         for (const auto& warning : result.warnings) {
             std::cerr << annotate::redact("tollgate: warning: " + warning + "\n", token);

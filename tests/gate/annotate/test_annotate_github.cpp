@@ -144,6 +144,27 @@ TEST_CASE("annotate finds its comment on the third page", "[annotate][cli]") {
     CHECK(forge.comments(k_comments).size() == 26);
 }
 
+TEST_CASE("annotate edits the oldest of two comments with its marker", "[annotate][cli]") {
+    if (!python_available()) {
+        WARN("python3 is not installed; skipping the fake platform tests");
+        return;
+    }
+    TempDir dir;
+    // Two runs that raced each other may both have created a comment.
+    json seed = json::array();
+    for (const char* body : {"first", "second"}) {
+        seed.push_back({{"collection", k_comments},
+                        {"author", "github-actions[bot]"},
+                        {"type", "Bot"},
+                        {"body", k_marker + "\n" + body}});
+    }
+    FakeForge forge(config_with({{"seed", seed}}));
+    const auto run = run_annotate(forge, dir, blocked_change());
+    CHECK(run.err == "tollgate: comment 1001 updated on pull request octo/gadget#12 (github); 1 "
+                     "later comment(s) with the same marker were left as they are\n");
+    CHECK(forge.comments(k_comments)[1]["body"] == k_marker + "\nsecond");
+}
+
 TEST_CASE("annotate turns refusals into warnings and keeps the exit code", "[annotate][cli]") {
     if (!python_available()) {
         WARN("python3 is not installed; skipping the fake platform tests");
