@@ -161,14 +161,13 @@ std::string summarise(const annotate::AnnotateResult& result, const annotate::Ta
 }
 
 // Post or update the comment; every failure becomes a warning on stderr.
-void post(const annotate::CheckedChange& change, const AnnotateOptions& options) {
+void post(const annotate::CheckedChange& change, const AnnotateOptions& options,
+          const std::string& token) {
     annotate::Target given = options.target;
     if (!options.platform.empty()) {
         given.platform = annotate::parse_platform(options.platform);
     }
     given.artifact_url = options.artifact_url;
-    const char* token_value = std::getenv(options.token_variable.c_str());
-    const std::string token = token_value == nullptr ? std::string() : token_value;
     try {
         const annotate::Target target =
             annotate::detect_target(given, annotate::process_environment());
@@ -235,11 +234,21 @@ void print_dry_run(const annotate::CheckedChange& change, const AnnotateOptions&
     std::cout.flush();
 }
 
+// Return the token from the environment variable `name`, and remove the variable from this
+// process's environment, so that no child (check parses the change's hostile sources) inherits it.
+std::string take_token(const std::string& name) {
+    const char* value = std::getenv(name.c_str());
+    const std::string token = value == nullptr ? std::string() : value;
+    ::unsetenv(name.c_str());
+    return token;
+}
+
 int run_annotate(const AnnotateOptions& options, const GlobalOptions& global) {
     validate(options);
+    const std::string token = take_token(options.token_variable);
     if (!options.from.empty()) {
         const annotate::CheckedChange change = annotate::read_check_report(options.from);
-        options.dry_run ? print_dry_run(change, options) : post(change, options);
+        options.dry_run ? print_dry_run(change, options) : post(change, options, token);
         return static_cast<int>(ExitCode::pass);
     }
     // Run check as a child of this very binary, with its report also written as JSON for us.
@@ -259,7 +268,7 @@ int run_annotate(const AnnotateOptions& options, const GlobalOptions& global) {
     }
     try {
         const annotate::CheckedChange change = annotate::read_check_report(json.path());
-        options.dry_run ? print_dry_run(change, options) : post(change, options);
+        options.dry_run ? print_dry_run(change, options) : post(change, options, token);
     } catch (const UsageError& e) {
         std::cerr << "tollgate: warning: no comment posted: " << e.what() << "\n";
     }
