@@ -106,7 +106,11 @@ TEST_CASE("github-actions.yml parses and wires the gate", "[templates]") {
         "assert sarif and sarif[0]['with']['sarif_file'].endswith('.sarif')\n"
         "caches = [s for s in steps if s.get('uses', '').startswith('actions/cache')]\n"
         "assert all(c['with']['path'] == 'baselines/' for c in caches) and len(caches) == 2\n"
-        "assert any('tollgate snapshot' in s.get('run', '') for s in steps)\n");
+        "assert any('tollgate snapshot' in s.get('run', '') for s in steps)\n"
+        "assert doc['permissions']['pull-requests'] == 'write'\n"
+        "note = [s for s in steps if 'tollgate annotate' in s.get('run', '')]\n"
+        "assert len(note) == 1 and 'always()' in note[0]['if'], note\n"
+        "assert note[0]['env']['TOLLGATE_ANNOTATE_TOKEN'] == '${{ secrets.GITHUB_TOKEN }}'\n");
     INFO(result.err);
     CHECK(result.exit_code == 0);
     CHECK(result.out == "ok\n");
@@ -120,7 +124,8 @@ TEST_CASE("gitlab-ci.yml parses and wires the gate", "[templates]") {
         "script = '\\n'.join(job['script'])\n"
         "assert 'tollgate check' in script\n"
         "assert '$CI_MERGE_REQUEST_DIFF_BASE_SHA' in script and '$CI_COMMIT_SHA' in script\n"
-        "assert 'TOLLGATE_NOTE_TOKEN' in script and '/notes' in script\n"
+        "assert 'tollgate annotate --token-env TOLLGATE_NOTE_TOKEN' in script, script\n"
+        "assert 'curl' not in script and 'PRIVATE-TOKEN' not in script, script\n"
         "assert job['artifacts']['when'] == 'always'\n"
         "paths = job['artifacts']['paths']\n"
         "assert any(p.endswith('.md') for p in paths) and any(p.endswith('.sarif') for p in "
@@ -149,6 +154,8 @@ TEST_CASE("Jenkinsfile is a balanced declarative pipeline that gates change requ
     CHECK(text.find("git fetch --unshallow") != std::string::npos);
     CHECK(text.find("archiveArtifacts") != std::string::npos);
     CHECK(text.find("tollgate snapshot") != std::string::npos);
+    CHECK(text.find("variable: 'TOLLGATE_ANNOTATE_TOKEN'") != std::string::npos);
+    CHECK(text.find("tollgate annotate --from tollgate-report/tollgate.json") != std::string::npos);
 
     SECTION("the structural check itself catches a missing brace") {
         CHECK(bracket_mismatch("pipeline { stages { stage('x') { steps { sh 'a' } }") ==
