@@ -33,10 +33,6 @@ std::string schema_text(int version) {
     return std::string(k_snapshot_schema_name) + "/" + std::to_string(version);
 }
 
-const char* extent_name(lexer::ExtentMode mode) {
-    return mode == lexer::ExtentMode::lexical ? "lexical" : "syntax-tree";
-}
-
 // Serialize as written to disk; invalid UTF-8 in source text becomes U+FFFD so dumping never
 // throws and a re-read dumps to the same bytes.
 std::string dump(const Json& value, int indent) {
@@ -69,7 +65,7 @@ Json function_json(const SnapshotFunction& f) {
     object["fallback_key"] = f.fallback_key;
     object["function"] = f.qualified_name;
     object["signature"] = f.signature;
-    object["extent"] = extent_name(f.mode);
+    object["extent"] = lexer::extent_name(f.mode);
     object["token_hash"] = f.token_hash;
     object["counts"] = {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
@@ -315,9 +311,11 @@ private:
         const std::string extent = string_at(object, "extent", pointer);
         if (extent == "lexical") {
             f.mode = lexer::ExtentMode::lexical;
+        } else if (extent == "parser-stopped") {
+            f.mode = lexer::ExtentMode::parser_stopped;
         } else if (extent != "syntax-tree") {
-            throw corrupted(pointer + "/extent: expected \"syntax-tree\" or \"lexical\", found \"" +
-                            extent + "\"");
+            throw corrupted(pointer + "/extent: expected \"syntax-tree\", \"lexical\" or " +
+                            "\"parser-stopped\", found \"" + extent + "\"");
         }
         f.token_hash = string_at(object, "token_hash", pointer);
         const Json& counts = member(object, "counts", pointer);

@@ -42,7 +42,7 @@ struct CacheCounts {
     }
 };
 
-// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/1"),
+// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/2"),
 // written to a temporary file and renamed into place, so a killed run leaves whole entries or
 // none. Entries that do not parse or whose recorded key differs are ignored and rewritten.
 // Thread-safe: a lookup of a key that another thread is parsing waits for its entry (unless the

@@ -183,7 +183,10 @@ LoadedSources load_sources(const SourceRequest& request) {
     loaded.selected = select_files(all, relative, request.paths);
 
     const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
-    loaded.context = lexer::make_parse_context(all, compile_db, root.string());
+    loaded.context =
+        lexer::make_parse_context(all, compile_db, root.string(),
+                                  request.compile_commands.empty() ? lexer::DatabaseOrigin::found
+                                                                   : lexer::DatabaseOrigin::given);
     loaded.context.force_language = request.force_language;
     loaded.context.cache_dir = resolve_cache_dir(request.no_cache, request.cache_dir);
     spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),

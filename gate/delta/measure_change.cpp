@@ -40,8 +40,9 @@ SideSources read_side_sources(const walker::Repository& repository,
     if (any) {
         sources.tree = walker::read_side_tree(repository, changes, side);
     }
-    sources.context = lexer::make_parse_context(sources.tree, settings.compile_commands_json,
-                                                settings.compile_commands_root);
+    sources.context =
+        lexer::make_parse_context(sources.tree, settings.compile_commands_json,
+                                  settings.compile_commands_root, settings.compile_commands_origin);
     sources.context.convention = settings.convention;
     sources.context.cache_dir = settings.cache_dir;
     return sources;
