@@ -310,6 +310,18 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
     }
 }
 
+void LexFileCache::abandon(const SourceFile& file, const lexer::ParseContext& context) {
+    const std::string key = lex_cache_key(file, context);
+    {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        const auto owner = m_in_flight.find(key);
+        if (owner != m_in_flight.end() && owner->second == std::this_thread::get_id()) {
+            m_in_flight.erase(owner);
+        }
+    }
+    m_stored.notify_all();
+}
+
 CacheCounts LexFileCache::counts() const {
     std::lock_guard<std::mutex> lock(m_mutex);
     return m_counts;

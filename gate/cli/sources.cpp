@@ -2,6 +2,7 @@
 // Reading the files a command measures, from git or from disk.
 #include "gate/cli/sources.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/walker/repository.hpp"
 
@@ -52,9 +53,22 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
             it.disable_recursion_pending();
             continue;
         }
-        if (it->is_regular_file() && is_c_family_path(name)) {
-            files.push_back({p.lexically_relative(root).generic_string(), read_disk_file(p)});
+        if (!is_c_family_path(name) || it->is_directory()) {
+            continue;
         }
+        // Never follow a symlink or open a FIFO or device named like a source file.
+        DiskFile file = read_regular_file(p.string());
+        if (file.entry == DiskEntry::unreadable) {
+            throw UsageError("cannot read \"" + p.string() + "\"");
+        }
+        if (file.entry != DiskEntry::regular) {
+            if (file.entry != DiskEntry::missing) {
+                spdlog::warn("skipped \"{}\": {}", p.lexically_relative(root).generic_string(),
+                             disk_entry_text(file.entry));
+            }
+            continue;
+        }
+        files.push_back({p.lexically_relative(root).generic_string(), std::move(file.content)});
     }
     std::sort(files.begin(), files.end(),
               [](const SourceFile& a, const SourceFile& b) { return a.path < b.path; });
@@ -108,9 +122,18 @@ std::string read_compile_commands(const std::string& given, const std::string& r
     }
     for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
         const fs::path path = fs::path(root) / candidate;
-        if (!root.empty() && fs::exists(path)) {
+        if (root.empty()) {
+            continue;
+        }
+        // The working tree may be the change under review: a symlink or FIFO is not followed.
+        DiskFile file = read_regular_file(path.string());
+        if (file.entry == DiskEntry::regular) {
             spdlog::debug("using compile database {}", path.string());
-            return read_disk_file(path);
+            return std::move(file.content);
+        }
+        if (file.entry != DiskEntry::missing) {
+            spdlog::warn("compile database \"{}\" left out: {}", path.string(),
+                         disk_entry_text(file.entry));
         }
     }
     return {};

@@ -5,6 +5,7 @@
 #include "gate/delta/compare.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
+#include "gate/lexer/lexical_fallback.hpp"
 
 #include <fmt/format.h>
 #include <spdlog/spdlog.h>
@@ -70,7 +71,12 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
         parsed = lexer::lex_jobs(missing, settings.jobs);
     }
     for (std::size_t k = 0; k < parsed.size(); ++k) {
-        settings.lex_cache->store(*missing[k].file, *missing[k].context, parsed[k]);
+        // A time limit depends on this run's limits and load, not only on the file: not kept.
+        if (parsed[k].parser_stop == lexer::ParserStop::timed_out) {
+            settings.lex_cache->abandon(*missing[k].file, *missing[k].context);
+        } else {
+            settings.lex_cache->store(*missing[k].file, *missing[k].context, parsed[k]);
+        }
         lexed[missing_index[k]] = std::move(parsed[k]);
     }
     return lexed;
@@ -127,7 +133,54 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         }
     }
     spdlog::debug("lexing {} file sides of {} changed files", jobs.size(), changes.files.size());
-    const std::vector<lexer::FileFunctions> lexed = lex_with_cache(jobs, settings);
+    std::vector<lexer::FileFunctions> lexed = lex_with_cache(jobs, settings);
+    std::vector<std::optional<std::size_t>> base_job(changes.files.size());
+    std::vector<std::optional<std::size_t>> head_job(changes.files.size());
+    for (std::size_t j = 0; j < lexed.size(); ++j) {
+        const auto [index, side] = job_owner[j];
+        (side == Side::base ? base_job : head_job)[index] = j;
+    }
+
+    // A side the parser stopped on was measured lexically: measure the other side of the same
+    // file lexically too, so that base and head are counted by the same rules.
+    std::vector<lexer::FileFunctions> relexed; // base sides re-read from the object database
+    relexed.reserve(changes.files.size());
+    std::vector<const lexer::FileFunctions*> snapshot_base_lexical(changes.files.size(), nullptr);
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        const bool head_stopped =
+            head_job[i] && lexed[*head_job[i]].parser_stop != lexer::ParserStop::none;
+        bool base_stopped =
+            base_job[i] && lexed[*base_job[i]].parser_stop != lexer::ParserStop::none;
+        if (base_from_snapshot && !file.base_path.empty()) {
+            for (const auto& f : side_functions(*settings.base_snapshot, file.base_path)) {
+                base_stopped = base_stopped || f.mode() == lexer::ExtentMode::parser_stopped;
+            }
+        }
+        if (head_stopped == base_stopped) {
+            continue;
+        }
+        const std::string note = std::string("the parser stopped on the ") +
+                                 (head_stopped ? "head" : "base") +
+                                 " side of this file: this side is measured lexically too";
+        if (base_stopped && head_job[i]) {
+            const std::size_t j = *head_job[i];
+            lexed[j] = lexer::lex_lexically(*jobs[j].file, *jobs[j].context,
+                                            lexer::ParserStop::none, note);
+        } else if (head_stopped && base_job[i]) {
+            const std::size_t j = *base_job[i];
+            lexed[j] = lexer::lex_lexically(*jobs[j].file, *jobs[j].context,
+                                            lexer::ParserStop::none, note);
+        } else if (head_stopped && base_from_snapshot && !file.base_path.empty()) {
+            if (const auto blob = walker::read_side(repository, changes, file, Side::base)) {
+                lexer::ParseContext context;
+                context.convention = settings.convention;
+                relexed.push_back(
+                    lexer::lex_lexically(*blob, context, lexer::ParserStop::none, note));
+                snapshot_base_lexical[i] = &relexed.back();
+            }
+        }
+    }
 
     std::vector<FileSides> sides(changes.files.size());
     for (std::size_t i = 0; i < changes.files.size(); ++i) {
@@ -136,7 +189,11 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         sides[i].head_path = file.head_path;
         sides[i].base_lines = &file.base_lines;
         sides[i].head_lines = &file.head_lines;
-        if (base_from_snapshot && !file.base_path.empty()) {
+        if (snapshot_base_lexical[i] != nullptr) {
+            sides[i].base = side_functions(snapshot_base_lexical[i]);
+            report.warnings.push_back(
+                {"base", file.base_path, 0, snapshot_base_lexical[i]->warnings.front().message});
+        } else if (base_from_snapshot && !file.base_path.empty()) {
             sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
         }
     }

@@ -98,12 +98,12 @@ void write_table(std::ostream& out, const ChangeReport& report, const policy::Ve
     for (std::size_t i = first; i < last; ++i) {
         const FunctionDelta& f = report.functions[i];
         const std::string rules = rules_broken_by(verdict, f);
-        out << fmt::format("| {} | {} | {} | {} | {} | {} | {} | {} |\n",
-                           delta::label_name(f.label), code_cell(f.name),
-                           location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
-                           pair_cell(f, MeasureId::difficulty, 2),
-                           pair_cell(f, MeasureId::effort, 0), growth_cell(f),
-                           rules.empty() ? std::string() : cell_text(rules));
+        out << fmt::format(
+            "| {} | {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
+            code_cell(f.name) + (f.parser_stopped() ? " (parser stopped)" : ""),
+            location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
+            pair_cell(f, MeasureId::difficulty, 2), pair_cell(f, MeasureId::effort, 0),
+            growth_cell(f), rules.empty() ? std::string() : cell_text(rules));
     }
 }
 

@@ -119,7 +119,8 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
         std::vector<std::vector<std::string>> rows;
         rows.push_back({"label", "location", "function", "V", "D", "E", "rules"});
         for (const auto& f : report.functions) {
-            rows.push_back({delta::label_name(f.label), location_of(f), f.name,
+            rows.push_back({delta::label_name(f.label), location_of(f),
+                            f.parser_stopped() ? f.name + " [parser stopped]" : f.name,
                             change_cell(f, MeasureId::volume, 1),
                             change_cell(f, MeasureId::difficulty, 2),
                             change_cell(f, MeasureId::effort, 0), rules_broken_by(verdict, f)});

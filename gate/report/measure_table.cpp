@@ -52,7 +52,14 @@ std::string location(const MeasuredFunction& f) {
 }
 
 std::string display_name(const MeasuredFunction& f) {
+    if (f.parser_stopped) {
+        return f.name + " [parser stopped]";
+    }
     return f.lexical ? f.name + " [lexical]" : f.name;
+}
+
+const char* extent_of(const MeasuredFunction& f) {
+    return f.parser_stopped ? "parser-stopped" : f.lexical ? "lexical" : "syntax-tree";
 }
 
 nlohmann::json measures_json(const core::Measures& m) {
@@ -71,7 +78,7 @@ nlohmann::json function_json(const MeasuredFunction& f) {
         {"end_line", f.end_line},
         {"function", f.name},
         {"signature", f.signature},
-        {"extent", f.lexical ? "lexical" : "syntax-tree"},
+        {"extent", extent_of(f)},
         {"measures", measures_json(f.measures)},
     };
 }
@@ -191,7 +198,10 @@ void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         const std::string& source_label, const std::string& convention,
                         double stroud) {
     out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line, f.name,
-                       f.signature, source_label, convention, f.lexical ? ", lexical extent" : "");
+                       f.signature, source_label, convention,
+                       f.parser_stopped ? ", measured lexically: the parser stopped on this file"
+                       : f.lexical      ? ", lexical extent"
+                                        : "");
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {
         std::vector<std::pair<std::string, core::TableEntry>> rows(table.begin(), table.end());
