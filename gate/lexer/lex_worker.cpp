@@ -80,7 +80,12 @@ bool same_policy(const isolate::PathPolicy& a, const isolate::PathPolicy& b) {
 // Set limits and confinement; return false (with a line on stderr) when that fails.
 bool set_up(std::uint64_t memory_mib) {
     if (memory_mib > 0) {
-        const rlim_t bytes = static_cast<rlim_t>(memory_mib) * 1024 * 1024;
+        rlim_t bytes = static_cast<rlim_t>(memory_mib) * 1024 * 1024;
+        rlimit inherited{};
+        ::getrlimit(RLIMIT_AS, &inherited);
+        if (inherited.rlim_max != RLIM_INFINITY && inherited.rlim_max < bytes) {
+            bytes = inherited.rlim_max; // a lower limit set around tollgate stays in force
+        }
         if (!set_limit(RLIMIT_AS, bytes, bytes)) {
             std::fprintf(stderr, "tollgate parser: cannot limit the address space: %s\n",
                          std::strerror(errno));
