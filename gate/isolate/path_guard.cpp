@@ -15,6 +15,7 @@
 #include <memory>
 #include <mutex>
 #include <sys/stat.h>
+#include <unordered_map>
 
 namespace tollgate::isolate {
 
@@ -23,7 +24,17 @@ namespace {
 // Roots after resolution, immutable once published.
 struct ResolvedPolicy {
     std::vector<std::string> read_roots;
+    std::vector<std::string> given_write_roots; // as given, to keep their paths out of the memo
     std::vector<std::string> write_roots;
+
+    // Decisions on read-only paths, which do not change while a parser runs: loading a
+    // precompiled header checks every header it was built from, for every file parsed.
+    struct Decision {
+        int result = 0;
+        std::string resolved;
+    };
+    mutable std::mutex memo_mutex;
+    mutable std::unordered_map<std::string, Decision> memo;
 };
 
 std::atomic<const ResolvedPolicy*> g_policy{nullptr};
@@ -146,6 +157,7 @@ void confine_paths(const PathPolicy& policy) {
             }
         }
     }
+    resolved->given_write_roots = policy.write_roots;
     static std::mutex mutex;
     std::lock_guard<std::mutex> lock(mutex);
     g_policy.store(resolved.get(), std::memory_order_release);
@@ -165,12 +177,41 @@ int check_path(const char* path, PathUse use, char* resolved) {
         copy_out(path, resolved);
         return 0;
     }
+    if (use == PathUse::write) {
+        const int saved = errno;
+        const int result = check_write(*policy, path);
+        errno = saved;
+        return result;
+    }
+    // Paths in a write root (the cache) may appear during the run: never remembered.
+    const bool memorable =
+        !under(path, policy->given_write_roots) && !under(path, policy->write_roots);
+    std::string key;
+    if (memorable) {
+        key.assign(path);
+        key += use == PathUse::inspect ? '\1' : '\2';
+        std::lock_guard<std::mutex> lock(policy->memo_mutex);
+        const auto found = policy->memo.find(key);
+        if (found != policy->memo.end()) {
+            if (found->second.result == 0) {
+                copy_out(found->second.resolved, resolved);
+            }
+            return found->second.result;
+        }
+    }
     const int saved = errno;
     errno = 0;
-    const int result = use == PathUse::write
-                           ? check_write(*policy, path)
-                           : check_read(*policy, path, use == PathUse::inspect, resolved);
+    char real[PATH_MAX];
+    const int result = check_read(*policy, path, use == PathUse::inspect, real);
     errno = saved;
+    if (result == 0) {
+        copy_out(real, resolved);
+    }
+    if (memorable) {
+        std::lock_guard<std::mutex> lock(policy->memo_mutex);
+        policy->memo.emplace(std::move(key),
+                             ResolvedPolicy::Decision{result, result == 0 ? real : ""});
+    }
     return result;
 }
 

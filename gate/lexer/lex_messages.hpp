@@ -1,6 +1,6 @@
 // SPDX-License-Identifier: MIT
-// The messages between Tollgate and its parser processes, encoded as MessagePack (any bytes of a
-// source file travel unchanged).
+// The messages between Tollgate and its parser processes, in a compact binary encoding (any bytes
+// of a source file travel unchanged).
 #pragma once
 
 #include "gate/common/source.hpp"

@@ -46,8 +46,8 @@ std::string missing_include_text(const std::string& message) {
         return message;
     }
     return "include \"" + message.substr(1, end - 1) +
-           "\" not found (only the revision's files and the system and compile-database include "
-           "folders are read)";
+           "\" not found (only the revision's files, the system include folders and those of a "
+           "compile database given with --compile-commands are read)";
 }
 
 } // namespace

@@ -177,8 +177,9 @@ TEST_CASE("lex_jobs confines includes", "[lexer]") {
         REQUIRE(lexed[0].functions.size() == 1);
         CHECK(lexed[0].functions[0].qualified_name == "confined");
         CHECK(lexed[0].functions[0].mode == lexer::ExtentMode::syntax_tree);
-        const std::string expected_end = "\" not found (only the revision's files and the system "
-                                         "and compile-database include folders are read)";
+        const std::string expected_end =
+            "\" not found (only the revision's files, the system include folders and those of a "
+            "compile database given with --compile-commands are read)";
         CHECK(lexed[0].warnings.size() == 3);
         for (const auto& w : lexed[0].warnings) {
             CHECK(w.message.rfind("include \"", 0) == 0);
