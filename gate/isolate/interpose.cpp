@@ -138,12 +138,7 @@ FILE* fopen_guarded(Fopen&& fopen_real, const char* path, const char* modes) {
     return file;
 }
 
-// A read check in front of a call that takes a path first.
-#define TOLLGATE_READ_CHECK(path, failure)                                                         \
-    if (paths_confined() && guard(path, PathUse::read) != 0) {                                     \
-        return failure;                                                                            \
-    }
-
+// Checks in front of a call that takes a path first: metadata only, or a write.
 #define TOLLGATE_INSPECT_CHECK(path, failure)                                                      \
     if (paths_confined() && guard(path, PathUse::inspect) != 0) {                                  \
         return failure;                                                                            \

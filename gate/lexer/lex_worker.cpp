@@ -93,6 +93,12 @@ bool set_up(std::uint64_t memory_mib) {
         }
     }
     set_limit(RLIMIT_CORE, 0, 0);
+    // Descriptors the parent opened without close-on-exec (libgit2's, say) are not the parser's.
+    if (::close_range(k_worker_socket_fd + 1, ~0U, 0) != 0) {
+        for (int fd = k_worker_socket_fd + 1; fd < 4096; ++fd) {
+            ::close(fd);
+        }
+    }
     std::set_new_handler(out_of_memory);
     std::signal(SIGABRT, on_abort);
     if (::chdir("/") != 0) {

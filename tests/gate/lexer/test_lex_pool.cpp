@@ -7,6 +7,12 @@
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
+#include <chrono>
+#include <csignal>
+#include <filesystem>
+#include <fstream>
+#include <thread>
+#include <unistd.h>
 
 using namespace tollgate;
 
@@ -77,6 +83,41 @@ std::vector<std::string> all_text(const lexer::FileFunctions& file) {
     return text;
 }
 
+// Return the process ids of this process's parser processes.
+std::vector<pid_t> parser_processes() {
+    std::vector<pid_t> found;
+    for (const auto& entry : std::filesystem::directory_iterator("/proc")) {
+        const std::string name = entry.path().filename().string();
+        if (name.find_first_not_of("0123456789") != std::string::npos) {
+            continue;
+        }
+        std::ifstream stat(entry.path() / "stat");
+        std::string pid, command, state;
+        long parent = 0;
+        stat >> pid >> command >> state >> parent;
+        const std::string cmdline = test::read_text((entry.path() / "cmdline").string());
+        if (parent == ::getpid() && state != "Z" &&
+            cmdline.find("__lex-worker") != std::string::npos) {
+            found.push_back(static_cast<pid_t>(std::stol(pid)));
+        }
+    }
+    return found;
+}
+
+// Kill `pid` and wait until it is dead (a zombie waiting for its parent to reap it).
+void kill_and_wait(pid_t pid) {
+    ::kill(pid, SIGKILL);
+    for (int i = 0; i < 500; ++i) {
+        std::ifstream stat("/proc/" + std::to_string(pid) + "/stat");
+        std::string id, command, state;
+        stat >> id >> command >> state;
+        if (!stat || state == "Z") {
+            return;
+        }
+        std::this_thread::sleep_for(std::chrono::milliseconds(10));
+    }
+}
+
 bool mentions(const lexer::FileFunctions& file, const std::string& word) {
     for (const auto& text : all_text(file)) {
         if (text.find(word) != std::string::npos) {
@@ -127,6 +168,24 @@ TEST_CASE("lex_jobs in parser processes", "[lexer]") {
             REQUIRE_FALSE(lexed[i].functions.empty());
             CHECK(lexed[i].functions[0].mode == lexer::ExtentMode::syntax_tree);
         }
+    }
+    SECTION("a parser process killed between files is replaced and the next file is parsed") {
+        std::size_t done = 0;
+        std::size_t killed = 0;
+        const auto lexed = lexer::lex_files(files, context, 1, [&](const lexer::FileFunctions&) {
+            if (++done == 2) {
+                for (const pid_t pid : parser_processes()) {
+                    kill_and_wait(pid);
+                    ++killed;
+                }
+            }
+        });
+        CHECK(killed >= 1); // the one at work, and any the pool kept from earlier calls
+        for (std::size_t i = 0; i < files.size(); ++i) {
+            INFO(files[i].path);
+            CHECK(lexed[i].parser_stop == lexer::ParserStop::none);
+        }
+        CHECK_FALSE(parser_processes().empty());
     }
     SECTION("a file that runs past the processor-time limit is measured lexically") {
         const IsolationScope limits(1);
