@@ -111,6 +111,32 @@ TEST_CASE("check never copies a host file into a report", "[check][hostile]") {
     }
 }
 
+TEST_CASE("check reads no host folder a committed compile database names", "[check][hostile]") {
+    TempDir outside;
+    outside.write("vendor/config.h", "#define SECRET_READ 1\n");
+    TempDir dir;
+    init_repo(dir.path());
+    dir.write("src/a.cpp", "int f(int a) { return a; }\n");
+    commit_all(dir.path(), "base");
+    // The change brings its own database naming a folder of the host.
+    dir.write("compile_commands.json",
+              nlohmann::json::array(
+                  {{{"directory", dir.path()},
+                    {"file", dir.path() + "/src/a.cpp"},
+                    {"arguments", {"c++", "-I" + outside.path() + "/vendor", "-c", "src/a.cpp"}}}})
+                  .dump());
+    dir.write("src/a.cpp",
+              "#include \"config.h\"\n#ifdef SECRET_READ\n"
+              "int leaked(int a) { return a; }\n#endif\nint f(int a) { return -a; }\n");
+    commit_all(dir.path(), "head");
+    TempDir reports_dir;
+    const Reports reports = check_all_reports(dir.path(), "--base HEAD~1", reports_dir.path());
+    INFO(reports.err);
+    REQUIRE((reports.exit_code == 0 || reports.exit_code == 1));
+    CHECK_FALSE(in_any(reports, "leaked"));
+    CHECK(reports.text.find("include \"config.h\" not found") != std::string::npos);
+}
+
 TEST_CASE("check never opens a device or a FIFO named by an include", "[check][hostile]") {
     TempDir outside;
     REQUIRE(run_command("mkfifo pipe.h", outside.path()).exit_code == 0);
