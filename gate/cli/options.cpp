@@ -53,7 +53,7 @@ void add_stroud_option(CLI::App& sub, double& stroud) {
 }
 
 void add_jobs_option(CLI::App& sub, unsigned& jobs) {
-    sub.add_option("-j,--jobs", jobs, "Parser threads (0 = all cores)")->capture_default_str();
+    sub.add_option("-j,--jobs", jobs, "Parser processes (0 = all cores)")->capture_default_str();
 }
 
 SourceRequest to_request(const SourceOptions& options) {

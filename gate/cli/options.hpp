@@ -39,7 +39,7 @@ void apply_isolation_options(const IsolationOptions& options);
 // Add `--stroud S` (the Stroud number for T = E / S, 1 to 100) bound to `stroud`.
 void add_stroud_option(CLI::App& sub, double& stroud);
 
-// Add `-j,--jobs N` (parser threads, 0 = all cores) bound to `jobs`.
+// Add `-j,--jobs N` (parser processes, 0 = all cores) bound to `jobs`.
 void add_jobs_option(CLI::App& sub, unsigned& jobs);
 
 // Turn parsed source options into a request for load_sources.
