@@ -8,6 +8,14 @@
 
 namespace tollgate::lexer {
 
+namespace {
+
+// Tokens the fallback measures at most (about 250 bytes each while measured): a 1 MB line of
+// `a+a+...` is a million tokens.
+constexpr std::size_t k_max_fallback_tokens = 4'000'000;
+
+} // namespace
+
 std::string parser_stop_text(ParserStop stop, unsigned seconds) {
     switch (stop) {
     case ParserStop::none:
@@ -34,8 +42,16 @@ FileFunctions lex_lexically(const SourceFile& file, const ParseContext& context,
         result.warnings.push_back({file.path, 0, "not a c or c++ file: nothing measured"});
         return result;
     }
+    const RawTokens raw = tokenize_raw(file.content, *language, k_max_fallback_tokens);
+    if (!raw.complete) {
+        // This process must not spend gigabytes on one hostile file.
+        result.warnings.push_back({file.path, 0,
+                                   warning + ", but it holds more than " +
+                                       std::to_string(k_max_fallback_tokens) +
+                                       " tokens: not measured"});
+        return result;
+    }
     result.warnings.push_back({file.path, 0, warning});
-    const RawTokens raw = tokenize_raw(file.content, *language);
     std::vector<PendingFunction> pending;
     for (const LexicalDefinition& definition : scan_definitions(raw.tokens, raw.directives)) {
         PendingFunction item;

@@ -153,12 +153,16 @@ bool is_digit(unsigned char c) {
 
 class RawLexer {
 public:
-    RawLexer(const std::string& content, Language language)
+    RawLexer(const std::string& content, Language language, std::size_t max_tokens)
         : m_text(content), m_language(language), m_keywords(keywords(language)),
-          m_lines(line_starts(content)) {}
+          m_lines(line_starts(content)), m_max_tokens(max_tokens) {}
 
     RawTokens run() {
         while (skip_space_and_comments()) {
+            if (m_result.tokens.size() >= m_max_tokens) {
+                m_result.complete = false;
+                break;
+            }
             const std::size_t begin = m_at;
             const core::LexKind kind = lex_token();
             emit(begin, kind);
@@ -441,6 +445,7 @@ private:
     Language m_language;
     const std::unordered_set<std::string_view>& m_keywords;
     std::vector<unsigned> m_lines;
+    std::size_t m_max_tokens;
     std::size_t m_at = 0;
     unsigned m_previous_line = 0;
     unsigned m_directive_end = 0;
@@ -449,11 +454,13 @@ private:
 
 } // namespace
 
-RawTokens tokenize_raw(const std::string& content, Language language) {
+RawTokens tokenize_raw(const std::string& content, Language language, std::size_t max_tokens) {
     if (content.size() >= static_cast<std::size_t>(UINT32_MAX)) {
-        return {}; // offsets are 32-bit; such a file is not source code
+        RawTokens none; // offsets are 32-bit; such a file is not source code
+        none.complete = false;
+        return none;
     }
-    return RawLexer(content, language).run();
+    return RawLexer(content, language, max_tokens).run();
 }
 
 } // namespace tollgate::lexer

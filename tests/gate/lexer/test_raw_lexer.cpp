@@ -187,6 +187,13 @@ TEST_CASE("tokenize_raw matches clang's lexer", "[lexer]") {
         CHECK(raw.directives[1].before == 3);
         CHECK(raw.directives[2].kind == lexer::DirectiveKind::close_condition);
     }
+    SECTION("the lexer stops at its token limit and says so") {
+        const auto cut =
+            lexer::tokenize_raw("int a = b + c + d + e + f;\n", lexer::Language::cxx, 5);
+        CHECK(cut.tokens.size() == 5);
+        CHECK_FALSE(cut.complete);
+        CHECK(lexer::tokenize_raw("int a;\n", lexer::Language::cxx, 5).complete);
+    }
     SECTION("a megabyte of one expression is read in one pass") {
         std::string line = "int f(int a) { return ";
         for (int i = 0; i < 250000; ++i) {
