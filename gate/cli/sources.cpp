@@ -111,6 +111,21 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
     return selected;
 }
 
+// Read a compile database found in the working tree, which may be the change under review: a
+// symlink or FIFO there is not followed. Return nothing when there is none to read.
+std::optional<std::string> read_found_database(const fs::path& path) {
+    DiskFile file = read_regular_file(path.string());
+    if (file.entry == DiskEntry::regular) {
+        spdlog::debug("using compile database {}", path.string());
+        return std::move(file.content);
+    }
+    if (file.entry != DiskEntry::missing) {
+        spdlog::warn("compile database \"{}\" left out: {}", path.string(),
+                     disk_entry_text(file.entry));
+    }
+    return std::nullopt;
+}
+
 } // namespace
 
 std::string read_compile_commands(const std::string& given, const std::string& root) {
@@ -120,20 +135,12 @@ std::string read_compile_commands(const std::string& given, const std::string& r
         }
         return read_disk_file(given);
     }
+    if (root.empty()) {
+        return {};
+    }
     for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
-        const fs::path path = fs::path(root) / candidate;
-        if (root.empty()) {
-            continue;
-        }
-        // The working tree may be the change under review: a symlink or FIFO is not followed.
-        DiskFile file = read_regular_file(path.string());
-        if (file.entry == DiskEntry::regular) {
-            spdlog::debug("using compile database {}", path.string());
-            return std::move(file.content);
-        }
-        if (file.entry != DiskEntry::missing) {
-            spdlog::warn("compile database \"{}\" left out: {}", path.string(),
-                         disk_entry_text(file.entry));
+        if (auto found = read_found_database(fs::path(root) / candidate)) {
+            return std::move(*found);
         }
     }
     return {};

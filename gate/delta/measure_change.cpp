@@ -82,6 +82,126 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
     return lexed;
 }
 
+// Every file side lexed for one change, and where each changed file's sides are.
+struct LexedChange {
+    std::vector<lexer::LexJob> jobs;                       // one per file and side
+    std::vector<std::pair<std::size_t, Side>> owner;       // per job: changed file and side
+    std::vector<lexer::FileFunctions> lexed;               // per job
+    std::vector<std::optional<std::size_t>> base_job;      // per changed file
+    std::vector<std::optional<std::size_t>> head_job;      // per changed file
+    std::vector<lexer::FileFunctions> relexed;             // snapshot bases measured lexically
+    std::vector<const lexer::FileFunctions*> relexed_base; // per changed file, or null
+};
+
+// Lex both sides of every changed file through one pool (the base only when not from a snapshot).
+LexedChange lex_change(const walker::ChangeSet& changes, const SideSources& base,
+                       const SideSources& head, bool base_from_snapshot,
+                       const MeasureChangeSettings& settings) {
+    LexedChange change;
+    const std::size_t files = changes.files.size();
+    for (std::size_t i = 0; i < files; ++i) {
+        if (!base_from_snapshot && base.changed[i]) {
+            change.jobs.push_back({&*base.changed[i], &base.context});
+            change.owner.emplace_back(i, Side::base);
+        }
+        if (head.changed[i]) {
+            change.jobs.push_back({&*head.changed[i], &head.context});
+            change.owner.emplace_back(i, Side::head);
+        }
+    }
+    spdlog::debug("lexing {} file sides of {} changed files", change.jobs.size(), files);
+    change.lexed = lex_with_cache(change.jobs, settings);
+    change.base_job.resize(files);
+    change.head_job.resize(files);
+    for (std::size_t j = 0; j < change.lexed.size(); ++j) {
+        const auto [index, side] = change.owner[j];
+        (side == Side::base ? change.base_job : change.head_job)[index] = j;
+    }
+    change.relexed.reserve(files); // pointers into it stay valid
+    change.relexed_base.assign(files, nullptr);
+    return change;
+}
+
+bool stopped(const LexedChange& change, const std::optional<std::size_t>& job) {
+    return job && change.lexed[*job].parser_stop != lexer::ParserStop::none;
+}
+
+// Return true when the snapshot's functions of `path` were measured after the parser stopped.
+bool snapshot_stopped(const baseline::Snapshot& snapshot, const std::string& path) {
+    for (const auto& f : side_functions(snapshot, path)) {
+        if (f.mode() == lexer::ExtentMode::parser_stopped) {
+            return true;
+        }
+    }
+    return false;
+}
+
+// Where the parser stopped on one side of a file, measure the other side lexically too, so that
+// base and head are counted by the same rules (a base from the snapshot is read again for it).
+void measure_sides_alike(LexedChange& change, const walker::Repository& repository,
+                         const walker::ChangeSet& changes, const MeasureChangeSettings& settings,
+                         bool base_from_snapshot) {
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        const bool snapshot_base = base_from_snapshot && !file.base_path.empty();
+        const bool head_stopped = stopped(change, change.head_job[i]);
+        const bool base_stopped =
+            stopped(change, change.base_job[i]) ||
+            (snapshot_base && snapshot_stopped(*settings.base_snapshot, file.base_path));
+        if (head_stopped == base_stopped) {
+            continue;
+        }
+        const std::string note = std::string("the parser stopped on the ") +
+                                 (head_stopped ? "head" : "base") +
+                                 " side of this file: this side is measured lexically too";
+        const auto& other = head_stopped ? change.base_job[i] : change.head_job[i];
+        if (other) {
+            const lexer::LexJob& job = change.jobs[*other];
+            change.lexed[*other] =
+                lexer::lex_lexically(*job.file, *job.context, lexer::ParserStop::none, note);
+        } else if (head_stopped && snapshot_base) {
+            if (const auto blob = walker::read_side(repository, changes, file, Side::base)) {
+                lexer::ParseContext context;
+                context.convention = settings.convention;
+                change.relexed.push_back(
+                    lexer::lex_lexically(*blob, context, lexer::ParserStop::none, note));
+                change.relexed_base[i] = &change.relexed.back();
+            }
+        }
+    }
+}
+
+// The two sides of every changed file, for compare_functions; warnings go to `report`.
+std::vector<FileSides> assemble_sides(const LexedChange& change, const walker::ChangeSet& changes,
+                                      const MeasureChangeSettings& settings,
+                                      bool base_from_snapshot, ChangeReport& report) {
+    std::vector<FileSides> sides(changes.files.size());
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        sides[i].base_path = file.base_path;
+        sides[i].head_path = file.head_path;
+        sides[i].base_lines = &file.base_lines;
+        sides[i].head_lines = &file.head_lines;
+        if (const lexer::FileFunctions* relexed = change.relexed_base[i]) {
+            sides[i].base = side_functions(relexed);
+            report.warnings.push_back(
+                {"base", file.base_path, 0, relexed->warnings.front().message});
+        } else if (base_from_snapshot && !file.base_path.empty()) {
+            sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
+        }
+    }
+    for (std::size_t j = 0; j < change.lexed.size(); ++j) {
+        const auto [index, side] = change.owner[j];
+        (side == Side::base ? sides[index].base : sides[index].head) =
+            side_functions(&change.lexed[j]);
+        for (const auto& w : change.lexed[j].warnings) {
+            report.warnings.push_back(
+                {side == Side::base ? "base" : "head", w.path, w.line, w.message});
+        }
+    }
+    return sides;
+}
+
 } // namespace
 
 ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
@@ -119,92 +239,10 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
                                  : read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
 
-    // One job per file and side; both sides go through one pool.
-    std::vector<lexer::LexJob> jobs;
-    std::vector<std::pair<std::size_t, Side>> job_owner;
-    for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        if (!base_from_snapshot && base.changed[i]) {
-            jobs.push_back({&*base.changed[i], &base.context});
-            job_owner.emplace_back(i, Side::base);
-        }
-        if (head.changed[i]) {
-            jobs.push_back({&*head.changed[i], &head.context});
-            job_owner.emplace_back(i, Side::head);
-        }
-    }
-    spdlog::debug("lexing {} file sides of {} changed files", jobs.size(), changes.files.size());
-    std::vector<lexer::FileFunctions> lexed = lex_with_cache(jobs, settings);
-    std::vector<std::optional<std::size_t>> base_job(changes.files.size());
-    std::vector<std::optional<std::size_t>> head_job(changes.files.size());
-    for (std::size_t j = 0; j < lexed.size(); ++j) {
-        const auto [index, side] = job_owner[j];
-        (side == Side::base ? base_job : head_job)[index] = j;
-    }
-
-    // A side the parser stopped on was measured lexically: measure the other side of the same
-    // file lexically too, so that base and head are counted by the same rules.
-    std::vector<lexer::FileFunctions> relexed; // base sides re-read from the object database
-    relexed.reserve(changes.files.size());
-    std::vector<const lexer::FileFunctions*> snapshot_base_lexical(changes.files.size(), nullptr);
-    for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        const auto& file = changes.files[i];
-        const bool head_stopped =
-            head_job[i] && lexed[*head_job[i]].parser_stop != lexer::ParserStop::none;
-        bool base_stopped =
-            base_job[i] && lexed[*base_job[i]].parser_stop != lexer::ParserStop::none;
-        if (base_from_snapshot && !file.base_path.empty()) {
-            for (const auto& f : side_functions(*settings.base_snapshot, file.base_path)) {
-                base_stopped = base_stopped || f.mode() == lexer::ExtentMode::parser_stopped;
-            }
-        }
-        if (head_stopped == base_stopped) {
-            continue;
-        }
-        const std::string note = std::string("the parser stopped on the ") +
-                                 (head_stopped ? "head" : "base") +
-                                 " side of this file: this side is measured lexically too";
-        if (base_stopped && head_job[i]) {
-            const std::size_t j = *head_job[i];
-            lexed[j] = lexer::lex_lexically(*jobs[j].file, *jobs[j].context,
-                                            lexer::ParserStop::none, note);
-        } else if (head_stopped && base_job[i]) {
-            const std::size_t j = *base_job[i];
-            lexed[j] = lexer::lex_lexically(*jobs[j].file, *jobs[j].context,
-                                            lexer::ParserStop::none, note);
-        } else if (head_stopped && base_from_snapshot && !file.base_path.empty()) {
-            if (const auto blob = walker::read_side(repository, changes, file, Side::base)) {
-                lexer::ParseContext context;
-                context.convention = settings.convention;
-                relexed.push_back(
-                    lexer::lex_lexically(*blob, context, lexer::ParserStop::none, note));
-                snapshot_base_lexical[i] = &relexed.back();
-            }
-        }
-    }
-
-    std::vector<FileSides> sides(changes.files.size());
-    for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        const auto& file = changes.files[i];
-        sides[i].base_path = file.base_path;
-        sides[i].head_path = file.head_path;
-        sides[i].base_lines = &file.base_lines;
-        sides[i].head_lines = &file.head_lines;
-        if (snapshot_base_lexical[i] != nullptr) {
-            sides[i].base = side_functions(snapshot_base_lexical[i]);
-            report.warnings.push_back(
-                {"base", file.base_path, 0, snapshot_base_lexical[i]->warnings.front().message});
-        } else if (base_from_snapshot && !file.base_path.empty()) {
-            sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
-        }
-    }
-    for (std::size_t j = 0; j < lexed.size(); ++j) {
-        const auto [index, side] = job_owner[j];
-        (side == Side::base ? sides[index].base : sides[index].head) = side_functions(&lexed[j]);
-        for (const auto& w : lexed[j].warnings) {
-            report.warnings.push_back(
-                {side == Side::base ? "base" : "head", w.path, w.line, w.message});
-        }
-    }
+    LexedChange lexed = lex_change(changes, base, head, base_from_snapshot, settings);
+    measure_sides_alike(lexed, repository, changes, settings, base_from_snapshot);
+    const std::vector<FileSides> sides =
+        assemble_sides(lexed, changes, settings, base_from_snapshot, report);
     report.functions = compare_functions(sides, settings.measures);
     compute_totals(report);
     return report;

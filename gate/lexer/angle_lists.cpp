@@ -20,6 +20,23 @@ bool rules_out_list(const SourceToken& t) {
            is_punct(t, "<=") || is_punct(t, ">=");
 }
 
+// Return, for each token of `tokens[begin..begin + size)`, the index (relative to `begin`) of the
+// bracket that closes it when it opens one; ( [ { match any of ) ] }, as match_bracket counts them.
+std::vector<std::size_t> bracket_closes(const std::vector<SourceToken>& tokens, std::size_t begin,
+                                        std::size_t size, std::size_t none) {
+    std::vector<std::size_t> close(size, none);
+    std::vector<std::size_t> stack;
+    for (std::size_t k = 0; k < size; ++k) {
+        if (opens(tokens[begin + k])) {
+            stack.push_back(k);
+        } else if (closes(tokens[begin + k]) && !stack.empty()) {
+            close[stack.back()] = k;
+            stack.pop_back();
+        }
+    }
+    return close;
+}
+
 } // namespace
 
 AngleLists::AngleLists(const std::vector<SourceToken>& tokens, std::size_t begin, std::size_t end)
@@ -33,17 +50,7 @@ AngleLists::AngleLists(const std::vector<SourceToken>& tokens, std::size_t begin
     for (std::size_t k = 0; k < size; ++k) {
         m_disqualify[k + 1] = m_disqualify[k] + (rules_out_list(tokens[begin + k]) ? 1 : 0);
     }
-    // Brackets ( [ { match any of ) ] }, as match_bracket counts them.
-    std::vector<std::size_t> bracket_close(size, k_none);
-    std::vector<std::size_t> stack;
-    for (std::size_t k = 0; k < size; ++k) {
-        if (opens(tokens[begin + k])) {
-            stack.push_back(k);
-        } else if (closes(tokens[begin + k]) && !stack.empty()) {
-            bracket_close[stack.back()] = k;
-            stack.pop_back();
-        }
-    }
+    const std::vector<std::size_t> bracket_close = bracket_closes(tokens, begin, size, k_none);
     // The depth a nested list's scan ended at (0, or -1 after a closing `>>`).
     std::vector<int> end_depth(size, 0);
     for (std::size_t open = size; open-- > 0;) {

@@ -51,11 +51,13 @@ std::string location(const MeasuredFunction& f) {
     return fmt::format("{}:{}", f.path, f.start_line);
 }
 
+// The mark after a function's name that says how its extent was found (none for the parser's).
+const char* extent_mark(const MeasuredFunction& f) {
+    return f.parser_stopped ? " [parser stopped]" : f.lexical ? " [lexical]" : "";
+}
+
 std::string display_name(const MeasuredFunction& f) {
-    if (f.parser_stopped) {
-        return f.name + " [parser stopped]";
-    }
-    return f.lexical ? f.name + " [lexical]" : f.name;
+    return f.name + extent_mark(f);
 }
 
 const char* extent_of(const MeasuredFunction& f) {
