@@ -50,7 +50,7 @@ Json function_json(const SnapshotFunction& f) {
     object["fallback_key"] = f.fallback_key;
     object["function"] = f.qualified_name;
     object["signature"] = f.signature;
-    object["extent"] = extent_name(f.mode);
+    object["extent"] = lexer::extent_name(f.mode);
     object["token_hash"] = f.token_hash;
     object["counts"] = {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};

@@ -268,9 +268,11 @@ private:
         const std::string extent = string_at(object, "extent", pointer);
         if (extent == "lexical") {
             f.mode = lexer::ExtentMode::lexical;
+        } else if (extent == "parser-stopped") {
+            f.mode = lexer::ExtentMode::parser_stopped;
         } else if (extent != "syntax-tree") {
-            throw corrupted(pointer + "/extent: expected \"syntax-tree\" or \"lexical\", found \"" +
-                            extent + "\"");
+            throw corrupted(pointer + "/extent: expected \"syntax-tree\", \"lexical\" or " +
+                            "\"parser-stopped\", found \"" + extent + "\"");
         }
         f.token_hash = string_at(object, "token_hash", pointer);
         const Json& counts = member(object, "counts", pointer);

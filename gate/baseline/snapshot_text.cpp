@@ -16,10 +16,6 @@ std::string schema_text(int version) {
     return std::string(k_snapshot_schema_name) + "/" + std::to_string(version);
 }
 
-const char* extent_name(lexer::ExtentMode mode) {
-    return mode == lexer::ExtentMode::lexical ? "lexical" : "syntax-tree";
-}
-
 std::string dump(const Json& value, int indent) {
     return ::tollgate::text::dump_json(value, indent);
 }

@@ -20,9 +20,6 @@ inline constexpr const char* k_digest_prefix = "fnv1a64:";
 // Return the "schema" value of schema version `version`, e.g. "tollgate.snapshot/1".
 std::string schema_text(int version);
 
-// Return the "extent" value of `mode`: "lexical" or "syntax-tree".
-const char* extent_name(lexer::ExtentMode mode);
-
 // Serialize `value` as written to disk (`indent` -1 is compact); invalid UTF-8 in source text
 // becomes U+FFFD so dumping never throws and a re-read dumps to the same bytes (the exact bytes
 // are kept under a function's "exact" key).

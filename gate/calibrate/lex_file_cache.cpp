@@ -5,6 +5,7 @@
 
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/lexer/file_functions_json.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -26,8 +27,8 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-// Version 2: every text is kept losslessly with text::store_bytes (source text need not be
-// UTF-8, JSON strings must be).
+// Version 2: the entry's lexed file is lexer::file_functions_to_json, every text kept losslessly
+// with text::store_bytes (source text need not be UTF-8, JSON strings must be).
 constexpr const char* k_format = "tollgate.lexcache/2";
 
 __extension__ typedef unsigned __int128 Hash128;
@@ -135,89 +136,6 @@ bool path_ends_with(const std::string& path, const std::string& name) {
 std::string basename_of(const std::string& path) {
     const auto slash = path.rfind('/');
     return slash == std::string::npos ? path : path.substr(slash + 1);
-}
-
-using text::store_bytes;
-
-// The bytes store_bytes kept in the string `stored`; throws when the entry is damaged.
-std::string stored_text(const json& stored) {
-    auto bytes = text::unstore_bytes(stored.get<std::string>());
-    if (!bytes) {
-        throw std::runtime_error("bad stored text");
-    }
-    return std::move(*bytes);
-}
-
-json to_json(const lexer::FileFunctions& functions) {
-    json list = json::array();
-    for (const auto& f : functions.functions) {
-        json tokens = json::array();
-        for (const auto& t : f.tokens) {
-            tokens.push_back({store_bytes(t.key), store_bytes(t.spelling),
-                              t.role == core::Role::operand_token ? 1 : 0, store_bytes(t.form),
-                              static_cast<int>(t.basis), t.line});
-        }
-        list.push_back({{"usr", store_bytes(f.usr)},
-                        {"fallback_key", store_bytes(f.fallback_key)},
-                        {"qualified_name", store_bytes(f.qualified_name)},
-                        {"signature", store_bytes(f.signature)},
-                        {"path", store_bytes(f.path)},
-                        {"start_line", f.start_line},
-                        {"end_line", f.end_line},
-                        {"lexical", f.mode == lexer::ExtentMode::lexical},
-                        {"potential_operands", f.potential_operands},
-                        {"token_hash", f.token_hash},
-                        {"tokens", tokens}});
-    }
-    json warnings = json::array();
-    for (const auto& w : functions.warnings) {
-        warnings.push_back({store_bytes(w.path), w.line, store_bytes(w.message)});
-    }
-    return {{"path", store_bytes(functions.path)},
-            {"functions", list},
-            {"warnings", warnings},
-            {"lexically_recovered", functions.lexically_recovered}};
-}
-
-lexer::FileFunctions from_json(const json& j) {
-    lexer::FileFunctions out;
-    out.path = stored_text(j.at("path"));
-    for (const auto& f : j.at("functions")) {
-        lexer::FunctionSpan span;
-        span.usr = stored_text(f.at("usr"));
-        span.fallback_key = stored_text(f.at("fallback_key"));
-        span.qualified_name = stored_text(f.at("qualified_name"));
-        span.signature = stored_text(f.at("signature"));
-        span.path = stored_text(f.at("path"));
-        span.start_line = f.at("start_line").get<unsigned>();
-        span.end_line = f.at("end_line").get<unsigned>();
-        span.mode = f.at("lexical").get<bool>() ? lexer::ExtentMode::lexical
-                                                : lexer::ExtentMode::syntax_tree;
-        span.potential_operands = f.at("potential_operands").get<std::uint64_t>();
-        span.token_hash = f.at("token_hash").get<std::string>();
-        for (const auto& t : f.at("tokens")) {
-            core::Token token;
-            token.key = stored_text(t.at(0));
-            token.spelling = stored_text(t.at(1));
-            token.role =
-                t.at(2).get<int>() == 1 ? core::Role::operand_token : core::Role::operator_token;
-            token.form = stored_text(t.at(3));
-            const int basis = t.at(4).get<int>();
-            if (basis < 0 || basis > static_cast<int>(core::Basis::lexical)) {
-                throw std::runtime_error("bad basis");
-            }
-            token.basis = static_cast<core::Basis>(basis);
-            token.line = t.at(5).get<unsigned>();
-            span.tokens.push_back(std::move(token));
-        }
-        out.functions.push_back(std::move(span));
-    }
-    for (const auto& w : j.at("warnings")) {
-        out.warnings.push_back(
-            {stored_text(w.at(0)), w.at(1).get<unsigned>(), stored_text(w.at(2))});
-    }
-    out.lexically_recovered = j.at("lexically_recovered").get<unsigned>();
-    return out;
 }
 
 } // namespace
@@ -334,7 +252,7 @@ std::optional<lexer::FileFunctions> LexFileCache::find(const SourceFile& file,
             entry.at("key").get<std::string>() != key) {
             throw std::runtime_error("key mismatch");
         }
-        lexer::FileFunctions functions = from_json(entry.at("lexed"));
+        lexer::FileFunctions functions = lexer::file_functions_from_json(entry.at("lexed"));
         std::lock_guard<std::mutex> lock(m_mutex);
         ++m_counts.hits;
         return functions;
@@ -347,7 +265,8 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
                          const lexer::FileFunctions& functions) {
     const std::string key = lex_cache_key(file, context);
     const fs::path final_path = entry_path(key);
-    const json entry = {{"format", k_format}, {"key", key}, {"lexed", to_json(functions)}};
+    const json entry = {
+        {"format", k_format}, {"key", key}, {"lexed", lexer::file_functions_to_json(functions)}};
     const std::string serialised = text::dump_json(entry, -1);
     const fs::path temp_path = fs::path(m_dir) / ("tmp." + std::to_string(::getpid()) + "." +
                                                   std::to_string(m_temp_serial++) + ".part");
@@ -392,6 +311,18 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
             std::this_thread::sleep_for(std::chrono::seconds(1));
         }
     }
+}
+
+void LexFileCache::abandon(const SourceFile& file, const lexer::ParseContext& context) {
+    const std::string key = lex_cache_key(file, context);
+    {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        const auto owner = m_in_flight.find(key);
+        if (owner != m_in_flight.end() && owner->second == std::this_thread::get_id()) {
+            m_in_flight.erase(owner);
+        }
+    }
+    m_stored.notify_all();
 }
 
 CacheCounts LexFileCache::counts() const {

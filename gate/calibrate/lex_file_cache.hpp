@@ -62,6 +62,8 @@ public:
     // counted, not thrown.
     void store(const SourceFile& file, const lexer::ParseContext& context,
                const lexer::FileFunctions& functions) override;
+    // Release the key of `file` and `context` without writing an entry.
+    void abandon(const SourceFile& file, const lexer::ParseContext& context) override;
 
     // Return the counts so far.
     CacheCounts counts() const;

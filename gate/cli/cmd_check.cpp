@@ -39,6 +39,7 @@ struct CheckOptions {
     std::string link_template;        // --link-template
     std::size_t markdown_rows = 10;   // --markdown-rows
     unsigned jobs = 0;                // --jobs
+    IsolationOptions isolation;       // --parse-timeout, --parse-memory
     std::string compile_commands;     // --compile-commands
     std::string cache_dir;            // --cache-dir
     bool no_cache = false;            // --no-pch-cache
@@ -85,6 +86,7 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
 }
 
 int run_check(const CheckOptions& options) {
+    apply_isolation_options(options.isolation);
     const auto targets = parse_report_targets(options.reports);
     const auto repository = walker::Repository::open(std::filesystem::current_path().string());
 
@@ -96,6 +98,9 @@ int run_check(const CheckOptions& options) {
     settings.compile_commands_json =
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.compile_commands_root = repository.workdir();
+    settings.compile_commands_origin = options.compile_commands.empty()
+                                           ? lexer::DatabaseOrigin::found
+                                           : lexer::DatabaseOrigin::given;
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
@@ -163,6 +168,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "Rows of the Markdown table shown before the rest is folded")
         ->capture_default_str();
     add_jobs_option(sub, options->jobs);
+    add_isolation_options(sub, options->isolation);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, at its root or in build/)");

@@ -22,6 +22,7 @@ struct ExplainOptions {
     SourceOptions sources;       // --rev and parsing options
     std::string format = "text"; // text or json
     double stroud = 18.0;        // Stroud number
+    IsolationOptions isolation;  // --parse-timeout, --parse-memory
 };
 
 // Return true when `name` is `wanted` or ends with "::" + `wanted`.
@@ -95,6 +96,7 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
 }
 
 int run_explain(const ExplainOptions& options) {
+    apply_isolation_options(options.isolation);
     const auto colon = options.target.rfind(':');
     if (colon == std::string::npos || colon == 0 || colon + 1 == options.target.size()) {
         throw UsageError("expected PATH:FUNCTION, got \"" + options.target +
@@ -146,6 +148,7 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
     add_stroud_option(sub, options->stroud);
+    add_isolation_options(sub, options->isolation);
     sub.footer("Examples:\n"
                "  tollgate explain src/filter.cpp:Kalman::update\n"
                "  tollgate explain src/crc.c:crc16 --rev HEAD~1\n"

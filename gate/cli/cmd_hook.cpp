@@ -18,13 +18,14 @@ namespace tollgate {
 namespace {
 
 struct HookOptions {
-    bool force = false;      // install --force
-    bool chain = false;      // install --chain
-    std::string binary;      // install --binary
-    std::string remote;      // run REMOTE
-    std::string url;         // run URL
-    std::string policy_path; // run --policy
-    unsigned jobs = 0;       // run --jobs
+    bool force = false;         // install --force
+    bool chain = false;         // install --chain
+    std::string binary;         // install --binary
+    std::string remote;         // run REMOTE
+    std::string url;            // run URL
+    std::string policy_path;    // run --policy
+    unsigned jobs = 0;          // run --jobs
+    IsolationOptions isolation; // run --parse-timeout, --parse-memory
 };
 
 int run_install(const HookOptions& options) {
@@ -54,6 +55,8 @@ int check_ref(const hook::RefPlan& plan, const HookOptions& options) {
         argv.insert(argv.end(), {"--policy", options.policy_path});
     }
     argv.insert(argv.end(), {"--jobs", std::to_string(options.jobs)});
+    argv.insert(argv.end(), {"--parse-timeout", std::to_string(options.isolation.parse_timeout),
+                             "--parse-memory", std::to_string(options.isolation.parse_memory)});
     // The table is for the person pushing: it goes to stderr, which git leaves on the terminal.
     return hook::run_process(argv, hook::Output::to_stderr).exit_code;
 }
@@ -140,6 +143,7 @@ void attach_hook(CLI::App& sub, const GlobalOptions& /*global*/, std::function<i
     run->add_option("--policy", options->policy_path,
                     "Policy file (default: .tollgate.yaml of each base commit)");
     add_jobs_option(*run, options->jobs);
+    add_isolation_options(*run, options->isolation);
     run->callback(
         [options, &selected] { selected = [options] { return run_pre_push(*options); }; });
 

@@ -20,10 +20,12 @@ struct MeasureOptions {
     std::string format = "text"; // text or json
     bool all_measures = false;   // every measure, not the essential columns
     unsigned jobs = 0;           // parser threads, 0 = all cores
+    IsolationOptions isolation;  // --parse-timeout, --parse-memory
     double stroud = 18.0;        // Stroud number for T
 };
 
 int run_measure(const MeasureOptions& options) {
+    apply_isolation_options(options.isolation);
     const LoadedSources loaded = load_sources(to_request(options.sources));
     const auto files = lexer::lex_files(loaded.selected, loaded.context, options.jobs);
     core::MeasureSettings settings;
@@ -62,6 +64,7 @@ void attach_measure(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_flag("-a,--all-measures", options->all_measures,
                  "Show every measure (N n N^ V D L^ E T B V* V*/V), not only the essential ones");
     add_jobs_option(sub, options->jobs);
+    add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
     sub.footer("Examples:\n"
                "  tollgate measure src/filter.cpp            the working tree's file\n"

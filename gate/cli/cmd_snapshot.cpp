@@ -29,6 +29,7 @@ struct SnapshotOptions {
     std::string out;                  // --out, as given on the command line
     bool force = false;               // --force: replace a file that is not a snapshot
     unsigned jobs = 0;                // parser threads, 0 = all cores
+    IsolationOptions isolation;       // --parse-timeout, --parse-memory
     double stroud = 18.0;             // Stroud number for T
     std::string compile_commands;     // --compile-commands
     std::string cache_dir;            // --cache-dir
@@ -51,6 +52,7 @@ std::string display_path(const fs::path& absolute) {
 }
 
 int run_snapshot(const SnapshotOptions& options) {
+    apply_isolation_options(options.isolation);
     const walker::Repository repository = walker::Repository::open(fs::current_path().string());
     const walker::ObjectId commit = repository.resolve_commit(options.revision);
     // The measured revision's policy may say where its baseline lives.
@@ -132,6 +134,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     auto* force = sub.add_flag("--force", options->force,
                                "Replace the output file even when it is not a Tollgate snapshot");
     add_jobs_option(sub, options->jobs);
+    add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "

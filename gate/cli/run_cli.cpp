@@ -5,6 +5,7 @@
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/lexer/lex_worker.hpp"
 #include "gate/policy/policy.hpp"
 
 #include <CLI/CLI.hpp>
@@ -39,6 +40,10 @@ public:
 } // namespace
 
 int run_cli(int argc, char** argv) {
+    // The parser process is this executable with a hidden first argument (never in --help).
+    if (argc >= 2 && std::string(argv[1]) == lexer::k_worker_command) {
+        return lexer::run_lex_worker(argc, argv);
+    }
     CLI::App app{"tollgate: gate C/C++ changes on the Halstead measures of the functions they "
                  "touch",
                  "tollgate"};

@@ -7,6 +7,7 @@
 #include "gate/delta/function_delta.hpp"
 #include "gate/delta/snapshot_check.hpp"
 #include "gate/lexer/lex_cache.hpp"
+#include "gate/lexer/lexer.hpp"
 #include "gate/walker/change_set.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
@@ -19,10 +20,12 @@ namespace tollgate::delta {
 
 // Settings of the measuring pipeline.
 struct MeasureChangeSettings {
-    core::MeasureSettings measures;       // Stroud number
-    core::Convention convention;          // counting convention switches
-    std::string compile_commands_json;    // text of a compile_commands.json, or empty
-    std::string compile_commands_root;    // absolute folder its paths are relative to
+    core::MeasureSettings measures;    // Stroud number
+    core::Convention convention;       // counting convention switches
+    std::string compile_commands_json; // text of a compile_commands.json, or empty
+    std::string compile_commands_root; // absolute folder its paths are relative to
+    lexer::DatabaseOrigin compile_commands_origin =
+        lexer::DatabaseOrigin::found;     // given by the pipeline (trusted) or found
     std::string cache_dir;                // precompiled-header cache; empty disables it
     unsigned jobs = 0;                    // parser threads, 0 = all cores
     lexer::LexCache* lex_cache = nullptr; // lexed files to reuse and to keep (not owned);

@@ -22,7 +22,9 @@ json side_json(const std::optional<delta::FunctionSide>& side) {
     return {{"file", side->path},
             {"line", side->start_line},
             {"end_line", side->end_line},
-            {"extent", side->lexical ? "lexical" : "syntax-tree"},
+            {"extent", side->parser_stopped ? "parser-stopped"
+                       : side->lexical      ? "lexical"
+                                            : "syntax-tree"},
             {"token_hash", side->token_hash},
             {"measures", measures}};
 }

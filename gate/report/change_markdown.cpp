@@ -78,7 +78,8 @@ constexpr const char* k_table_head =
 std::string table_row(const FunctionDelta& f, const ChangeReport& report, const RulesIndex& rules,
                       const RenderOptions& options) {
     return fmt::format("| {} | {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
-                       data_code(f.name, MarkdownPlace::table_cell),
+                       data_code(f.name, MarkdownPlace::table_cell) +
+                           (f.parser_stopped() ? " (parser stopped)" : ""),
                        location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
                        pair_cell(f, MeasureId::difficulty, 2), pair_cell(f, MeasureId::effort, 0),
                        growth_cell(f), data_text(rules.of(f)));

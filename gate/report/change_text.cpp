@@ -134,10 +134,11 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
         std::vector<std::vector<std::string>> rows;
         rows.push_back({"label", "location", "function", "V", "D", "E", "rules"});
         for (const auto& f : report.functions) {
-            rows.push_back({delta::label_name(f.label), location_of(f), terminal_text(f.name),
-                            change_cell(f, MeasureId::volume, 1),
-                            change_cell(f, MeasureId::difficulty, 2),
-                            change_cell(f, MeasureId::effort, 0), terminal_text(rules.of(f))});
+            rows.push_back(
+                {delta::label_name(f.label), location_of(f),
+                 terminal_text(f.parser_stopped() ? f.name + " [parser stopped]" : f.name),
+                 change_cell(f, MeasureId::volume, 1), change_cell(f, MeasureId::difficulty, 2),
+                 change_cell(f, MeasureId::effort, 0), terminal_text(rules.of(f))});
         }
         std::vector<std::size_t> widths(rows.front().size(), 0);
         for (const auto& row : rows) {

@@ -55,8 +55,17 @@ std::string location(const MeasuredFunction& f) {
     return fmt::format("{}:{}", terminal_text(f.path), f.start_line);
 }
 
+// The mark after a function's name that says how its extent was found (none for the parser's).
+const char* extent_mark(const MeasuredFunction& f) {
+    return f.parser_stopped ? " [parser stopped]" : f.lexical ? " [lexical]" : "";
+}
+
 std::string display_name(const MeasuredFunction& f) {
-    return terminal_text(f.lexical ? f.name + " [lexical]" : f.name);
+    return terminal_text(f.name + extent_mark(f));
+}
+
+const char* extent_of(const MeasuredFunction& f) {
+    return f.parser_stopped ? "parser-stopped" : f.lexical ? "lexical" : "syntax-tree";
 }
 
 nlohmann::json measures_json(const core::Measures& m) {
@@ -75,7 +84,7 @@ nlohmann::json function_json(const MeasuredFunction& f) {
         {"end_line", f.end_line},
         {"function", f.name},
         {"signature", f.signature},
-        {"extent", f.lexical ? "lexical" : "syntax-tree"},
+        {"extent", extent_of(f)},
         {"measures", measures_json(f.measures)},
     };
 }
@@ -197,7 +206,10 @@ void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         double stroud) {
     out << terminal_text(fmt::format("{}:{}-{}  {}({})  [{}, {}{}]", f.path, f.start_line,
                                      f.end_line, f.name, f.signature, source_label, convention,
-                                     f.lexical ? ", lexical extent" : ""))
+                                     f.parser_stopped
+                                         ? ", measured lexically: the parser stopped on this file"
+                                     : f.lexical ? ", lexical extent"
+                                                 : ""))
         << "\n\n";
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {

@@ -96,6 +96,34 @@ const delta::FunctionDelta* largest_growth(const delta::ChangeReport& report,
     return best;
 }
 
+// Return true when the function `finding` is about was measured lexically because the parser
+// stopped on its file.
+bool finding_parser_stopped(const delta::ChangeReport& report, const policy::Finding& finding) {
+    for (const auto& f : report.functions) {
+        const auto& side = f.shown_side();
+        if (f.name == finding.function && side.path == finding.path &&
+            side.start_line == finding.start_line) {
+            return f.parser_stopped();
+        }
+    }
+    return false;
+}
+
+// The report's warnings (parse errors, files the parser stopped on) as tool notifications.
+json notifications(const delta::ChangeReport& report) {
+    json list = json::array();
+    for (const auto& w : report.warnings) {
+        json notification = {{"level", "warning"},
+                             {"message", {{"text", w.message}}},
+                             {"properties", {{"side", w.side}}}};
+        if (!w.path.empty()) {
+            notification["locations"] = json::array({physical_location(w.path, w.line, 0)});
+        }
+        list.push_back(std::move(notification));
+    }
+    return list;
+}
+
 } // namespace
 
 std::string path_to_uri(const std::string& path) {
@@ -139,6 +167,11 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
         if (finding.grandfathered) {
             result["baselineState"] = "unchanged";
         }
+        if (finding_parser_stopped(report, finding)) {
+            result["message"]["text"] =
+                finding.message + " (measured lexically: the parser stopped on this file)";
+            result["properties"]["extent"] = "parser-stopped";
+        }
         if (!finding.path.empty()) {
             result["locations"] = json::array(
                 {physical_location(finding.path, finding.start_line, finding.end_line)});
@@ -158,6 +191,8 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
         {"originalUriBaseIds",
          {{"SRCROOT", {{"description", {{"text", "The root of the repository."}}}}}}},
         {"results", results},
+        {"invocations", json::array({{{"executionSuccessful", true},
+                                      {"toolExecutionNotifications", notifications(report)}}})},
         {"properties",
          {{"outcome", policy::outcome_name(verdict.outcome)},
           {"policyOrigin", verdict.policy_origin},

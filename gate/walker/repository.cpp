@@ -2,6 +2,7 @@
 // libgit2 access: open a repository, resolve revisions, list trees and read blobs.
 #include "gate/walker/repository.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/walker/libgit2_api.hpp"
 
@@ -10,6 +11,7 @@
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <spdlog/spdlog.h>
 #include <sstream>
 
 namespace tollgate::walker {
@@ -74,16 +76,6 @@ namespace {
 
 std::string quoted(const std::string& text) {
     return "\"" + text + "\"";
-}
-
-std::string read_disk_file(const std::filesystem::path& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw Failure("cannot read " + quoted(path.string()));
-    }
-    std::ostringstream buffer;
-    buffer << in.rdbuf();
-    return buffer.str();
 }
 
 // Collects the C/C++ blobs of a tree walk.
@@ -256,11 +248,18 @@ std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
     std::vector<SourceFile> files;
     for (const auto& item : paths) {
         const std::filesystem::path on_disk = std::filesystem::path(root) / item.first;
-        std::error_code error;
-        if (!std::filesystem::is_regular_file(std::filesystem::symlink_status(on_disk, error))) {
-            continue; // deleted from disk, or a symlink: not measured
+        DiskFile file = read_regular_file(on_disk.string());
+        if (file.entry == DiskEntry::unreadable) {
+            throw Failure("cannot read " + quoted(on_disk.string()));
         }
-        files.push_back(SourceFile{item.first, read_disk_file(on_disk)});
+        if (file.entry != DiskEntry::regular) {
+            // Deleted from disk, a symlink (never followed), a FIFO or device (never opened).
+            if (file.entry != DiskEntry::missing) {
+                spdlog::warn("skipped \"{}\": {}", item.first, disk_entry_text(file.entry));
+            }
+            continue;
+        }
+        files.push_back(SourceFile{item.first, std::move(file.content)});
     }
     return files;
 }

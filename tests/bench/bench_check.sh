@@ -57,4 +57,29 @@ printf '%-52s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
 python3 -c "print(f'ratio check (warm, all cores) / floor: {$warm / $floor:.3f}  (goal <= 0.25)')"
 python3 -c "print(f'ratio check with a checked snapshot of the base / without a snapshot: {$checked / $warm:.3f}')"
 python3 -c "print(f'ratio check with a checked snapshot of the base / with one of another commit: {$checked / $other:.3f}')"
+
+# The cost of isolation: the same warm check with parser processes (the default) and with the
+# unsafe in-process switch, interleaved so both see the same load; the median of 7 runs each.
+seconds() { # rest: command; prints its wall-clock seconds
+    local start end
+    start=$(date +%s.%N)
+    "$@" >/dev/null 2>&1 || true
+    end=$(date +%s.%N)
+    python3 -c "print($end - $start)"
+}
+isolated=()
+in_process=()
+for _ in 1 2 3 4 5 6 7; do
+    isolated+=("$(seconds "$tollgate" check --base HEAD~1 --cache-dir "$cache")")
+    in_process+=("$(TOLLGATE_UNSAFE_PARSE_IN_PROCESS=1 seconds "$tollgate" check --base HEAD~1 --cache-dir "$cache")")
+done
+python3 - "${isolated[*]}" "${in_process[*]}" <<'PY'
+import statistics, sys
+isolated = [float(x) for x in sys.argv[1].split()]
+in_process = [float(x) for x in sys.argv[2].split()]
+a, b = statistics.median(isolated), statistics.median(in_process)
+print(f"{'check, warm, parser processes (median of 7)':<44} {a:7.3f} s")
+print(f"{'check, warm, in-process, unsafe (median of 7)':<44} {b:7.3f} s")
+print(f"ratio parser processes / in-process: {a / b:.3f}  (goal < 1.10)")
+PY
 echo "load average: $(cut -d' ' -f1-3 /proc/loadavg)"
