@@ -4,6 +4,7 @@
 #include "gate/calibrate/lex_file_cache.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -217,6 +218,9 @@ std::string lex_cache_key(const SourceFile& file, const lexer::ParseContext& con
     Fnv128 hash;
     hash.feed(k_format);
     hash.feed(core::fingerprint(context.convention));
+    if (is_java_path(file.path)) {
+        hash.feed(java::java_status()); // the Java convention and grammar versions
+    }
     hash.feed(file.path);
     hash.feed(file.content);
     hash.feed(context.force_language ? std::to_string(static_cast<int>(*context.force_language))

@@ -10,6 +10,7 @@
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/delta/measure_change.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/walker/change_set.hpp"
@@ -75,7 +76,7 @@ LoadedBaseline load_baseline(const CheckOptions& options, const policy::Policy& 
         return loaded;
     }
     baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(settings.convention);
+    expectations.convention = java::build_fingerprint(settings.convention);
     expectations.stroud = settings.measures.stroud;
     loaded.snapshot = baseline::load_snapshot(loaded.path, expectations);
     return loaded;

@@ -5,6 +5,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -120,7 +121,7 @@ int run_explain(const ExplainOptions& options) {
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);
-    const std::string convention = core::fingerprint(loaded.context.convention);
+    const std::string convention = java::build_fingerprint(loaded.context.convention);
     if (options.format == "json") {
         report::write_explain_json(std::cout, measured, loaded.label, convention);
     } else {

@@ -7,6 +7,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
@@ -101,7 +102,7 @@ int run_snapshot(const SnapshotOptions& options) {
 
 int run_compare(const SnapshotOptions& options) {
     baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(core::Convention{});
+    expectations.convention = java::build_fingerprint(core::Convention{});
     expectations.stroud = options.stroud;
     const baseline::Snapshot base = baseline::load_snapshot(options.compare.at(0), expectations);
     const baseline::Snapshot head = baseline::load_snapshot(options.compare.at(1), expectations);

@@ -52,7 +52,7 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
             it.disable_recursion_pending();
             continue;
         }
-        if (it->is_regular_file() && is_c_family_path(name)) {
+        if (it->is_regular_file() && is_measured_path(name)) {
             files.push_back({p.lexically_relative(root).generic_string(), read_disk_file(p)});
         }
     }

@@ -3,6 +3,7 @@
 #include "gate/delta/measure_change.hpp"
 
 #include "gate/delta/compare.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 
@@ -86,7 +87,7 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
                             : label_for(changes.range.head_name, changes.range.head);
     report.base_commit = changes.range.base.hex;
     report.head_commit = changes.range.head.hex;
-    report.convention = core::fingerprint(settings.convention);
+    report.convention = java::build_fingerprint(settings.convention);
     if (!changes.range.note.empty()) {
         report.notes.push_back(changes.range.note);
     }
