@@ -243,9 +243,14 @@ private:
         return false;
     }
 
+    // Return true when the member before `end` assigns (a field's initializer); the
+    // arguments of its annotations do not count.
     bool has_assignment(std::size_t end) const {
         for (std::size_t k = m_member_start; k < end; ++k) {
-            if (punct(m_tokens[k], "=")) {
+            const std::size_t after = skip_annotation(m_tokens, k);
+            if (after != k) {
+                k = after - 1;
+            } else if (punct(m_tokens[k], "=")) {
                 return true;
             }
         }
