@@ -25,14 +25,19 @@ struct ExplainOptions {
     double stroud = 18.0;        // Stroud number
 };
 
-// Return true when `name` is `wanted` or ends with "::" + `wanted`.
+// Return true when `name` is `wanted` or ends with "::" + `wanted` (C++) or "." + `wanted`
+// (Java).
 bool name_matches(const std::string& name, const std::string& wanted) {
     if (name == wanted) {
         return true;
     }
-    const std::string suffix = "::" + wanted;
-    return name.size() > suffix.size() &&
-           name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0;
+    for (const std::string& suffix : {"::" + wanted, "." + wanted}) {
+        if (name.size() > suffix.size() &&
+            name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0) {
+            return true;
+        }
+    }
+    return false;
 }
 
 bool all_digits(const std::string& text) {
@@ -76,6 +81,8 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             const auto colon = span.qualified_name.rfind("::");
             if (colon != std::string::npos) {
                 names.push_back(span.qualified_name.substr(colon + 2));
+            } else if (const auto dot = span.qualified_name.rfind('.'); dot != std::string::npos) {
+                names.push_back(span.qualified_name.substr(dot + 1)); // a Java name
             }
         }
         const std::string suggestion = closest_match(wanted, names);
