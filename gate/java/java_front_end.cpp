@@ -68,9 +68,14 @@ lexer::FileFunctions lex_java_file(const SourceFile& file, const core::Conventio
     result.path = file.path;
     result.warnings = std::move(tree.problems);
 
-    // The lexical cross-check: definitions the tree did not report are measured lexically.
-    const JavaScan scan = scan_java(file.content);
     std::vector<FoundFunction> found = std::move(tree.functions);
+    if (!tree.has_errors) {
+        finish_functions(std::move(found), file.path, result);
+        return result; // a tree without errors holds every function
+    }
+    // The lexical cross-check: definitions the tree lost to a syntax error are measured
+    // lexically.
+    const JavaScan scan = scan_java(file.content);
     const std::size_t from_tree = found.size();
     const NameTable names = lexical_names(scan.tokens);
     for (const LexicalFunction& function : scan_java_definitions(scan.tokens)) {

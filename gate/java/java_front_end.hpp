@@ -17,7 +17,7 @@ namespace tollgate::java {
 inline constexpr std::size_t k_max_tree_bytes = 4u * 1024u * 1024u;
 
 // The time the parser may take for one file before the file is measured lexically.
-inline constexpr unsigned k_parse_timeout_ms = 10000;
+inline constexpr unsigned k_parse_timeout_ms = 5000;
 
 // Return true when this build has the Java front end (CMake option TOLLGATE_JAVA).
 bool java_available();

@@ -12,6 +12,10 @@ namespace {
 
 constexpr std::size_t k_npos = static_cast<std::size_t>(-1);
 
+// A type argument list is looked for within this many tokens of its `<` (real ones are short),
+// so a run of unclosed `<` costs linear time.
+constexpr std::size_t k_max_type_list_tokens = 256;
+
 bool punct(const JavaToken& token, const char* text) {
     return token.kind == core::LexKind::punctuation && token.spelling == text;
 }
@@ -185,9 +189,9 @@ private:
             if (kind == ScopeKind::function_body) {
                 m_open.body_close = i;
                 m_found.push_back(m_open);
-                m_member_start = i + 1;
+                start_member(i + 1);
             } else if (m_scopes.empty() || m_scopes.back().kind == ScopeKind::type_body) {
-                m_member_start = i + 1; // a field initializer's block ended
+                start_member(i + 1); // a field initializer's block ended
             }
         }
     }
@@ -210,18 +214,25 @@ private:
         if (annotated != i) {
             return annotated - 1;
         }
+        if (punct(t, "=")) {
+            m_member_assigns = true;
+        } else if (keyword(t, "class") || keyword(t, "interface") || keyword(t, "enum") ||
+                   (identifier(t) && t.spelling == "record" && i + 1 < m_tokens.size() &&
+                    identifier(m_tokens[i + 1]))) {
+            m_member_declares_type = true;
+        }
         if (punct(t, ";")) {
             if (scope != nullptr) {
                 scope->enum_constants = false;
             }
-            m_member_start = i + 1;
+            start_member(i + 1);
         } else if (punct(t, ",") && scope != nullptr && scope->enum_constants) {
-            m_member_start = i + 1;
+            start_member(i + 1);
         } else if (punct(t, "}")) {
             if (!m_scopes.empty()) {
                 m_scopes.pop_back();
             }
-            m_member_start = i + 1;
+            start_member(i + 1);
         } else if (punct(t, "(")) {
             return open_parenthesis(i);
         } else if (punct(t, "{")) {
@@ -230,42 +241,21 @@ private:
         return i;
     }
 
-    // Return true when the member before `end` declares a type (class, interface, enum, record).
-    bool declares_type(std::size_t end) const {
-        for (std::size_t k = m_member_start; k < end; ++k) {
-            const JavaToken& t = m_tokens[k];
-            if (keyword(t, "class") || keyword(t, "interface") || keyword(t, "enum") ||
-                (identifier(t) && t.spelling == "record" && k + 1 < end &&
-                 identifier(m_tokens[k + 1]))) {
-                return true;
-            }
-        }
-        return false;
-    }
-
-    // Return true when the member before `end` assigns (a field's initializer); the
-    // arguments of its annotations do not count.
-    bool has_assignment(std::size_t end) const {
-        for (std::size_t k = m_member_start; k < end; ++k) {
-            const std::size_t after = skip_annotation(m_tokens, k);
-            if (after != k) {
-                k = after - 1;
-            } else if (punct(m_tokens[k], "=")) {
-                return true;
-            }
-        }
-        return false;
+    // Start a new member at `at`: what the previous one declared or assigned is forgotten.
+    void start_member(std::size_t at) {
+        m_member_start = at;
+        m_member_assigns = false;
+        m_member_declares_type = false;
     }
 
     std::size_t open_parenthesis(std::size_t i) {
+        if (m_member_declares_type) {
+            return i; // a record's components: its body opens a type below
+        }
         const std::size_t close = match(m_tokens, i);
         const Scope* scope = m_scopes.empty() ? nullptr : &m_scopes.back();
         const bool candidate = i > m_member_start && identifier(m_tokens[i - 1]) &&
-                               !has_assignment(i) && !declares_type(i) &&
-                               !(scope != nullptr && scope->enum_constants);
-        if (declares_type(i)) {
-            return i; // a record's components: its body opens a type below
-        }
+                               !m_member_assigns && !(scope != nullptr && scope->enum_constants);
         if (!candidate || close >= m_tokens.size()) {
             return std::min(close, m_tokens.size() - 1);
         }
@@ -319,7 +309,7 @@ private:
                 }
             }
             m_scopes.push_back({ScopeKind::type_body, name, false, false, {}, 0});
-            m_member_start = i + 1;
+            start_member(i + 1);
             return;
         }
         // Modifiers and annotations aside, what does the member say before its brace?
@@ -340,7 +330,7 @@ private:
                                   keyword(word, "interface") ||
                                   (identifier(word) && word.spelling == "record" &&
                                    w + 1 < words.size() && identifier(m_tokens[words[w + 1]]));
-            if (declares && !has_assignment(i)) {
+            if (declares && !m_member_assigns) {
                 open_type(words, w, i);
                 return;
             }
@@ -397,13 +387,15 @@ private:
             }
         }
         m_scopes.push_back(std::move(scope));
-        m_member_start = brace + 1;
+        start_member(brace + 1);
     }
 
     const std::vector<JavaToken>& m_tokens;
     std::string m_package;
     std::vector<Scope> m_scopes;
     std::size_t m_member_start = 0;
+    bool m_member_assigns = false;       // the current member has an `=` (a field initializer)
+    bool m_member_declares_type = false; // the current member declares a class, enum, record ...
     LexicalFunction m_open;
     std::vector<LexicalFunction> m_found;
 };
@@ -442,7 +434,8 @@ LexicalForms decide_forms(const std::vector<JavaToken>& tokens, std::size_t firs
         int depth = 0;
         std::size_t k = i;
         bool closed = false;
-        for (; k <= last; ++k) {
+        const std::size_t limit = std::min(last, i + k_max_type_list_tokens);
+        for (; k <= limit; ++k) {
             const JavaToken& t = tokens[k];
             if (punct(t, "<")) {
                 ++depth;

@@ -95,6 +95,7 @@ public:
         TreeResult result;
         result.complete = true;
         const TSNode root = ts_tree_root_node(tree);
+        result.has_errors = ts_node_has_error(root);
         collect_names(root, result);
         collect_functions(root, result);
         return result;
@@ -334,8 +335,14 @@ private:
         }
         std::string signature;
         std::uint64_t count = 0;
-        for (unsigned i = 0; i < ts_node_named_child_count(parameters); ++i) {
-            const TSNode parameter = ts_node_named_child(parameters, i);
+        // A cursor walks the children in linear time (ts_node_named_child starts over each time).
+        Cursor cursor(parameters);
+        for (bool more = ts_tree_cursor_goto_first_child(cursor.get()); more;
+             more = ts_tree_cursor_goto_next_sibling(cursor.get())) {
+            const TSNode parameter = ts_tree_cursor_current_node(cursor.get());
+            if (!ts_node_is_named(parameter)) {
+                continue;
+            }
             const char* type = ts_node_type(parameter);
             std::string text;
             if (is(type, "formal_parameter")) {
@@ -346,7 +353,7 @@ private:
                     text += join_type_text(leaf_spellings(dimensions));
                 }
             } else if (is(type, "spread_parameter")) {
-                for (unsigned k = 0; k < ts_node_named_child_count(parameter); ++k) {
+                for (unsigned k = 0; k < ts_node_named_child_count(parameter) && k < 8; ++k) {
                     const TSNode part = ts_node_named_child(parameter, k);
                     const char* part_type = ts_node_type(part);
                     if (!is(part_type, "modifiers") && !is(part_type, "variable_declarator") &&

@@ -15,6 +15,7 @@ namespace tollgate::java {
 // What the syntax tree of one file gave.
 struct TreeResult {
     bool complete = false;                   // false when the parser gave up (time limit)
+    bool has_errors = false;                 // the tree holds syntax errors or missing tokens
     std::vector<FoundFunction> functions;    // methods, constructors and initializers with tokens
     std::vector<lexer::LexWarning> problems; // syntax errors (at most a few, then a count)
 };
