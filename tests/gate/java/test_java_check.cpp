@@ -208,4 +208,46 @@ TEST_CASE("measure and explain take Java files", "[java]") {
     CHECK(explained.out.find("type name") != std::string::npos);
 }
 
+TEST_CASE("calibrate replays Java changes with the C++ ones", "[java]") {
+    TempDir dir;
+    TempDir cache;
+    const History h = mixed_history(dir, k_policy);
+    const auto result =
+        run_tollgate("calibrate --format json --no-pch-cache --cache-dir " +
+                         tollgate::test::shell_quote(cache.path()) + " --policy .tollgate.yaml",
+                     dir.path());
+    INFO(result.err);
+    REQUIRE(result.exit_code == 0);
+    const auto doc = nlohmann::json::parse(result.out);
+    REQUIRE(doc["commits"].size() == 1);
+    CHECK(doc["commits"][0]["commit"] == h.head);
+    // The head commit changes scale (C++) and Calibration.apply (Java): both are in the
+    // distribution, and the Java growth is what the policy would have blocked.
+    CHECK(doc["measures"]["effort"]["growth"]["summary"]["count"] == 2);
+    CHECK(doc["what_if"]["blocked"] == 1);
+    CHECK(doc["what_if"]["flagged"][0]["rules"] == nlohmann::json::array({"effort-growth"}));
+}
+
+TEST_CASE("the pre-push hook blocks a push that bloats a Java method", "[java]") {
+    TempDir dir;
+    const std::string work = dir.path() + "/work";
+    const std::string remote = dir.path() + "/remote.git";
+    tollgate::test::git("init -q --bare -b main " + remote, dir.path());
+    init_repo(work);
+    dir.write("work/.tollgate.yaml", k_policy);
+    dir.write("work/ground/Calibration.java", k_java_base);
+    commit_all(work, "base");
+    tollgate::test::git("remote add origin " + remote, work);
+    tollgate::test::git("push -q origin main", work);
+    REQUIRE(run_tollgate("hook install", work).exit_code == 0);
+    dir.write("work/ground/Calibration.java", k_java_head);
+    commit_all(work, "range checks");
+    const auto push = tollgate::test::run_command("git push origin main", work);
+    INFO(push.err);
+    CHECK(push.exit_code != 0);
+    CHECK(push.err.find("com.skyline.ground.Calibration.apply(double): effort +") !=
+          std::string::npos);
+    CHECK(push.err.find("BLOCKED") != std::string::npos);
+}
+
 #endif
