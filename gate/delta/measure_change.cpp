@@ -36,7 +36,8 @@ SideSources read_side_sources(const walker::Repository& repository,
     bool any = false;
     for (const auto& file : changes.files) {
         sources.changed.push_back(walker::read_side(repository, changes, file, side));
-        any = any || sources.changed.back().has_value();
+        // Only C/C++ files need the side's headers; a Java file stands alone.
+        any = any || (sources.changed.back() && !is_java_path(sources.changed.back()->path));
     }
     if (any) {
         sources.tree = walker::read_side_tree(repository, changes, side);
