@@ -29,6 +29,8 @@ cmake --build "$build" --target "fuzz_$target" -j2
 corpus="$build/fuzz-corpus-$target"
 artifacts="$build/fuzz-artifacts-$target"
 mkdir -p "$corpus" "$artifacts"
+# What an earlier run found is already kept: only this run's findings are reported below.
+rm -f "$artifacts"/crash-* "$artifacts"/timeout-* "$artifacts"/oom-*
 if [ "$target" = policy ]; then
     cp "$root"/policies/*.yaml "$corpus/"
 fi
