@@ -402,7 +402,8 @@ private:
 
 // Pre-decided forms of punctuation, from a pass over the function's tokens.
 struct LexicalForms {
-    std::vector<core::Form> form; // per token of the range, Form::plain when nothing special
+    std::vector<core::Form> form;   // per token of the range, Form::plain when nothing special
+    std::vector<bool> in_type_list; // per token of the range: inside a type argument list
 };
 
 bool type_like_before(const std::vector<JavaToken>& tokens, std::size_t at, std::size_t first,
@@ -423,6 +424,7 @@ LexicalForms decide_forms(const std::vector<JavaToken>& tokens, std::size_t firs
                           const NameTable& names) {
     LexicalForms forms;
     forms.form.assign(last - first + 1, core::Form::plain);
+    forms.in_type_list.assign(last - first + 1, false);
     auto form = [&](std::size_t k) -> core::Form& { return forms.form[k - first]; };
     // Type argument and parameter lists: `<` after a type-like token, closed by >, >> or >>>
     // with nothing but type tokens between.
@@ -460,6 +462,7 @@ LexicalForms decide_forms(const std::vector<JavaToken>& tokens, std::size_t firs
         }
         for (std::size_t m = i; m <= k; ++m) {
             const JavaToken& t = tokens[m];
+            forms.in_type_list[m - first] = true;
             if (punct(t, "<")) {
                 form(m) = core::Form::template_open;
             } else if (punct(t, ">") || punct(t, ">>") || punct(t, ">>>")) {
@@ -530,8 +533,21 @@ core::NameKind lexical_name_kind(const std::vector<JavaToken>& tokens, std::size
     if (previous != nullptr && keyword(*previous, "new")) {
         return core::NameKind::type;
     }
+    // Every part of a qualified type after `new` (`new java.util.ArrayList<>()`) names a type;
+    // the walk back is bounded so a long chain of names stays linear.
+    for (std::size_t k = i, steps = 0; k >= first + 2 && steps < 64; k -= 2, ++steps) {
+        if (!punct(tokens[k - 1], ".") || !identifier(tokens[k - 2])) {
+            break;
+        }
+        if (k - 2 > first && keyword(tokens[k - 3], "new")) {
+            return core::NameKind::type;
+        }
+    }
     if (next != nullptr && punct(*next, "(")) {
         return core::NameKind::function;
+    }
+    if (forms.in_type_list[i - first]) {
+        return core::NameKind::type; // every name in a type argument list names a type
     }
     if (next != nullptr && (punct(*next, ".") || punct(*next, "::"))) {
         core::Basis basis = core::Basis::lexical;

@@ -46,6 +46,15 @@ std::map<std::string, std::vector<Reference>> run_reference(const std::string& f
     return result;
 }
 
+// Return "operator KEY" / "operand KEY" -> count for `tokens`.
+std::map<std::string, std::uint64_t> key_counts(const core::TokenList& tokens) {
+    std::map<std::string, std::uint64_t> counts;
+    for (const auto& token : tokens) {
+        ++counts[(token.role == core::Role::operator_token ? "operator " : "operand ") + token.key];
+    }
+    return counts;
+}
+
 std::uint64_t length_of(const core::TokenList& tokens) {
     const core::Counts counts = core::count_tokens(tokens);
     return counts.total_operators + counts.total_operands;
@@ -93,6 +102,9 @@ TEST_CASE("lex_java_file length matches the JDK's token count", "[java]") {
             CHECK(found[i].span.start_line == expected[i].start_line);
             CHECK(found[i].span.end_line == expected[i].end_line);
             CHECK(length_of(found[i].span.tokens) == expected[i].length);
+            // On valid code the lexical path also gives the tree's tables, key by key.
+            REQUIRE(i < result.functions.size());
+            CHECK(key_counts(found[i].span.tokens) == key_counts(result.functions[i].tokens));
         }
     }
 }
