@@ -251,3 +251,34 @@ TEST_CASE("the pre-push hook blocks a push that bloats a Java method", "[java]")
 }
 
 #endif
+
+#if TOLLGATE_JAVA_ENABLED
+TEST_CASE("snapshot --compare takes two snapshots of one convention, whichever", "[java]") {
+    TempDir dir;
+    std::vector<tollgate::lexer::FileFunctions> files(1);
+    files[0].path = "firmware/scale.cpp";
+    const std::string commit(40, 'a');
+    auto save = [&](const std::string& name, const std::string& convention) {
+        tollgate::baseline::save_snapshot(tollgate::baseline::make_snapshot(files, commit,
+                                                                            convention, {},
+                                                                            "2026-01-01T00:00:00Z"),
+                                          dir.path() + "/" + name);
+    };
+    save("old-a.json", "c-family/1");
+    save("old-b.json", "c-family/1");
+    save("new.json", "c-family/1, java/1");
+    SECTION("two snapshots made before Java was measured still compare") {
+        const auto result = run_tollgate("snapshot --compare old-a.json old-b.json", dir.path());
+        INFO(result.err);
+        CHECK(result.exit_code == 0);
+        CHECK(result.out.find("snapshot trend under convention \"c-family/1\"") !=
+              std::string::npos);
+    }
+    SECTION("snapshots of different conventions are refused") {
+        const auto result = run_tollgate("snapshot --compare old-a.json new.json", dir.path());
+        CHECK(result.exit_code == 2);
+        CHECK(result.err.find("measured under convention \"c-family/1, java/1\"") !=
+              std::string::npos);
+    }
+}
+#endif
