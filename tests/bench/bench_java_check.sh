@@ -9,7 +9,7 @@ set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
 build=$(cd "${1:-$here/../../build}" && pwd)
 tollgate=$build/gate/tollgate
-parse=$build/tests/tollgate_java_parse
+parse_tool=$build/tests/tollgate_java_parse
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
 
@@ -42,8 +42,11 @@ check=$(seconds "$tollgate" check --base HEAD~1 --head HEAD)
 check1=$(seconds "$tollgate" check --base HEAD~1 --head HEAD -j 1)
 git_floor=$(seconds git_work)
 version=$(seconds "$tollgate" --version)
-parse_line=$("$parse" "$work"/base/src/*.java "$work"/head/src/*.java)
-parse=$(echo "$parse_line" | awk '{print $2}')
+parse=999
+for _ in 1 2 3 4 5; do # best of five, as for the commands above
+    parse_line=$("$parse_tool" "$work"/base/src/*.java "$work"/head/src/*.java)
+    parse=$(python3 -c "print(min($parse, $(echo "$parse_line" | awk '{print $2}')))")
+done
 functions=$(echo "$parse_line" | awk '{print $3}')
 
 printf '%-52s %7.3f s\n' "check, 10 Java files changed, all cores" "$check"
