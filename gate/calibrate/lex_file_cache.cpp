@@ -5,6 +5,7 @@
 
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/file_functions_json.hpp"
 
 #include <algorithm>
@@ -150,6 +151,9 @@ std::string lex_cache_key(const SourceFile& file, const lexer::ParseContext& con
     Fnv128 hash;
     hash.feed(k_format);
     hash.feed(core::fingerprint(context.convention));
+    if (is_java_path(file.path)) {
+        hash.feed(java::java_status()); // the Java convention and grammar versions
+    }
     hash.feed(file.path);
     hash.feed(file.content);
     hash.feed(context.force_language ? std::to_string(static_cast<int>(*context.force_language))

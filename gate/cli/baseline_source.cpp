@@ -3,6 +3,7 @@
 #include "gate/cli/baseline_source.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 
 #include <cstdio>
 #include <filesystem>
@@ -176,7 +177,7 @@ CheckBaseline::CheckBaseline(const std::string& given, const policy::Policy& jud
                              const walker::ResolvedRange& range,
                              delta::MeasureChangeSettings& settings) {
     baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(settings.convention);
+    expectations.convention = java::build_fingerprint(settings.convention);
     expectations.stroud = settings.measures.stroud;
     m_trusted = load_trusted_baseline(given, judging, repository, range, expectations);
     if (m_trusted.snapshot) {

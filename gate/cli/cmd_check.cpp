@@ -12,6 +12,7 @@
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/delta/measure_change.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/walker/change_set.hpp"

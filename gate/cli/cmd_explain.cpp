@@ -5,6 +5,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -25,14 +26,19 @@ struct ExplainOptions {
     IsolationOptions isolation;  // --parse-timeout, --parse-memory
 };
 
-// Return true when `name` is `wanted` or ends with "::" + `wanted`.
+// Return true when `name` is `wanted` or ends with "::" + `wanted` (C++) or "." + `wanted`
+// (Java).
 bool name_matches(const std::string& name, const std::string& wanted) {
     if (name == wanted) {
         return true;
     }
-    const std::string suffix = "::" + wanted;
-    return name.size() > suffix.size() &&
-           name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0;
+    for (const std::string& suffix : {"::" + wanted, "." + wanted}) {
+        if (name.size() > suffix.size() &&
+            name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0) {
+            return true;
+        }
+    }
+    return false;
 }
 
 bool all_digits(const std::string& text) {
@@ -76,6 +82,8 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             const auto colon = span.qualified_name.rfind("::");
             if (colon != std::string::npos) {
                 names.push_back(span.qualified_name.substr(colon + 2));
+            } else if (const auto dot = span.qualified_name.rfind('.'); dot != std::string::npos) {
+                names.push_back(span.qualified_name.substr(dot + 1)); // a Java name
             }
         }
         const std::string suggestion = closest_match(wanted, names);
@@ -123,7 +131,7 @@ int run_explain(const ExplainOptions& options) {
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);
-    const std::string convention = core::fingerprint(loaded.context.convention);
+    const std::string convention = java::build_fingerprint(loaded.context.convention);
     if (options.format == "json") {
         report::write_explain_json(std::cout, measured, loaded.label, convention);
     } else {

@@ -5,6 +5,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -39,7 +40,7 @@ int run_measure(const MeasureOptions& options) {
     const auto warnings = collect_warnings(files);
     if (options.format == "json") {
         report::write_measure_json(std::cout, functions, warnings, loaded.label,
-                                   core::fingerprint(loaded.context.convention));
+                                   java::build_fingerprint(loaded.context.convention));
     } else {
         report::write_measure_text(
             std::cout, functions, warnings,

@@ -103,10 +103,12 @@ int run_snapshot(const SnapshotOptions& options) {
 }
 
 int run_compare(const SnapshotOptions& options) {
+    // The two snapshots must share one convention, whichever: a build that measures Java can
+    // still compare two snapshots made before it did.
     baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(core::Convention{});
     expectations.stroud = options.stroud;
     const baseline::Snapshot base = baseline::load_snapshot(options.compare.at(0), expectations);
+    expectations.convention = base.convention;
     const baseline::Snapshot head = baseline::load_snapshot(options.compare.at(1), expectations);
     const baseline::SnapshotTrend trend = baseline::compare_snapshots(base, head);
     if (options.format == "json") {
@@ -122,8 +124,9 @@ int run_compare(const SnapshotOptions& options) {
 void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
                      std::function<int()>& selected) {
     auto options = std::make_shared<SnapshotOptions>();
-    sub.description("Measure every function of every C/C++ file of a revision and write a "
-                    "baseline snapshot, or compare two snapshots.");
+    sub.description(
+        "Measure every function of every C, C++ and Java file of a revision and write a "
+        "baseline snapshot, or compare two snapshots.");
     auto* rev = sub.add_option("--rev", options->revision,
                                "Revision to measure, read from the object database")
                     ->capture_default_str();

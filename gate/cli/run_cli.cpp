@@ -5,6 +5,7 @@
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_worker.hpp"
 #include "gate/policy/policy.hpp"
 
@@ -48,7 +49,8 @@ int run_cli(int argc, char** argv) {
                  "touch",
                  "tollgate"};
     app.require_subcommand(1);
-    app.set_version_flag("--version", std::string("tollgate ") + TOLLGATE_VERSION);
+    app.set_version_flag("--version",
+                         std::string("tollgate ") + TOLLGATE_VERSION + "\n" + java::java_status());
     GlobalOptions global;
     app.add_flag("-v,--verbose", global.verbose, "Log what each stage does on stderr");
     app.footer("Exit codes: 0 pass, 1 blocked by the policy, 2 usage or configuration error, "

@@ -41,7 +41,7 @@ std::optional<std::string> relative_inside(const fs::path& path, const fs::path&
     return text == "." ? std::string() : text;
 }
 
-// Every C/C++ file under `root` (skipping hidden folders and build folders), from disk.
+// Every C/C++ and Java file under `root` (skipping hidden folders and build folders), from disk.
 std::vector<SourceFile> read_disk_tree(const fs::path& root) {
     std::vector<SourceFile> files;
     std::error_code ec;
@@ -53,7 +53,7 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
             it.disable_recursion_pending();
             continue;
         }
-        if (!is_c_family_path(name) || it->is_directory()) {
+        if (!is_measured_path(name) || it->is_directory()) {
             continue;
         }
         // Never follow a symlink or open a FIFO or device named like a source file.
@@ -98,8 +98,9 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
             }
         }
         if (!found) {
-            throw UsageError("no C/C++ file at \"" + as_given[i] +
-                             "\" (give a .c, .cc, .cpp, .cxx, .c++ or header file, or a folder)");
+            throw UsageError("no C, C++ or Java file at \"" + as_given[i] +
+                             "\" (give a .c, .cc, .cpp, .cxx, .c++, header or .java file, or a "
+                             "folder)");
         }
     }
     std::sort(selected.begin(), selected.end(),

@@ -4,6 +4,7 @@
 
 #include "gate/delta/compare.hpp"
 #include "gate/delta/snapshot_check.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 #include "gate/lexer/lexical_fallback.hpp"
@@ -37,7 +38,8 @@ SideSources read_side_sources(const walker::Repository& repository,
     bool any = false;
     for (const auto& file : changes.files) {
         sources.changed.push_back(walker::read_side(repository, changes, file, side));
-        any = any || sources.changed.back().has_value();
+        // Only C/C++ files need the side's headers; a Java file stands alone.
+        any = any || (sources.changed.back() && !is_java_path(sources.changed.back()->path));
     }
     if (any) {
         sources.tree = walker::read_side_tree(repository, changes, side);
@@ -200,7 +202,7 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
                             : label_for(changes.range.head_name, changes.range.head);
     report.base_commit = changes.range.base.hex;
     report.head_commit = changes.range.head.hex;
-    report.convention = core::fingerprint(settings.convention);
+    report.convention = java::build_fingerprint(settings.convention);
     if (!changes.range.note.empty()) {
         report.notes.push_back(changes.range.note);
     }

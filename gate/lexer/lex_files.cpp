@@ -4,6 +4,7 @@
 #include "gate/lexer/lex_files.hpp"
 
 #include "gate/common/workers.hpp"
+#include "gate/java/java_jobs.hpp"
 #include "gate/lexer/isolation.hpp"
 #include "gate/lexer/lex_pool.hpp"
 
@@ -106,6 +107,9 @@ std::vector<FileFunctions> lex_files(const std::vector<SourceFile>& files,
 
 std::vector<FileFunctions> lex_jobs(const std::vector<LexJob>& files, unsigned jobs,
                                     const std::function<void(const FileFunctions&)>& on_done) {
+    if (java::has_java_jobs(files)) { // the Java front end takes .java files (gate/java)
+        return java::lex_mixed_jobs(files, jobs, on_done, &lex_jobs);
+    }
     const unsigned threads =
         std::min<unsigned>(effective_jobs(jobs), static_cast<unsigned>(files.size()));
     IsolationSettings settings = current_isolation();

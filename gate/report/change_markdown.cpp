@@ -237,8 +237,8 @@ void write_change_markdown(std::ostream& out, const ChangeReport& report,
     }
     if (report.functions.empty()) {
         summary += report.measured_files == 0
-                       ? ": no C/C++ file changed, nothing to measure."
-                       : ": C/C++ files changed, but no function definition was touched.";
+                       ? ": no C, C++ or Java file changed, nothing to measure."
+                       : ": source files changed, but no function definition was touched.";
     } else {
         const auto effort = core::compute_delta(t.base_effort, t.head_effort);
         summary += fmt::format(": {} function{} touched in {} file{}, effort {}{} ({})",

@@ -124,9 +124,9 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
     }
     if (report.functions.empty()) {
         if (report.measured_files == 0) {
-            out << "no C/C++ file changed: nothing to measure\n";
+            out << "no C, C++ or Java file changed: nothing to measure\n";
         } else {
-            out << fmt::format("{} C/C++ file{} changed, but no function definition was touched\n",
+            out << fmt::format("{} source file{} changed, but no function definition was touched\n",
                                report.measured_files, report.measured_files == 1 ? "" : "s");
         }
     } else {

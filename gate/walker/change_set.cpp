@@ -189,11 +189,11 @@ const char* skip_reason_text(SkipReason reason) {
     case SkipReason::type_change:
         return "type change (deleted and re-added as another kind of entry)";
     case SkipReason::not_c_family:
-        return "not C/C++";
+        return "not C, C++ or Java";
     case SkipReason::unreadable:
         return "unreadable";
     }
-    return "not C/C++";
+    return "not C, C++ or Java";
 }
 
 ChangeSet collect_changes(const Repository& repository, const ResolvedRange& range,
@@ -222,8 +222,8 @@ ChangeSet collect_changes(const Repository& repository, const ResolvedRange& ran
         if (status != ChangeStatus::deleted) {
             file.head_path = delta.new_file.path;
         }
-        const bool base_c = !file.base_path.empty() && is_c_family_path(file.base_path);
-        const bool head_c = !file.head_path.empty() && is_c_family_path(file.head_path);
+        const bool base_c = !file.base_path.empty() && is_measured_path(file.base_path);
+        const bool head_c = !file.head_path.empty() && is_measured_path(file.head_path);
         std::optional<SkipReason> skip = skip_by_kind(delta);
         if (!skip && !base_c && !head_c) {
             skip = SkipReason::not_c_family;

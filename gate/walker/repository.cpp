@@ -85,7 +85,7 @@ int collect_c_family_entry(const char* root, const git_tree_entry* entry, void* 
         return 0;
     }
     std::string path = std::string(root) + git_tree_entry_name(entry);
-    if (is_c_family_path(path)) {
+    if (is_measured_path(path)) {
         auto* files = static_cast<std::vector<TreeFile>*>(payload);
         files->push_back(TreeFile{std::move(path), git::to_object_id(*git_tree_entry_id(entry))});
     }
@@ -226,7 +226,7 @@ std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
     for (std::size_t i = 0; i < count; ++i) {
         const git_index_entry* entry = git_index_get_byindex(raw_index, i);
         if (entry->mode != GIT_FILEMODE_COMMIT && entry->mode != GIT_FILEMODE_LINK &&
-            is_c_family_path(entry->path)) {
+            is_measured_path(entry->path)) {
             paths[entry->path] = true;
         }
     }
@@ -241,7 +241,7 @@ std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
     for (std::size_t i = 0; i < status_count; ++i) {
         const git_status_entry* entry = git_status_byindex(raw_status, i);
         if ((entry->status & GIT_STATUS_WT_NEW) != 0 && entry->index_to_workdir != nullptr &&
-            is_c_family_path(entry->index_to_workdir->new_file.path)) {
+            is_measured_path(entry->index_to_workdir->new_file.path)) {
             paths[entry->index_to_workdir->new_file.path] = true;
         }
     }

@@ -226,7 +226,7 @@ TEST_CASE("check does not touch functions that use a changed macro", "[check]") 
     CHECK(report["measured_files"] == 1);
 }
 
-TEST_CASE("check on a change without C/C++ files writes one line and passes", "[check]") {
+TEST_CASE("check on a change without C, C++ or Java files writes one line and passes", "[check]") {
     TempDir dir;
     init_repo(dir.path());
     dir.write("main.c", "int main(void) {\n    return 0;\n}\n");
@@ -237,7 +237,8 @@ TEST_CASE("check on a change without C/C++ files writes one line and passes", "[
     const auto result =
         run_tollgate("check --no-pch-cache --base " + base + " --head " + head, dir.path());
     CHECK(result.exit_code == 0);
-    CHECK(result.out.find("no C/C++ file changed: nothing to measure") != std::string::npos);
+    CHECK(result.out.find("no C, C++ or Java file changed: nothing to measure") !=
+          std::string::npos);
     CHECK(result.out.find("label") == std::string::npos);
 }
 
