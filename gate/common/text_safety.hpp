@@ -40,6 +40,21 @@ inline std::string terminal_text(std::string_view text) {
 // when it fits. Expects valid UTF-8.
 std::string clip(std::string_view text, std::size_t max_bytes);
 
+// Return the columns a terminal gives `text`: each code point counts 1, except combining marks,
+// zero-width spaces and joiners, variation selectors and Hangul medial vowels (0 columns) and
+// East Asian wide and fullwidth characters and wide emoji (2 columns), as Unicode Standard
+// Annex #11 (East Asian Width) and glibc's wcwidth() give them; an ill-formed byte sequence
+// counts as the one U+FFFD it becomes. Expects text made visible first (no control characters).
+std::size_t display_width(std::string_view text);
+
+// Which end of a text a cut removes.
+enum class CutEnd { left, right };
+
+// Return `text` cut to at most `columns` terminal columns (see display_width) at a code point
+// boundary, an ellipsis "…" taking the place of what was cut from `end`; `text` itself when
+// it fits. A `columns` of 0 gives an empty string.
+std::string clip_columns(std::string_view text, std::size_t columns, CutEnd end);
+
 // Return `text` (made visible, see visible_text) as Markdown inline text that renders as exactly
 // that text in CommonMark 0.30 and GitHub-flavoured Markdown: backslash escapes (CommonMark
 // section 2.4) for every character that could start markup (`\`, backtick, `*`, `_`, `~`, `[`,

@@ -134,6 +134,16 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
             job_owner.emplace_back(i, Side::head);
         }
     }
+    // A file takes its flags from the side it is read on (head, else base): say how many had
+    // none, so that the reports can tell how to give a compile database.
+    report.compile_database = !settings.compile_commands_json.empty();
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const SideSources& side = head.changed[i] ? head : base;
+        const auto& file = head.changed[i] ? head.changed[i] : base.changed[i];
+        if (file && side.context.file_flags.count(file->path) == 0) {
+            ++report.files_without_compile_flags;
+        }
+    }
     spdlog::debug("lexing {} file sides of {} changed files", jobs.size(), changes.files.size());
     const std::vector<lexer::FileFunctions> lexed = lex_with_cache(jobs, settings);
 

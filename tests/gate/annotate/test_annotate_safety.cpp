@@ -88,7 +88,7 @@ TEST_CASE("annotate posts a body that renders as GitHub-flavoured Markdown", "[a
     }
     REQUIRE(rendered.exit_code == 0);
     // The marker is an HTML comment of its own (hidden on the page), before everything else.
-    CHECK(rendered.out.rfind(k_marker + "\n<p><strong>Tollgate: blocked</strong>", 0) == 0);
+    CHECK(rendered.out.rfind(k_marker + "\n<h3>\xE2\x9B\x94 Tollgate blocks this change", 0) == 0);
     CHECK(occurrences(rendered.out, "<!--") == 1);
     CHECK(occurrences(rendered.out, "<table>") == 2); // shown rows and the folded rest
     CHECK(occurrences(rendered.out, "<tr>") == 15 + 2);
@@ -125,7 +125,7 @@ TEST_CASE("annotate keeps its marker whatever the report's text says", "[annotat
     REQUIRE(comments.size() == 3);
     CHECK(comments[0]["body"] == k_marker + "\nplanted");
     const std::string body = comments[2]["body"];
-    CHECK(body.rfind(k_marker + "\n**Tollgate: blocked**", 0) == 0);
+    CHECK(body.rfind(k_marker + "\n### \xE2\x9B\x94 Tollgate blocks this change", 0) == 0);
 
     // The next run finds the comment it wrote, not the planted one nor the other slot's.
     change.report.functions[1].head->measures.effort = 30;
