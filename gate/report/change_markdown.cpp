@@ -101,8 +101,9 @@ std::string assemble(const Parts& parts, const Kept& kept, std::size_t limit) {
         out += "\n";
     }
     if (rows > shown) {
-        out += fmt::format("<details><summary>{} more</summary>\n\n",
-                           count_text(rows - shown, "function", "functions"));
+        out += fmt::format("<details><summary>{} more function{}</summary>\n\n",
+                           group_thousands(static_cast<double>(rows - shown)),
+                           rows - shown == 1 ? "" : "s");
         out += parts.table_head;
         append(out, parts, kept, List::other_rows, shown, all);
         out += "\n</details>\n\n";

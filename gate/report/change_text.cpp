@@ -149,27 +149,42 @@ void write_table(Lines& lines, const ChangeReport& report, const ReadingOrder& o
 }
 
 // One function's findings under the verdict: its name and place, each finding, the command.
-void write_group(Lines& lines, const FunctionFindings& group) {
+void write_group(Lines& lines, const FunctionFindings& group, const RenderOptions& options) {
     const bool blocks = group.standing == Standing::blocks;
     const char* colour = blocks ? k_blocking : k_warning;
     const std::string word = fmt::format("  {:<5}  ", blocks ? k_block_word : k_warn_word);
+    const std::string margin(11, ' ');
+    const bool fit = options.fit == Fit::to_width;
     if (group.function.empty() && group.path.empty()) {
         lines.write(word + "the whole change", 11, colour);
     } else {
-        lines.write(word + terminal_text(group.function) + "  " +
-                        location_of(group.path, group.start_line),
-                    11, colour);
+        const std::string name = terminal_text(group.function);
+        const std::string place = location_of(group.path, group.start_line);
+        const std::string line = word + name + "  " + place;
+        if (!fit || text::display_width(line) <= options.width) {
+            lines.write(line, 11, colour);
+        } else {
+            // Too long for one line: the name (last scopes kept) above its place.
+            const std::size_t room = options.width > 20 ? options.width - 11 : 9;
+            lines.write(word + shorten_name(name, room + 2, 2), 11, colour);
+            lines.write(margin + shorten_location(place, room), 11, colour);
+        }
     }
     for (const auto* finding : group.findings) {
-        lines.write("           " + terminal_text(finding_detail(*finding)), 13);
+        lines.write(margin + terminal_text(finding_detail(*finding)), 13);
     }
     if (blocks && !group.function.empty()) {
-        lines.write("           why: " + terminal_text(explain_command(group.path, group.function)),
-                    13);
+        // A command is copied whole: when the name form does not fit, the PATH:LINE form.
+        std::string command = explain_command(group.path, group.function);
+        if (fit && text::display_width(margin + "why: " + terminal_text(command)) > options.width) {
+            command = explain_command(group.path, std::to_string(group.start_line));
+        }
+        lines.write(margin + "why: " + terminal_text(command), 13);
     }
 }
 
-void write_verdict(Lines& lines, const policy::Verdict& verdict, const ReadingOrder& order) {
+void write_verdict(Lines& lines, const policy::Verdict& verdict, const ReadingOrder& order,
+                   const RenderOptions& options) {
     const std::size_t blocking = policy::count_blocking(verdict);
     const std::size_t warnings = verdict.findings.size() - blocking;
     const bool blocked = verdict.outcome == policy::Outcome::blocked;
@@ -183,7 +198,7 @@ void write_verdict(Lines& lines, const policy::Verdict& verdict, const ReadingOr
     lines.write(terminal_text(line), 2, blocked ? k_blocking : k_passing);
     for (const auto* list : {&order.blocking, &order.warning}) {
         for (const auto& group : *list) {
-            write_group(lines, group);
+            write_group(lines, group, options);
         }
     }
     for (const auto& note : verdict.notes) {
@@ -229,7 +244,7 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
             lines.write("  " + hint, 4);
         }
     }
-    write_verdict(lines, verdict, order);
+    write_verdict(lines, verdict, order, options);
 }
 
 void write_diagnostics_text(std::ostream& out, const ChangeReport& report) {

@@ -52,9 +52,10 @@ Standing standing_of(const FunctionFindings* group);
 // limit +100% by 178 points (rule "effort-growth", blocking)"; the whole message otherwise.
 std::string finding_detail(const policy::Finding& finding);
 
-// Return the command that shows why `function` of `path` measures as it does, each argument
-// quoted for a POSIX shell when it needs it: `tollgate explain 'src/a b.c:f'`. Quoting keeps a
-// copied command from running anything the names hold.
+// Return the command that shows why `function` (a name, or a line number) of `path` measures
+// as it does, its argument quoted for a POSIX shell when it needs it:
+// `tollgate explain 'src/a b.c:f'`. Quoting keeps a copied command from running anything the
+// names hold.
 std::string explain_command(const std::string& path, const std::string& function);
 
 // One header the parser could not find, and the warnings it caused.

@@ -233,6 +233,22 @@ std::vector<std::string> layout_table(const std::vector<TableColumn>& columns,
         narrow(used, used_floor, used_shrinkable, width);
         widths = used;
     }
+    // Shortened cells may all end up narrower than their column: give the room back.
+    std::vector<std::vector<std::string>> fitted;
+    for (const auto& row : rows) {
+        std::vector<std::string> cells;
+        for (std::size_t c = 0; c < count; ++c) {
+            cells.push_back(shown[c] ? fit_cell(columns[c], row[c], widths[c]) : std::string());
+        }
+        fitted.push_back(std::move(cells));
+    }
+    for (std::size_t c = 0; c < count && fit == Fit::to_width; ++c) {
+        std::size_t used = std::min(widths[c], display_width(columns[c].title));
+        for (const auto& cells : fitted) {
+            used = std::max(used, display_width(cells[c]));
+        }
+        widths[c] = std::min(widths[c], used);
+    }
     std::vector<std::string> lines;
     const auto emit = [&](const std::vector<std::string>& cells, bool header) {
         std::string line;
@@ -241,7 +257,7 @@ std::vector<std::string> layout_table(const std::vector<TableColumn>& columns,
             if (!shown[c]) {
                 continue;
             }
-            const std::string cell = header ? cells[c] : fit_cell(columns[c], cells[c], widths[c]);
+            const std::string& cell = cells[c];
             line += (first ? "" : std::string(k_gap, ' ')) +
                     pad(header ? clip_columns(cell, widths[c], CutEnd::right) : cell, widths[c],
                         columns[c].right_aligned);
@@ -257,8 +273,8 @@ std::vector<std::string> layout_table(const std::vector<TableColumn>& columns,
         titles.push_back(column.title);
     }
     emit(titles, true);
-    for (const auto& row : rows) {
-        emit(row, false);
+    for (const auto& cells : fitted) {
+        emit(cells, false);
     }
     return lines;
 }

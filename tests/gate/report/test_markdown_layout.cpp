@@ -23,7 +23,9 @@ namespace {
 constexpr const char* k_probe = R"JS(
 (function () {
   const facts = {};
-  const shown = el => el.getClientRects().length > 0;
+  // Shown: laid out and not hidden by a closed <details> (checkVisibility sees that).
+  const shown = el => el.getClientRects().length > 0 &&
+      (el.checkVisibility ? el.checkVisibility() : el.closest('details:not([open])') === null);
   const headings = [...document.querySelectorAll('h3, h4')];
   facts.headings = headings.map(h => h.tagName + ' ' + h.textContent);
   const section = prefix => {
