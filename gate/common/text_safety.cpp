@@ -288,6 +288,22 @@ std::string clip_columns(std::string_view text, std::size_t columns, CutEnd end)
     return std::string(k_ellipsis) + std::string(text.substr(from));
 }
 
+std::string shell_word(std::string_view text) {
+    const bool plain = !text.empty() && std::all_of(text.begin(), text.end(), [](char c) {
+        return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
+               c == '_' || c == '-' || c == '.' || c == '/' || c == ':' || c == '+' || c == ',' ||
+               c == '@' || c == '%';
+    });
+    if (plain) {
+        return std::string(text);
+    }
+    std::string quoted = "'";
+    for (const char c : text) {
+        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    }
+    return quoted + "'";
+}
+
 std::string markdown_text(std::string_view text) {
     const std::string visible = visible_text(text);
     std::string out;

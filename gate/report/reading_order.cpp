@@ -2,6 +2,7 @@
 // Findings grouped per function in reading order; compiler diagnostics summed up.
 #include "gate/report/reading_order.hpp"
 
+#include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
 
 #include <algorithm>
@@ -23,28 +24,6 @@ Key key_of(const delta::FunctionDelta& f) {
 
 Key key_of(const policy::Finding& finding) {
     return {finding.function, finding.path, finding.start_line};
-}
-
-// Whether `text` can stand in a POSIX shell command as itself.
-bool shell_plain(const std::string& text) {
-    return !text.empty() && std::all_of(text.begin(), text.end(), [](unsigned char c) {
-        return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
-               c == '_' || c == '-' || c == '.' || c == '/' || c == ':' || c == '+' || c == ',' ||
-               c == '@' || c == '%';
-    });
-}
-
-// `text` in single quotes, each quote of its own written '\'' (POSIX.1-2017, Shell Command
-// Language, 2.2.2 Single-Quotes: nothing inside single quotes is special).
-std::string shell_quote(const std::string& text) {
-    if (shell_plain(text)) {
-        return text;
-    }
-    std::string quoted = "'";
-    for (const char c : text) {
-        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
-    }
-    return quoted + "'";
 }
 
 } // namespace
@@ -120,7 +99,7 @@ std::string finding_detail(const policy::Finding& finding) {
 }
 
 std::string explain_command(const std::string& path, const std::string& function) {
-    return "tollgate explain " + shell_quote(path + ":" + function);
+    return "tollgate explain " + text::shell_word(path + ":" + function);
 }
 
 std::string missing_header_of(const std::string& message) {
