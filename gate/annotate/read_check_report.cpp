@@ -237,6 +237,12 @@ CheckedChange read_document(const Reader& doc) {
     report.head_commit = doc.at("head").at("commit").text_or_empty();
     report.notes = doc.at("notes").texts();
     report.measured_files = doc.at("measured_files").count();
+    // Added to the schema later: reports written before it have no "diagnostics".
+    if (doc.node().contains("diagnostics")) {
+        const Reader diagnostics = doc.at("diagnostics");
+        report.compile_database = diagnostics.at("compile_database").flag();
+        report.files_without_compile_flags = diagnostics.at("files_without_compile_flags").count();
+    }
     report.totals = read_totals(doc.at("totals"));
     const Reader files = doc.at("files");
     for (std::size_t i = 0; i < files.size(); ++i) {

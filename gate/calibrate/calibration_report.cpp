@@ -225,6 +225,13 @@ std::string escape(const std::string& text) {
     return text::html_text(text);
 }
 
+// The chart palette: Okabe, M. and Ito, K., "Color Universal Design (CUD): how to make figures
+// and presentations that are friendly to colorblind people", 2008 (hex values from memory):
+// blue for the bins, vermillion for the overflow bin, told apart by hue and lightness under
+// red-green colour blindness, and each also marked in words (the ">" label and the legend).
+constexpr const char* k_bin_colour = "#0072B2";      // Okabe-Ito blue
+constexpr const char* k_overflow_colour = "#D55E00"; // Okabe-Ito vermillion
+
 std::string svg_histogram(const Series& series, const std::string& id, const char* unit) {
     constexpr int k_width = 640, k_height = 200, k_bottom = 40, k_left = 40;
     std::size_t top = 1;
@@ -251,7 +258,7 @@ std::string svg_histogram(const Series& series, const std::string& id, const cha
         svg += fmt::format("<rect class=\"bar\" x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" "
                            "fill=\"{}\" data-count=\"{}\"><title>{}: {}</title></rect>",
                            x + 1, k_height - h, bar_width - 2, h,
-                           b.overflow ? "#c0504d" : "#4f81bd", b.count, label, b.count);
+                           b.overflow ? k_overflow_colour : k_bin_colour, b.count, label, b.count);
         svg +=
             fmt::format("<text x=\"{}\" y=\"{}\" font-size=\"9\" text-anchor=\"middle\">{}</text>",
                         x + bar_width / 2, k_height - h - 2, b.count);
@@ -285,6 +292,9 @@ void write_calibration_html(std::ostream& out, const Calibration& c) {
     }
     out << "<p class=\"note\">Percentiles: linear interpolation between closest ranks. Changed "
            "functions are counted with zero and negative changes.</p>\n";
+    out << "<p class=\"note legend\"><span style=\"color:" << k_bin_colour
+        << "\">&#9632;</span> functions per bin; <span style=\"color:" << k_overflow_colour
+        << "\">&#9632;</span> the last bin, marked &gt;, holds every larger value.</p>\n";
     for (const auto& d : c.distributions) {
         const std::string name(core::measure_name(d.measure));
         out << "<h2>" << escape(name) << "</h2>\n<table class=\"percentiles\" id=\"table-"

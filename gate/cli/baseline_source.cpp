@@ -2,6 +2,7 @@
 // The baseline snapshot a check trusts: the pipeline's --baseline file or the base commit's blob.
 #include "gate/cli/baseline_source.hpp"
 
+#include "gate/baseline/snapshot_text.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/java/java_front_end.hpp"
 
@@ -96,6 +97,31 @@ std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snaps
     return by_identity;
 }
 
+// A snapshot counted under another convention or Stroud number is stale, not wrong: a tool
+// upgrade must not stop every pipeline. It is not used (the base is parsed, nothing is
+// grandfathered) and the warning says how to rebuild it.
+void drop_if_stale(TrustedBaseline& trusted, const baseline::SnapshotExpectations& expectations,
+                   const std::string& rebuild_path) {
+    const baseline::Snapshot& snapshot = *trusted.snapshot;
+    std::string why;
+    if (expectations.convention && snapshot.convention != *expectations.convention) {
+        why = "it was measured under convention \"" + snapshot.convention +
+              "\", this run counts \"" + *expectations.convention + "\"";
+    } else if (expectations.stroud && snapshot.stroud != *expectations.stroud) {
+        why = "it was measured with Stroud number " +
+              baseline::snapshot_text::format_stroud(snapshot.stroud) + ", this run uses " +
+              baseline::snapshot_text::format_stroud(*expectations.stroud);
+    }
+    if (why.empty()) {
+        return;
+    }
+    trusted.warning = "the baseline snapshot " + trusted.label + " is not used: " + why +
+                      "; the base was parsed (rebuild it: tollgate snapshot --rev " +
+                      snapshot.commit.substr(0, 7) + " --out " + rebuild_path + ")";
+    trusted.notes.push_back(trusted.warning);
+    trusted.snapshot.reset();
+}
+
 } // namespace
 
 TrustedBaseline load_trusted_baseline(const std::string& given, const policy::Policy& judging,
@@ -114,7 +140,8 @@ TrustedBaseline load_trusted_baseline(const std::string& given, const policy::Po
                 "parsed)");
             return trusted;
         }
-        trusted.snapshot = baseline::load_snapshot(given, expectations);
+        trusted.snapshot = baseline::load_snapshot(given);
+        drop_if_stale(trusted, expectations, trusted.rebuild_path);
         return trusted;
     }
     if (judging.baseline.path.empty()) {
@@ -131,10 +158,11 @@ TrustedBaseline load_trusted_baseline(const std::string& given, const policy::Po
         return trusted;
     }
     try {
-        trusted.snapshot = baseline::parse_snapshot(file->content, path, expectations);
+        trusted.snapshot = baseline::parse_snapshot(file->content, path);
     } catch (const UsageError& e) {
         throw UsageError("the base commit " + range.base.short_hex() + "'s " + e.what());
     }
+    drop_if_stale(trusted, expectations, path);
     return trusted;
 }
 
@@ -142,6 +170,7 @@ SnapshotUse decide_snapshot_use(const TrustedBaseline& trusted, const walker::Re
                                 const delta::SnapshotCheck& check) {
     SnapshotUse use;
     use.notes = trusted.notes;
+    use.warning = trusted.warning;
     if (!trusted.snapshot) {
         return use;
     }

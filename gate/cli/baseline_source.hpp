@@ -26,14 +26,17 @@ struct TrustedBaseline {
                                                 // "baselines/snapshot.json at base 3f2a91c"
     std::string rebuild_path;                   // the path "tollgate snapshot --out" would take
     std::vector<std::string> notes;             // sentences for every report
+    std::string warning; // why a stale snapshot (another convention or Stroud number) is not
+                         // used, for stderr; empty when none
 };
 
 // Return the snapshot a check of `range` may trust: the file `given` with --baseline (unless it
 // is a file of the working tree that the head commit added or changed: then a note says it is
 // not used), else the policy `judging`'s baseline.path read from the base commit's tree (a note
 // when it is not there). Never reads the policy's path from the working tree or the head.
-// Throws UsageError when `given` or the base's file is not a valid snapshot under
-// `expectations`, or when baseline.path is not a plain path inside the repository.
+// A snapshot of another convention or Stroud number than `expectations` is not used: `warning`
+// and a note say so and how to rebuild it. Throws UsageError when `given` or the base's file is
+// not a valid snapshot, or when baseline.path is not a plain path inside the repository.
 TrustedBaseline load_trusted_baseline(const std::string& given, const policy::Policy& judging,
                                       const walker::Repository& repository,
                                       const walker::ResolvedRange& range,

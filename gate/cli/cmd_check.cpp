@@ -21,6 +21,7 @@
 
 #include <cstdio>
 #include <filesystem>
+#include <iostream>
 #include <memory>
 #include <optional>
 #include <spdlog/spdlog.h>
@@ -37,6 +38,8 @@ struct CheckOptions {
     bool update_baseline = false;     // --update-baseline
     std::vector<std::string> reports; // --report FORMAT:PATH
     bool no_colour = false;           // --no-color
+    bool wide = false;                // -w, --wide
+    bool verbose = false;             // the global --verbose: diagnostics listed on stderr
     std::string link_template;        // --link-template
     std::size_t markdown_rows = 10;   // --markdown-rows
     unsigned jobs = 0;                // --jobs
@@ -121,6 +124,10 @@ int run_check(const CheckOptions& options) {
     report::RenderOptions render;
     render.link_template = options.link_template;
     render.markdown_rows = options.markdown_rows;
+    render.fit = options.wide ? report::Fit::wide : report::Fit::to_width;
+    if (options.verbose) {
+        report::write_diagnostics_text(std::cerr, report); // never after the verdict on stdout
+    }
     write_reports(report, verdict, selected.policy, targets, render, options.no_colour);
     if (options.update_baseline) {
         update_baseline(options, verdict, range, selected.policy, repository);
@@ -131,7 +138,7 @@ int run_check(const CheckOptions& options) {
 
 } // namespace
 
-void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<int()>& selected) {
+void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected) {
     auto options = std::make_shared<CheckOptions>();
     sub.description(
         "Gate a change: find the C/C++ functions touched between a base and a head commit, "
@@ -162,6 +169,9 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     sub.add_flag("--no-color", options->no_colour,
                  "Never colour the terminal table (colour is used on a terminal unless NO_COLOR "
                  "is set)");
+    sub.add_flag("-w,--wide", options->wide,
+                 "Show every column and whole names in the terminal table (default: fit the "
+                 "terminal's width, or 100 columns when not a terminal)");
     sub.add_option("--link-template", options->link_template,
                    "Link file:line cells of the Markdown table, e.g. "
                    "\"https://git.example/team/repo/blob/{commit}/{path}#L{line}\"");
@@ -188,7 +198,12 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                "  tollgate check --worktree                       uncommitted edits against "
                "HEAD\n"
                "  tollgate check --base v1.4 --report json:check.json --report text:-");
-    sub.callback([options, &selected] { selected = [options] { return run_check(*options); }; });
+    sub.callback([options, &global, &selected] {
+        selected = [options, &global] {
+            options->verbose = global.verbose;
+            return run_check(*options);
+        };
+    });
 }
 
 } // namespace tollgate

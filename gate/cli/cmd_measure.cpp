@@ -3,6 +3,7 @@
 #include "gate/cli/commands.hpp"
 #include "gate/cli/measure_span.hpp"
 #include "gate/cli/options.hpp"
+#include "gate/cli/report_targets.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/java/java_front_end.hpp"
@@ -20,6 +21,7 @@ struct MeasureOptions {
     SourceOptions sources;       // --rev, paths, compile database, cache
     std::string format = "text"; // text or json
     bool all_measures = false;   // every measure, not the essential columns
+    bool wide = false;           // -w, --wide: every column, whole names
     unsigned jobs = 0;           // parser threads, 0 = all cores
     IsolationOptions isolation;  // --parse-timeout, --parse-memory
     double stroud = 18.0;        // Stroud number for T
@@ -44,7 +46,8 @@ int run_measure(const MeasureOptions& options) {
     } else {
         report::write_measure_text(
             std::cout, functions, warnings,
-            options.all_measures ? report::Columns::all : report::Columns::essential, loaded.label);
+            options.all_measures ? report::Columns::all : report::Columns::essential, loaded.label,
+            terminal_width(), options.wide ? report::Fit::wide : report::Fit::to_width);
     }
     return 0;
 }
@@ -62,6 +65,9 @@ void attach_measure(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--format", options->format, "Output format")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
+    sub.add_flag("-w,--wide", options->wide,
+                 "Show every column and whole names (default: fit the terminal's width, or 100 "
+                 "columns when not a terminal)");
     sub.add_flag("-a,--all-measures", options->all_measures,
                  "Show every measure (N n N^ V D L^ E T B V* V*/V), not only the essential ones");
     add_jobs_option(sub, options->jobs);

@@ -53,6 +53,8 @@ int run_cli(int argc, char** argv) {
                          std::string("tollgate ") + TOLLGATE_VERSION + "\n" + java::java_status());
     GlobalOptions global;
     app.add_flag("-v,--verbose", global.verbose, "Log what each stage does on stderr");
+    // "-v" after the command ("tollgate check -v", as check's diagnostics line says) works too.
+    app.fallthrough();
     app.footer("Exit codes: 0 pass, 1 blocked by the policy, 2 usage or configuration error, "
                "3 repository or parsing failure.\nRun \"tollgate COMMAND --help\" for a "
                "command's options and an example.");

@@ -3,6 +3,8 @@
 #include "gate/common/text_safety.hpp"
 
 #include <algorithm>
+#include <iterator>
+#include <vector>
 
 namespace tollgate::text {
 
@@ -169,6 +171,137 @@ std::string clip(std::string_view text, std::size_t max_bytes) {
         --cut; // never split a UTF-8 sequence
     }
     return std::string(text.substr(0, cut)) + std::string(k_mark);
+}
+
+namespace {
+
+struct CodeRange {
+    char32_t first;
+    char32_t last;
+};
+
+// Code points a terminal shows in no column: combining marks (general category Mn/Me) of the
+// common scripts, zero-width space and joiners, Hangul medial vowels and final consonants,
+// variation selectors, the byte order mark. A subset of Markus Kuhn's wcwidth.c tables and
+// glibc's, which the tests compare against (from memory, checked against glibc's wcwidth).
+constexpr CodeRange k_zero_width[] = {
+    {0x0300, 0x036F}, {0x0483, 0x0489}, {0x0591, 0x05BD},   {0x05BF, 0x05BF}, {0x05C1, 0x05C2},
+    {0x05C4, 0x05C5}, {0x05C7, 0x05C7}, {0x0610, 0x061A},   {0x064B, 0x065F}, {0x0670, 0x0670},
+    {0x06D6, 0x06DC}, {0x06DF, 0x06E4}, {0x06E7, 0x06E8},   {0x06EA, 0x06ED}, {0x0711, 0x0711},
+    {0x0730, 0x074A}, {0x07A6, 0x07B0}, {0x0900, 0x0902},   {0x093A, 0x093A}, {0x093C, 0x093C},
+    {0x0941, 0x0948}, {0x094D, 0x094D}, {0x0951, 0x0957},   {0x0962, 0x0963}, {0x0E31, 0x0E31},
+    {0x0E34, 0x0E3A}, {0x0E47, 0x0E4E}, {0x1160, 0x11FF},   {0x1AB0, 0x1AFF}, {0x1DC0, 0x1DFF},
+    {0x200B, 0x200F}, {0x20D0, 0x20FF}, {0x302A, 0x302D},   {0x3099, 0x309A}, {0xFE00, 0xFE0F},
+    {0xFE20, 0xFE2F}, {0xFEFF, 0xFEFF}, {0xE0100, 0xE01EF},
+};
+
+// Code points a terminal shows in two columns: East Asian Wide and Fullwidth (UAX #11) and the
+// emoji shown wide by default (from memory, checked against glibc's wcwidth).
+constexpr CodeRange k_double_width[] = {
+    {0x1100, 0x115F},   {0x231A, 0x231B},   {0x2329, 0x232A},   {0x23E9, 0x23EC},
+    {0x23F0, 0x23F0},   {0x23F3, 0x23F3},   {0x25FD, 0x25FE},   {0x2614, 0x2615},
+    {0x2648, 0x2653},   {0x267F, 0x267F},   {0x2693, 0x2693},   {0x26A1, 0x26A1},
+    {0x26AA, 0x26AB},   {0x26BD, 0x26BE},   {0x26C4, 0x26C5},   {0x26CE, 0x26CE},
+    {0x26D4, 0x26D4},   {0x26EA, 0x26EA},   {0x26F2, 0x26F3},   {0x26F5, 0x26F5},
+    {0x26FA, 0x26FA},   {0x26FD, 0x26FD},   {0x2705, 0x2705},   {0x270A, 0x270B},
+    {0x2728, 0x2728},   {0x274C, 0x274C},   {0x274E, 0x274E},   {0x2753, 0x2755},
+    {0x2757, 0x2757},   {0x2795, 0x2797},   {0x27B0, 0x27B0},   {0x27BF, 0x27BF},
+    {0x2B1B, 0x2B1C},   {0x2B50, 0x2B50},   {0x2B55, 0x2B55},   {0x2E80, 0x303E},
+    {0x3041, 0x33FF},   {0x3400, 0x4DBF},   {0x4E00, 0x9FFF},   {0xA000, 0xA4CF},
+    {0xA960, 0xA97F},   {0xAC00, 0xD7A3},   {0xF900, 0xFAFF},   {0xFE10, 0xFE19},
+    {0xFE30, 0xFE6F},   {0xFF00, 0xFF60},   {0xFFE0, 0xFFE6},   {0x1F300, 0x1F64F},
+    {0x1F680, 0x1F6FF}, {0x1F900, 0x1F9FF}, {0x20000, 0x2FFFD}, {0x30000, 0x3FFFD},
+};
+
+template <std::size_t N>
+bool in_ranges(const CodeRange (&ranges)[N], char32_t c) {
+    const auto* it =
+        std::upper_bound(std::begin(ranges), std::end(ranges), c,
+                         [](char32_t value, const CodeRange& r) { return value < r.first; });
+    return it != std::begin(ranges) && c <= (it - 1)->last;
+}
+
+std::size_t code_point_width(const Step& step) {
+    if (!step.valid) {
+        return 1; // shown as one U+FFFD
+    }
+    if (in_ranges(k_zero_width, step.code_point)) {
+        return 0;
+    }
+    return in_ranges(k_double_width, step.code_point) ? 2 : 1;
+}
+
+constexpr std::string_view k_ellipsis = "\xE2\x80\xA6"; // U+2026, one column
+
+} // namespace
+
+std::size_t display_width(std::string_view text) {
+    std::size_t width = 0;
+    for (std::size_t i = 0; i < text.size();) {
+        const Step step = decode(text, i);
+        width += code_point_width(step);
+        i += step.length;
+    }
+    return width;
+}
+
+std::string clip_columns(std::string_view text, std::size_t columns, CutEnd end) {
+    if (display_width(text) <= columns) {
+        return std::string(text);
+    }
+    if (columns == 0) {
+        return {};
+    }
+    // Code points with their byte offsets and widths, so that either end can be walked.
+    struct Piece {
+        std::size_t at, length, width;
+    };
+    std::vector<Piece> pieces;
+    for (std::size_t i = 0; i < text.size();) {
+        const Step step = decode(text, i);
+        pieces.push_back({i, step.length, code_point_width(step)});
+        i += step.length;
+    }
+    const std::size_t room = columns - 1; // the ellipsis takes one column
+    std::size_t used = 0;
+    if (end == CutEnd::right) {
+        std::size_t stop = 0;
+        while (stop < pieces.size() && used + pieces[stop].width <= room) {
+            used += pieces[stop++].width;
+        }
+        // Marks that join the last kept character stay with it.
+        while (stop < pieces.size() && pieces[stop].width == 0) {
+            ++stop;
+        }
+        const std::size_t bytes = stop == pieces.size() ? text.size() : pieces[stop].at;
+        return std::string(text.substr(0, bytes)) + std::string(k_ellipsis);
+    }
+    std::size_t start = pieces.size();
+    while (start > 0 && used + pieces[start - 1].width <= room) {
+        used += pieces[--start].width;
+    }
+    // A kept text does not start with a mark that belonged to a cut character.
+    while (start < pieces.size() && pieces[start].width == 0) {
+        ++start;
+    }
+    const std::size_t from = start == pieces.size() ? text.size() : pieces[start].at;
+    return std::string(k_ellipsis) + std::string(text.substr(from));
+}
+
+std::string shell_word(std::string_view text) {
+    const bool plain = !text.empty() && std::all_of(text.begin(), text.end(), [](char c) {
+        return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
+               c == '_' || c == '-' || c == '.' || c == '/' || c == ':' || c == '+' || c == ',' ||
+               c == '@' || c == '%';
+    });
+    if (plain) {
+        return std::string(text);
+    }
+    std::string quoted = "'";
+    for (const char c : text) {
+        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    }
+    return quoted + "'";
 }
 
 std::string markdown_text(std::string_view text) {

@@ -40,6 +40,21 @@ inline std::string terminal_text(std::string_view text) {
 // when it fits. Expects valid UTF-8.
 std::string clip(std::string_view text, std::size_t max_bytes);
 
+// Return the columns a terminal gives `text`: each code point counts 1, except combining marks,
+// zero-width spaces and joiners, variation selectors and Hangul medial vowels (0 columns) and
+// East Asian wide and fullwidth characters and wide emoji (2 columns), as Unicode Standard
+// Annex #11 (East Asian Width) and glibc's wcwidth() give them; an ill-formed byte sequence
+// counts as the one U+FFFD it becomes. Expects text made visible first (no control characters).
+std::size_t display_width(std::string_view text);
+
+// Which end of a text a cut removes.
+enum class CutEnd { left, right };
+
+// Return `text` cut to at most `columns` terminal columns (see display_width) at a code point
+// boundary, an ellipsis "…" taking the place of what was cut from `end`; `text` itself when
+// it fits. A `columns` of 0 gives an empty string.
+std::string clip_columns(std::string_view text, std::size_t columns, CutEnd end);
+
 // Return `text` (made visible, see visible_text) as Markdown inline text that renders as exactly
 // that text in CommonMark 0.30 and GitHub-flavoured Markdown: backslash escapes (CommonMark
 // section 2.4) for every character that could start markup (`\`, backtick, `*`, `_`, `~`, `[`,
@@ -71,6 +86,12 @@ std::string url_text(std::string_view url);
 // Return `text` (made visible) with `&`, `<`, `>`, `"` and `'` written as HTML character
 // references: safe in HTML element content and in a quoted attribute value.
 std::string html_text(std::string_view text);
+
+// Return `text` as one word for a POSIX shell: itself when it holds only letters, digits and
+// "_-./:+,@%", else in single quotes with each quote written '\'' (POSIX.1-2017, Shell Command
+// Language, 2.2.2 Single-Quotes: nothing inside them is special). For commands a report shows
+// to be copied; a copied command runs nothing the text holds.
+std::string shell_word(std::string_view text);
 
 // Return `text` in a lossless, valid-UTF-8 form for stores that are read back: valid UTF-8 is
 // kept, "%" becomes "%25" and each byte of an ill-formed sequence becomes "%XX". unstore_bytes

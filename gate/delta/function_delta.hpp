@@ -112,6 +112,9 @@ struct ChangeReport {
     std::vector<SkippedPath> skipped;     // changed files not measured
     std::vector<ChangeWarning> warnings;  // parser warnings on either side
     unsigned measured_files = 0;          // changed C/C++ files measured
+    bool compile_database = false;        // a compile_commands.json was given or found
+    unsigned files_without_compile_flags = 0; // measured files no compile_commands.json entry
+                                              // covers (every one when there is none)
 };
 
 // Sort `functions` for reports: largest effort growth first, then by path, line and name, so

@@ -220,6 +220,16 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
     const SideSources base = read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
 
+    // A file takes its flags from the side it is read on (head, else base): say how many had
+    // none, so that the reports can tell how to give a compile database.
+    report.compile_database = !settings.compile_commands_json.empty();
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const SideSources& side = head.changed[i] ? head : base;
+        const auto& file = head.changed[i] ? head.changed[i] : base.changed[i];
+        if (file && side.context.file_flags.count(file->path) == 0) {
+            ++report.files_without_compile_flags;
+        }
+    }
     LexedChange lexed = lex_change(changes, base, head, settings);
     const std::vector<bool> measured_lexically = measure_sides_alike(lexed, changes);
     const std::vector<FileSides> sides = assemble_sides(lexed, changes, report);

@@ -54,7 +54,11 @@ TEST_CASE("annotate keeps one comment on a GitHub pull request", "[annotate][cli
     auto comments = forge.comments(k_comments);
     REQUIRE(comments.size() == 2);
     const std::string created = comments[1]["body"];
-    CHECK(created.rfind(k_marker + "\n**Tollgate: blocked** by 1 finding", 0) == 0);
+    CHECK(
+        created.rfind(
+            k_marker +
+                "\n### \xE2\x9B\x94 Tollgate blocks this change: 1 function over a blocking limit",
+            0) == 0);
     CHECK(forge.requests("POST", ".*/comments").size() == 1);
     const auto post = forge.requests("POST", ".*/comments").front();
     CHECK(post["path"] == "/repos/octo/gadget/issues/12/comments");
@@ -82,8 +86,8 @@ TEST_CASE("annotate keeps one comment on a GitHub pull request", "[annotate][cli
         comments = forge.comments(k_comments);
         REQUIRE(comments.size() == 2);
         CHECK(comments[1]["id"] == 1002);
-        CHECK(comments[1]["body"].get<std::string>().rfind(k_marker + "\n**Tollgate: pass**", 0) ==
-              0);
+        CHECK(comments[1]["body"].get<std::string>().rfind(
+                  k_marker + "\n### \xE2\x9C\x93 Tollgate passes this change", 0) == 0);
         CHECK(comments[0]["body"] == "Looks fine to me.");
 
         // Nothing touched any more: the comment collapses to one line, and stays so.

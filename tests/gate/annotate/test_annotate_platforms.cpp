@@ -60,7 +60,8 @@ TEST_CASE("annotate keeps one note on a GitLab merge request", "[annotate][cli]"
     CHECK(puts[0]["path"] == "/api/v4/projects/team%2Fsensors/merge_requests/7/notes/1046");
     const auto kept = forge.comments(notes);
     REQUIRE(kept.size() == 46);
-    CHECK(kept[45]["body"].get<std::string>().rfind(k_marker + "\n**Tollgate: pass**", 0) == 0);
+    CHECK(kept[45]["body"].get<std::string>().rfind(
+              k_marker + "\n### \xE2\x9C\x93 Tollgate passes this change", 0) == 0);
 }
 
 TEST_CASE("annotate keeps one comment on a Gitea or Forgejo pull request", "[annotate][cli]") {

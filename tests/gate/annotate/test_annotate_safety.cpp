@@ -88,10 +88,12 @@ TEST_CASE("annotate posts a body that renders as GitHub-flavoured Markdown", "[a
     }
     REQUIRE(rendered.exit_code == 0);
     // The marker is an HTML comment of its own (hidden on the page), before everything else.
-    CHECK(rendered.out.rfind(k_marker + "\n<p><strong>Tollgate: blocked</strong>", 0) == 0);
+    CHECK(rendered.out.rfind(k_marker + "\n<h3>\xE2\x9B\x94 Tollgate blocks this change", 0) == 0);
     CHECK(occurrences(rendered.out, "<!--") == 1);
     CHECK(occurrences(rendered.out, "<table>") == 2); // shown rows and the folded rest
-    CHECK(occurrences(rendered.out, "<tr>") == 15 + 2);
+    // The blocked function has its entry above the table: 14 rows and 2 header rows.
+    CHECK(occurrences(rendered.out, "<tr>") == 14 + 2);
+    CHECK(occurrences(rendered.out, "<h4>Blocks the merge</h4>") == 1);
     CHECK(rendered.out.find("<td><code>operator|</code></td>") != std::string::npos);
     CHECK(rendered.out.find("href=\"http://127.0.0.1") == std::string::npos);
 }
@@ -125,7 +127,7 @@ TEST_CASE("annotate keeps its marker whatever the report's text says", "[annotat
     REQUIRE(comments.size() == 3);
     CHECK(comments[0]["body"] == k_marker + "\nplanted");
     const std::string body = comments[2]["body"];
-    CHECK(body.rfind(k_marker + "\n**Tollgate: blocked**", 0) == 0);
+    CHECK(body.rfind(k_marker + "\n### \xE2\x9B\x94 Tollgate blocks this change", 0) == 0);
 
     // The next run finds the comment it wrote, not the planted one nor the other slot's.
     change.report.functions[1].head->measures.effort = 30;
@@ -209,7 +211,8 @@ TEST_CASE("annotate posts hostile names and paths as text", "[annotate][cli]") {
     for (const char* tag : {"<script", "<img", "<b>", "<h1>", "href=\"javascript:"}) {
         CHECK(html.find(tag) == std::string::npos);
     }
-    CHECK(occurrences(html, "<table>") == 1);
-    CHECK(occurrences(html, "<tr>") == 2); // the header and the one function
+    // The one function blocks: one entry, no table of other functions.
+    CHECK(occurrences(html, "<table>") == 0);
+    CHECK(occurrences(html, "<li>\xE2\x9B\x94 <code>") == 1);
     CHECK(occurrences(html, "<a href=\"") == occurrences(html, "<a href=\"https://git.example/"));
 }

@@ -35,7 +35,8 @@ TEST_CASE("comment_marker and starts_with_marker", "[annotate]") {
     const std::string marker = comment_marker("gate");
     CHECK(marker == "<!-- tollgate:annotate slot=gate -->");
     SECTION("the marker must be the body's whole first line") {
-        CHECK(starts_with_marker(marker + "\n**Tollgate: pass**", marker));
+        CHECK(
+            starts_with_marker(marker + "\n### \xE2\x9C\x93 Tollgate passes this change", marker));
         CHECK(starts_with_marker(marker + "\r\nrest", marker));
         CHECK(starts_with_marker(marker, marker));
         CHECK_FALSE(starts_with_marker(" " + marker + "\n", marker));

@@ -250,6 +250,24 @@ History history_with_committed_baseline(const TempDir& dir, bool grandfather,
 
 } // namespace
 
+TEST_CASE("check parses the base when the base commit's snapshot is stale", "[check][baseline]") {
+    // A tool upgrade (a new convention) or another --stroud leaves every committed snapshot
+    // stale: the gate must still judge the change, not stop the pipeline.
+    TempDir dir;
+    const auto h = history_with_committed_baseline(dir, true, k_hard_worse);
+    const auto result = run_tollgate("check --no-pch-cache --no-color --stroud 5 --base " + h.base +
+                                         " --head " + h.head,
+                                     dir.path());
+    INFO(result.out << result.err);
+    CHECK(result.exit_code == 1); // judged on the parsed base: the ceiling blocks, unexcused
+    CHECK(result.err.find("tollgate: warning: the baseline snapshot baselines/snapshot.json at "
+                          "base " +
+                          h.base.substr(0, 7) +
+                          " is not used: it was measured with Stroud number 18, this run uses 5; "
+                          "the base was parsed") != std::string::npos);
+    CHECK(result.out.find("grandfathered") == std::string::npos);
+}
+
 TEST_CASE("check grandfathers a function already above a ceiling in a trusted baseline",
           "[check][baseline]") {
     SECTION("no worse than the base commit's snapshot: reported, not blocking") {

@@ -9,6 +9,7 @@
 
 #include <catch2/catch.hpp>
 #include <nlohmann/json.hpp>
+#include <set>
 #include <sstream>
 
 using namespace tollgate;
@@ -25,13 +26,14 @@ std::vector<std::string> lines_of(const std::string& text) {
     return lines;
 }
 
-// Return `text` without our own colour sequences (ESC [ digits m).
+// Return `text` without our own colour sequences (ESC [ digits and semicolons m).
 std::string without_colour(const std::string& text) {
     std::string out;
     for (std::size_t i = 0; i < text.size(); ++i) {
         if (text[i] == '\x1b' && i + 1 < text.size() && text[i + 1] == '[') {
             std::size_t end = i + 2;
-            while (end < text.size() && std::isdigit(static_cast<unsigned char>(text[end]))) {
+            while (end < text.size() &&
+                   (std::isdigit(static_cast<unsigned char>(text[end])) || text[end] == ';')) {
                 ++end;
             }
             if (end < text.size() && text[end] == 'm') {
@@ -82,9 +84,21 @@ TEST_CASE("write_change_json writes hostile text as valid JSON", "[report]") {
 
 TEST_CASE("write_change_text neutralises control characters from the repository", "[report]") {
     const auto h = test::hostile_change();
-    SECTION("without colour no escape sequence and no stray line break reaches the terminal") {
+    SECTION("fitted to 100 columns, shortening never lets a control character through") {
         std::ostringstream out;
         report::write_change_text(out, h.report, h.verdict, {});
+        INFO(out.str());
+        CHECK_FALSE(has_control_byte(out.str()));
+        CHECK(text::is_valid_utf8(out.str()));
+        for (const auto& line : lines_of(out.str())) {
+            CHECK(text::display_width(line) <= 100);
+        }
+    }
+    SECTION("without colour no escape sequence and no stray line break reaches the terminal") {
+        report::RenderOptions wide;
+        wide.fit = report::Fit::wide; // every column and whole names: every text is there
+        std::ostringstream out;
+        report::write_change_text(out, h.report, h.verdict, wide);
         const std::string table = out.str();
         INFO(table);
         CHECK_FALSE(has_control_byte(table));
@@ -92,10 +106,14 @@ TEST_CASE("write_change_text neutralises control characters from the repository"
         CHECK(table.find("\\x1b[2J") != std::string::npos); // shown, not obeyed
         CHECK(table.find("src/a\\x0ab|c `d`.cpp:") != std::string::npos);
         CHECK(table.find("\\u202e") != std::string::npos);
-        // One line per function: every row starts with its label.
+        // One line per function: every row starts with its status word, then its label.
         std::size_t rows = 0;
         for (const auto& line : lines_of(table)) {
-            rows += line.rfind("changed ", 0) == 0 || line.rfind("added ", 0) == 0 ? 1 : 0;
+            for (const char* status : {"block  ", "warn   "}) {
+                for (const char* label : {"changed ", "added "}) {
+                    rows += line.rfind(std::string(status) + label, 0) == 0 ? 1 : 0;
+                }
+            }
         }
         CHECK(rows == h.report.functions.size());
     }
@@ -105,7 +123,7 @@ TEST_CASE("write_change_text neutralises control characters from the repository"
         std::ostringstream out;
         report::write_change_text(out, h.report, h.verdict, options);
         INFO(out.str());
-        CHECK(out.str().find("\x1b[31m") != std::string::npos);
+        CHECK(out.str().find("\x1b[38;5;166m") != std::string::npos); // our vermillion
         CHECK_FALSE(has_control_byte(without_colour(out.str())));
     }
 }
@@ -128,27 +146,36 @@ TEST_CASE("write_change_markdown keeps hostile text inside its cell", "[report]"
         return;
     }
     INFO(*html);
-    SECTION("two tables, every row with its eight cells") {
-        CHECK(test::occurrences(*html, "<table>") == 2);
-        const auto bodies = test::between(*html, "<tbody>", "</tbody>");
-        REQUIRE(bodies.size() == 2);
-        std::size_t rows = 0;
-        for (const auto& body : bodies) {
-            for (const auto& row : test::between(body, "<tr>", "</tr>")) {
-                ++rows;
-                CHECK(test::occurrences(row, "<td") == 8);
+    SECTION("one entry per function, its findings listed under it, no table") {
+        // Every hostile function breaks a rule, so each has an entry and none is in a table;
+        // the budget adds one entry for the whole change.
+        CHECK(test::occurrences(*html, "<table>") == 0);
+        std::size_t budget = 0;
+        std::set<std::string> blocked_functions;
+        for (const auto& f : h.verdict.findings) {
+            budget += f.function.empty() ? 1 : 0;
+            if (f.blocks() && !f.function.empty()) {
+                blocked_functions.insert(f.function + "\n" + f.path);
             }
         }
-        CHECK(rows == h.report.functions.size());
+        const std::size_t entries = h.report.functions.size() + budget;
+        CHECK(test::occurrences(*html, "<li>\xE2\x9B\x94 ") +
+                  test::occurrences(*html, "<li>\xE2\x9A\xA0 ") ==
+              entries);
+        // Our own list items only: entries, their findings and commands, the policy
+        // differences, the diagnostics, and the notes and skipped files.
+        CHECK(test::occurrences(*html, "<li>") ==
+              entries + h.verdict.findings.size() + blocked_functions.size() +
+                  h.verdict.policy_changes.size() + h.report.warnings.size() +
+                  h.report.notes.size() + h.report.skipped.size());
     }
     SECTION("no markup of the data's own: no HTML, links, headings or lists from it") {
         for (const char* tag : {"<script", "<img", "<b>", "<i>", "<h1", "<del"}) {
             CHECK(html->find(tag) == std::string::npos);
         }
-        // Our own list items only: the findings, and the bullets under the table.
-        CHECK(test::occurrences(*html, "<li>") ==
-              h.verdict.findings.size() + h.verdict.policy_changes.size() + h.verdict.notes.size() +
-                  h.report.notes.size() + h.report.skipped.size() + h.report.warnings.size());
+        // Our own headings only: the verdict, and the two lists.
+        CHECK(test::occurrences(*html, "<h3>") == 1);
+        CHECK(test::occurrences(*html, "<h4>") == 2);
         // The only links are the template's, one per function, percent-encoded.
         const auto links = test::between(*html, "<a href=\"", "\"");
         CHECK(links.size() == h.report.functions.size());
@@ -196,15 +223,16 @@ TEST_CASE("write_change_markdown stays under its size limit", "[report]") {
         const std::string markdown = out.str();
         CHECK(markdown.size() <= report::k_markdown_byte_limit);
         CHECK(markdown.size() > report::k_markdown_byte_limit - 2000); // filled, not emptied
+        // Every function is blocked: entries are cut last, but here they must be cut too.
         CHECK(markdown.find("> [!NOTE]\n> This report is cut to stay under 1,000,000 bytes: it "
-                            "leaves out 20,000 of 20,000 function rows and ") != std::string::npos);
+                            "leaves out ") != std::string::npos);
+        CHECK(markdown.find(" of 20,000 blocked functions (the least important and the last "
+                            "listed go first)") != std::string::npos);
         CHECK(markdown.find("The JSON report (`--report json:PATH`) has everything.") !=
               std::string::npos);
-        // The findings that stayed are the first ones, in order.
-        CHECK(markdown.find(text::markdown_text(verdict.findings.front().message)) !=
-              std::string::npos);
-        CHECK(markdown.find(text::markdown_text(verdict.findings.back().message)) ==
-              std::string::npos);
+        // The entries that stayed are the first ones, in report order.
+        CHECK(markdown.find("`" + report.functions.front().name + "`") != std::string::npos);
+        CHECK(markdown.find("`" + report.functions.back().name + "`") == std::string::npos);
         // The JSON report keeps every function.
         std::ostringstream json;
         report::write_change_json(json, report, verdict);
@@ -220,8 +248,8 @@ TEST_CASE("write_change_markdown stays under its size limit", "[report]") {
         report::write_change_markdown(out, report, small_verdict, options);
         const std::string markdown = out.str();
         CHECK(markdown.size() <= 100'000);
-        CHECK(markdown.find("function rows") != std::string::npos);
-        CHECK(markdown.find("findings") == std::string::npos);
+        CHECK(markdown.find("rows of other functions") != std::string::npos);
+        CHECK(markdown.find("blocked functions") == std::string::npos);
         const auto html = test::render_gfm(markdown);
         if (!html) {
             WARN("cmark-gfm is not installed: the rendering check is skipped");
