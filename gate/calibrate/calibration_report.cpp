@@ -87,13 +87,12 @@ std::vector<std::string> scope_lines(const Calibration& c) {
     lines.push_back(excluded ? "vendored: left out, not parsed (--keep-vendored keeps them):"
                              : "vendored: kept (--keep-vendored):");
     for (const auto& folder : scope.vendored) {
-        lines.push_back("  " + folder.path + "/ " +
+        lines.push_back("  " + folder.path + "/ (" + vendored_sign_text(folder.sign) + ")" +
                         (excluded
-                             ? fmt::format("{} changed {} in {} {} left out; ", folder.files,
+                             ? fmt::format(": {} changed {} in {} {} left out", folder.files,
                                            folder.files == 1 ? "file" : "files", folder.commits,
                                            folder.commits == 1 ? "commit" : "commits")
-                             : std::string()) +
-                        "(" + vendored_sign_text(folder.sign) + ")");
+                             : std::string()));
     }
     return lines;
 }
