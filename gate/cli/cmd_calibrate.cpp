@@ -188,7 +188,7 @@ int run_calibrate(const CalibrateOptions& options) {
         return calibrate::keep_changed_file(scope, file);
     };
     ProgressMeter progress("calibrate", "commits", progress_mode,
-                           progress_style(progress_mode, ::isatty(STDERR_FILENO) == 1), std::cerr,
+                           progress_style(progress_mode, stderr_is_terminal()), std::cerr,
                            progress_interval_seconds());
     // Test hook: deliver a real SIGINT after this many commits, to test the partial result.
     const char* interrupt_after = std::getenv("TOLLGATE_TEST_SIGINT_AFTER_COMMITS");
@@ -321,10 +321,7 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_flag("--keep-vendored", options->keep_vendored,
                  "Measure folders that look like bundled third-party code too (by default they "
                  "are left out, listed, and excluded in a suggested policy)");
-    sub.add_option("--progress", options->progress,
-                   "Progress on stderr: auto (a live line on a terminal, else a line every 10 "
-                   "seconds), always, never")
-        ->capture_default_str();
+    add_progress_option(sub, options->progress);
     sub.add_option("--out", options->out,
                    "Where --suggest or --suggest-block-rate writes the policy (default: stdout, "
                    "and then no report on stdout)");

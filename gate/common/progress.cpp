@@ -8,6 +8,7 @@
 #include <cmath>
 #include <cstdlib>
 #include <fmt/format.h>
+#include <unistd.h>
 
 namespace tollgate {
 
@@ -34,6 +35,10 @@ ProgressMode parse_progress_mode(const std::string& name) {
         return ProgressMode::never;
     }
     throw UsageError("unknown progress mode \"" + name + "\" (give auto, always or never)");
+}
+
+bool stderr_is_terminal() {
+    return ::isatty(STDERR_FILENO) == 1;
 }
 
 ProgressStyle progress_style(ProgressMode mode, bool is_terminal) {

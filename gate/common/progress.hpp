@@ -31,6 +31,9 @@ enum class ProgressStyle {
 // Return the style for `mode` when stderr `is_terminal` or not.
 ProgressStyle progress_style(ProgressMode mode, bool is_terminal);
 
+// Return whether standard error is a terminal.
+bool stderr_is_terminal();
+
 // Return the seconds between two periodic lines: $TOLLGATE_PROGRESS_SECONDS when it is a
 // number of 0 or more (0: a line for every step), else 10.
 double progress_interval_seconds();

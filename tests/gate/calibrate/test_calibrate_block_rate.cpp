@@ -142,22 +142,50 @@ TEST_CASE("calibrate --progress", "[calibrate]") {
     SECTION("a non-terminal gets a line per interval (here every commit) and a closing line") {
         const auto run = run_command("TOLLGATE_PROGRESS_SECONDS=0 " +
                                          shell_quote(tollgate::test::tollgate_binary()) + " " +
-                                         command + " --progress always 2>&1 >/dev/null",
+                                         command + " --progress always",
                                      dir);
-        INFO(run.out);
+        INFO(run.err);
         REQUIRE(run.exit_code == 0);
-        CHECK(count_of(run.out, "calibrate: ") == 61);
-        CHECK(run.out.find("calibrate: 60/60 commits, ") != std::string::npos);
-        CHECK(run.out.find(" left\n") != std::string::npos);
-        CHECK(run.out.find("calibrate: 60/60 commits in ") != std::string::npos);
-        CHECK(run.out.find('\r') == std::string::npos);
+        CHECK(count_of(run.err, "calibrate: ") == 61);
+        CHECK(run.err.find("calibrate: 60/60 commits, ") != std::string::npos);
+        CHECK(run.err.find(" left\n") != std::string::npos);
+        CHECK(run.err.find("calibrate: 60/60 commits in ") != std::string::npos);
+        CHECK(run.err.find('\r') == std::string::npos);
     }
     SECTION("never writes no progress") {
         const auto run = run_command("TOLLGATE_PROGRESS_SECONDS=0 " +
                                          shell_quote(tollgate::test::tollgate_binary()) + " " +
-                                         command + " --progress never 2>&1 >/dev/null",
+                                         command + " --progress never",
                                      dir);
         REQUIRE(run.exit_code == 0);
-        CHECK(count_of(run.out, "calibrate: ") == 0);
+        CHECK(count_of(run.err, "calibrate: ") == 0);
+    }
+}
+
+TEST_CASE("snapshot and check --progress", "[calibrate]") {
+    const auto& fixture = block_rate_run();
+    const std::string binary =
+        "TOLLGATE_PROGRESS_SECONDS=0 " + shell_quote(tollgate::test::tollgate_binary());
+    TempDir out;
+
+    SECTION("snapshot reports every file of the commit to a non-terminal, then closes") {
+        // Two C files at the tip: src/engine.c and the vendored runner.c.
+        const auto run = run_command(binary + " snapshot --no-pch-cache --progress always --out " +
+                                         shell_quote(out.path() + "/s.json"),
+                                     fixture.dir);
+        INFO(run.err);
+        REQUIRE(run.exit_code == 0);
+        CHECK(count_of(run.err, "snapshot: ") == 3);
+        CHECK(run.err.find("snapshot: 2/2 files, ") != std::string::npos);
+        CHECK(run.err.find("snapshot: 2/2 files in ") != std::string::npos);
+    }
+    SECTION("check reports every file side it parses to a non-terminal, then closes") {
+        // HEAD~3..HEAD changes both files: four sides.
+        const auto run = run_command(binary + " check --no-pch-cache --base HEAD~3 --progress "
+                                              "always",
+                                     fixture.dir);
+        INFO(run.err);
+        CHECK(count_of(run.err, "check: ") == 5);
+        CHECK(run.err.find("check: 4/4 file sides in ") != std::string::npos);
     }
 }
