@@ -1,14 +1,18 @@
 // SPDX-License-Identifier: MIT
 // `tollgate calibrate`: replay history, show delta distributions, what-if a policy, suggest one.
+#include "gate/calibrate/block_rate.hpp"
 #include "gate/calibrate/calibration_report.hpp"
+#include "gate/calibrate/calibration_scope.hpp"
 #include "gate/calibrate/distribution.hpp"
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "gate/calibrate/replay.hpp"
+#include "gate/calibrate/suggested_policy.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/run_cli.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/progress.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
@@ -35,23 +39,27 @@ namespace tollgate {
 namespace {
 
 struct CalibrateOptions {
-    std::string range;                 // --range A..B
-    std::string default_branch;        // --default-branch
-    std::size_t max_commits = 300;     // --max-commits
-    std::string since;                 // --since YYYY-MM-DD
-    std::vector<std::string> measures; // --measure, repeatable
-    std::string policy_path;           // --policy
-    std::optional<double> suggest;     // --suggest P
-    std::string out;                   // --out PATH
-    std::string format = "text";       // --format text|json
-    std::string html;                  // --html PATH
-    unsigned jobs = 0;                 // --jobs
-    IsolationOptions isolation;        // --parse-timeout, --parse-memory
-    std::string cache_dir;             // --cache-dir
-    std::string compile_commands;      // --compile-commands
-    bool no_pch_cache = false;         // --no-pch-cache
-    double stroud = 18.0;              // --stroud
-    std::size_t rename_limit = 400;    // --rename-limit
+    std::string range;                  // --range A..B
+    std::string default_branch;         // --default-branch
+    std::size_t max_commits = 300;      // --max-commits
+    std::string since;                  // --since YYYY-MM-DD
+    std::vector<std::string> measures;  // --measure, repeatable
+    std::string policy_path;            // --policy
+    std::optional<double> suggest;      // --suggest P
+    std::optional<double> block_rate;   // --suggest-block-rate P
+    std::optional<double> warning_rate; // --suggest-warning-rate P
+    bool keep_vendored = false;         // --keep-vendored
+    std::string progress = "auto";      // --progress auto|always|never
+    std::string out;                    // --out PATH
+    std::string format = "text";        // --format text|json
+    std::string html;                   // --html PATH
+    unsigned jobs = 0;                  // --jobs
+    IsolationOptions isolation;         // --parse-timeout, --parse-memory
+    std::string cache_dir;              // --cache-dir
+    std::string compile_commands;       // --compile-commands
+    bool no_pch_cache = false;          // --no-pch-cache
+    double stroud = 18.0;               // --stroud
+    std::size_t rename_limit = 400;     // --rename-limit
 };
 
 // Raised by SIGINT; the replay's workers take no new commit once it is set.
@@ -132,43 +140,13 @@ void write_file(const std::string& path, const std::string& text) {
     }
 }
 
-// Progress on a terminal: commits done, rate, time left, on one rewritten line.
-class Progress {
-public:
-    explicit Progress(bool shown) : m_shown(shown), m_start(std::chrono::steady_clock::now()) {}
-    void update(std::size_t done, std::size_t total) {
-        if (!m_shown) {
-            return;
-        }
-        const double elapsed =
-            std::chrono::duration<double>(std::chrono::steady_clock::now() - m_start).count();
-        const double rate = elapsed > 0 ? static_cast<double>(done) / elapsed : 0;
-        const double left = rate > 0 ? static_cast<double>(total - done) / rate : 0;
-        std::cerr << fmt::format("\rcalibrate: {}/{} commits, {:.1f} commits/s, {:.0f} s left   ",
-                                 done, total, rate, left)
-                  << std::flush;
-    }
-    void finish() {
-        if (m_shown) {
-            std::cerr << "\n";
-        }
-    }
-
-private:
-    bool m_shown;
-    std::chrono::steady_clock::time_point m_start;
-};
-
 int run_calibrate(const CalibrateOptions& options) {
     apply_isolation_options(options.isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
     }
     const auto measures = parse_measures(options.measures);
-    std::optional<policy::Policy> draft;
-    if (!options.policy_path.empty()) {
-        draft = policy::load_policy_file(options.policy_path);
-    }
+    const ProgressMode progress_mode = parse_progress_mode(options.progress);
     const std::string repository_path = std::filesystem::current_path().string();
     const auto repository = walker::Repository::open(repository_path);
 
@@ -180,6 +158,10 @@ int run_calibrate(const CalibrateOptions& options) {
         query.since = parse_since(options.since);
     }
     const walker::History history = walker::first_parent_history(repository, query);
+    calibrate::CalibrationScope scope =
+        calibrate::choose_scope(repository, history, options.policy_path,
+                                options.keep_vendored ? calibrate::VendoredHandling::keep
+                                                      : calibrate::VendoredHandling::exclude);
 
     // Without a cache folder ($HOME unset and no $TOLLGATE_CACHE_DIR) the system's temporary
     // folder still lets repeated runs share parses.
@@ -202,7 +184,12 @@ int run_calibrate(const CalibrateOptions& options) {
     settings.changes.rename_limit = options.rename_limit;
     settings.threads = lexer::effective_jobs(options.jobs);
     settings.stop = &g_stop;
-    Progress progress(::isatty(STDERR_FILENO) == 1);
+    settings.keep_file = [&scope](const walker::ChangedFile& file) {
+        return calibrate::keep_changed_file(scope, file);
+    };
+    ProgressMeter progress("calibrate", "commits", progress_mode,
+                           progress_style(progress_mode, stderr_is_terminal()), std::cerr,
+                           progress_interval_seconds());
     // Test hook: deliver a real SIGINT after this many commits, to test the partial result.
     const char* interrupt_after = std::getenv("TOLLGATE_TEST_SIGINT_AFTER_COMMITS");
     const std::size_t interrupt_at =
@@ -223,23 +210,43 @@ int run_calibrate(const CalibrateOptions& options) {
     progress.finish();
 
     calibrate::Calibration calibration;
+    std::vector<std::vector<std::string>> dropped;
+    for (const auto& commit : replay.commits) {
+        dropped.push_back(commit.dropped);
+    }
+    calibrate::count_vendored(scope, dropped);
     calibration.replay = &replay;
-    calibration.distributions = calibrate::distribute(replay, measures);
+    calibration.scope = &scope;
+    calibration.distributions = calibrate::distribute(replay, measures, &scope.policy);
     calibration.cache = cache.counts();
     calibration.seconds =
         std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
     calibration.threads = settings.threads;
-    if (draft) {
-        policy::JudgeOptions judge_options;
-        judge_options.today = policy::current_date();
-        judge_options.policy_origin = options.policy_path;
-        calibration.what_if = calibrate::what_if(replay, *draft, judge_options);
+    policy::JudgeOptions judge_options;
+    judge_options.today = policy::current_date();
+    judge_options.policy_origin = scope.origin;
+    if (!options.policy_path.empty()) {
+        calibration.what_if = calibrate::what_if(replay, scope.policy, judge_options);
+    }
+    std::string suggestion_text;
+    if (options.block_rate) {
+        const double warning_rate =
+            options.warning_rate ? *options.warning_rate : std::min(100.0, 2 * *options.block_rate);
+        calibration.suggestion = calibrate::suggest_for_block_rate(
+            replay, scope.policy, *options.block_rate, warning_rate, judge_options);
+        suggestion_text = calibrate::block_rate_policy_text(replay, *calibration.suggestion, scope);
+        const std::string warning = calibrate::small_sample_warning(*calibration.suggestion);
+        if (!warning.empty()) {
+            std::cerr << "tollgate: warning: " << warning << "\n";
+        }
+    } else if (options.suggest) {
+        suggestion_text = calibrate::percentile_policy_text(replay, calibration.distributions,
+                                                            *options.suggest, scope);
     }
 
     bool stdout_taken = false;
-    if (options.suggest) {
-        const std::string text =
-            calibrate::suggest_policy(replay, calibration.distributions, *options.suggest);
+    if (!suggestion_text.empty()) {
+        const std::string& text = suggestion_text;
         if (options.out.empty() || options.out == "-") {
             std::cout << text;
             stdout_taken = true;
@@ -275,8 +282,11 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.description(
         "Replay first-parent history: measure each commit against its first parent exactly as "
         "check does, show percentiles and histograms of the deltas, count what a draft policy "
-        "would have blocked, and suggest a policy at a percentile of the history. Progress goes "
-        "to stderr on a terminal; Ctrl-C stops and prints the partial result (exit 130).");
+        "would have blocked, and suggest a policy for a block rate or at a percentile of the "
+        "history. The paths and noise floor of the draft (--policy), else of the newest "
+        "commit's .tollgate.yaml, else of the built-in default, are honoured, and folders that "
+        "look like bundled third-party code are left out unparsed. Progress goes to stderr; "
+        "Ctrl-C stops and prints the partial result (exit 130).");
     sub.add_option("--range", options->range,
                    "A..B: the first-parent commits of B not reachable from A (default: the "
                    "default branch)");
@@ -292,12 +302,29 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
                    "Measure to show, repeatable (default: volume, difficulty, effort)");
     sub.add_option("--policy", options->policy_path,
                    "Draft policy to judge every replayed commit with (what-if)");
-    sub.add_option("--suggest", options->suggest,
-                   "Write a policy whose limits sit at the P-th percentile of the history")
-        ->check(CLI::Range(0.0, 100.0));
+    auto* suggest =
+        sub.add_option("--suggest", options->suggest,
+                       "Write a policy whose limits sit at the P-th percentile of the history")
+            ->check(CLI::Range(0.0, 100.0));
+    auto* block_rate =
+        sub.add_option("--suggest-block-rate", options->block_rate,
+                       "Write a policy whose limits are the strictest under which at most P% of "
+                       "the replayed commits would have been blocked (searched per rule; the "
+                       "report gives its replayed block and warning rates)")
+            ->check(CLI::Range(0.0, 100.0));
+    sub.add_option("--suggest-warning-rate", options->warning_rate,
+                   "With --suggest-block-rate: at most P% of the replayed commits may pass with "
+                   "warnings (default: twice the block rate)")
+        ->check(CLI::Range(0.0, 100.0))
+        ->needs(block_rate);
+    suggest->excludes(block_rate);
+    sub.add_flag("--keep-vendored", options->keep_vendored,
+                 "Measure folders that look like bundled third-party code too (by default they "
+                 "are left out, listed, and excluded in a suggested policy)");
+    add_progress_option(sub, options->progress);
     sub.add_option("--out", options->out,
-                   "Where --suggest writes the policy (default: stdout, and then no report on "
-                   "stdout)");
+                   "Where --suggest or --suggest-block-rate writes the policy (default: stdout, "
+                   "and then no report on stdout)");
     sub.add_option("--format", options->format, "Report on stdout: text or json")
         ->capture_default_str();
     sub.add_option("--html", options->html,
@@ -321,6 +348,8 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
                "  tollgate calibrate                                 the last 300 commits of "
                "the default branch\n"
                "  tollgate calibrate --policy .tollgate.yaml         what it would have blocked\n"
+               "  tollgate calibrate --suggest-block-rate 5 --out draft.yaml   block at most "
+               "5% of commits\n"
                "  tollgate calibrate --suggest 95 --out draft.yaml   limits at the 95th "
                "percentile\n"
                "  tollgate calibrate --range v1.0..main --format json --html calibrate.html");

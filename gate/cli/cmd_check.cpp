@@ -10,6 +10,7 @@
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/progress.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/delta/measure_change.hpp"
 #include "gate/java/java_front_end.hpp"
@@ -49,6 +50,7 @@ struct CheckOptions {
     bool no_cache = false;            // --no-pch-cache
     double stroud = 18.0;             // --stroud
     std::size_t rename_limit = 400;   // --rename-limit
+    std::string progress = "auto";    // --progress
 };
 
 // After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
@@ -115,7 +117,15 @@ int run_check(const CheckOptions& options) {
 
     CheckBaseline baseline(options.baseline_path, selected.policy, repository, range, settings);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
+    const ProgressMode progress_mode = parse_progress_mode(options.progress);
+    ProgressMeter progress("check", "file sides", progress_mode,
+                           progress_style(progress_mode, stderr_is_terminal()), std::cerr,
+                           progress_interval_seconds());
+    settings.on_progress = [&progress](std::size_t done, std::size_t total) {
+        progress.update(done, total);
+    };
     delta::ChangeReport report = delta::measure_change(repository, changes, settings);
+    progress.finish();
     baseline.apply(range, report, judge_options);
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
@@ -188,6 +198,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
     add_stroud_option(sub, options->stroud);
+    add_progress_option(sub, options->progress);
     sub.add_option("--rename-limit", options->rename_limit,
                    "Candidates compared per added file when looking for renames")
         ->capture_default_str();

@@ -7,6 +7,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/progress.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
@@ -37,6 +38,7 @@ struct SnapshotOptions {
     std::vector<std::string> compare; // --compare BASE HEAD
     std::string format = "text";      // text or json, for --compare
     std::size_t top = 10;             // grown functions listed by --compare
+    std::string progress = "auto";    // --progress
     // Where the snapshot goes without --out and without a baseline.path in the revision's
     // policy, relative to the repository root. Always confined to the repository.
     std::string configured_path = baseline::k_default_snapshot_path;
@@ -87,7 +89,15 @@ int run_snapshot(const SnapshotOptions& options) {
     request.no_cache = options.no_cache;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
+    const ProgressMode progress_mode = parse_progress_mode(options.progress);
+    ProgressMeter progress("snapshot", "files", progress_mode,
+                           progress_style(progress_mode, stderr_is_terminal()), std::cerr,
+                           progress_interval_seconds());
+    request.on_progress = [&progress](std::size_t done, std::size_t total) {
+        progress.update(done, total);
+    };
     const SnapshotResult measured = snapshot_revision(request);
+    progress.finish();
     const baseline::Snapshot& snapshot = measured.snapshot;
     baseline::save_snapshot(snapshot, out_path, overwrite);
 
@@ -139,6 +149,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     add_jobs_option(sub, options->jobs);
     add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
+    add_progress_option(sub, options->progress);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, if any, at its root or in build/)");

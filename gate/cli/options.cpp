@@ -52,6 +52,13 @@ void add_stroud_option(CLI::App& sub, double& stroud) {
         ->capture_default_str();
 }
 
+void add_progress_option(CLI::App& sub, std::string& mode) {
+    sub.add_option("--progress", mode,
+                   "Progress on stderr: auto (a live line on a terminal, else a line every 10 "
+                   "seconds), always, never")
+        ->capture_default_str();
+}
+
 void add_jobs_option(CLI::App& sub, unsigned& jobs) {
     sub.add_option("-j,--jobs", jobs, "Parser processes (0 = all cores)")->capture_default_str();
 }

@@ -39,6 +39,9 @@ void apply_isolation_options(const IsolationOptions& options);
 // Add `--stroud S` (the Stroud number for T = E / S, 1 to 100) bound to `stroud`.
 void add_stroud_option(CLI::App& sub, double& stroud);
 
+// Add `--progress auto|always|never` (progress on stderr, see ProgressMode) bound to `mode`.
+void add_progress_option(CLI::App& sub, std::string& mode);
+
 // Add `-j,--jobs N` (parser processes, 0 = all cores) bound to `jobs`.
 void add_jobs_option(CLI::App& sub, unsigned& jobs);
 

@@ -9,6 +9,8 @@
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
+#include <atomic>
+
 namespace tollgate {
 
 SnapshotResult snapshot_revision(const SnapshotRequest& request) {
@@ -18,7 +20,13 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.cache_dir = request.cache_dir;
     sources.no_cache = request.no_cache;
     const LoadedSources loaded = load_sources(sources);
-    const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs);
+    std::atomic<std::size_t> done{0};
+    const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs,
+                                        [&](const lexer::FileFunctions&) {
+                                            if (request.on_progress) {
+                                                request.on_progress(++done, loaded.selected.size());
+                                            }
+                                        });
 
     core::MeasureSettings settings;
     settings.stroud = request.stroud;

@@ -6,6 +6,7 @@
 #include "gate/baseline/snapshot.hpp"
 
 #include <cstddef>
+#include <functional>
 #include <string>
 
 namespace tollgate {
@@ -18,6 +19,8 @@ struct SnapshotRequest {
     bool no_cache = false;        // parse without the precompiled-header cache
     unsigned jobs = 0;            // parser threads, 0 = all cores
     double stroud = 18.0;         // Stroud number for T
+    // Called (serialised) after each file parsed with the files done and the total; may be empty.
+    std::function<void(std::size_t done, std::size_t total)> on_progress;
 };
 
 // The snapshot with what a summary line needs.

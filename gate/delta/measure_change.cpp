@@ -9,6 +9,7 @@
 #include "gate/lexer/lexer.hpp"
 #include "gate/lexer/lexical_fallback.hpp"
 
+#include <atomic>
 #include <fmt/format.h>
 #include <spdlog/spdlog.h>
 
@@ -55,8 +56,16 @@ SideSources read_side_sources(const walker::Repository& repository,
 // Lex `jobs`, taking what `settings.lex_cache` already holds and keeping what was parsed.
 std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob>& jobs,
                                                  const MeasureChangeSettings& settings) {
+    std::atomic<std::size_t> done{0};
+    std::size_t total = 0;
+    const auto on_done = [&](const lexer::FileFunctions&) {
+        if (settings.on_progress) {
+            settings.on_progress(++done, total);
+        }
+    };
     if (settings.lex_cache == nullptr) {
-        return lexer::lex_jobs(jobs, settings.jobs);
+        total = jobs.size();
+        return lexer::lex_jobs(jobs, settings.jobs, on_done);
     }
     std::vector<lexer::FileFunctions> lexed(jobs.size());
     std::vector<lexer::LexJob> missing;
@@ -71,7 +80,8 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
     }
     std::vector<lexer::FileFunctions> parsed;
     if (!missing.empty()) { // a lexer costs an index even with nothing to parse
-        parsed = lexer::lex_jobs(missing, settings.jobs);
+        total = missing.size();
+        parsed = lexer::lex_jobs(missing, settings.jobs, on_done);
     }
     for (std::size_t k = 0; k < parsed.size(); ++k) {
         // A time limit depends on this run's limits and load, not only on the file: not kept.

@@ -13,6 +13,7 @@
 #include "tollgate/core/convention.hpp"
 #include "tollgate/core/measures.hpp"
 
+#include <functional>
 #include <optional>
 #include <string>
 
@@ -35,6 +36,9 @@ struct MeasureChangeSettings {
                                                        // commit (not owned); may be null
     SnapshotCheck* snapshot_check = nullptr;           // receives that comparison (not owned); the
                                                        // comparison is made only when this is set
+    // Called (serialised) after each file side parsed with the sides done and the total to
+    // parse (sides from the lexed-file cache are not counted); may be empty.
+    std::function<void(std::size_t done, std::size_t total)> on_progress;
 };
 
 // Measure the change `changes` in `repository`: each changed C/C++ file is parsed once per side

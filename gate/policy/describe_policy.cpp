@@ -5,23 +5,13 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <cstdlib>
 #include <map>
 #include <yaml-cpp/yaml.h>
 
 namespace tollgate::policy {
 
 namespace {
-
-// Write a number so that load_policy reads back exactly the same double.
-std::string plain_number(double value) {
-    char text[64];
-    if (std::floor(value) == value && std::fabs(value) < 1e15) {
-        std::snprintf(text, sizeof text, "%.0f", value);
-    } else {
-        std::snprintf(text, sizeof text, "%.17g", value);
-    }
-    return text;
-}
 
 void emit_limit(YAML::Emitter& out, const char* key, const std::optional<double>& value) {
     if (value) {
@@ -46,6 +36,21 @@ void emit_globs(YAML::Emitter& out, const char* key, const std::vector<std::stri
 }
 
 } // namespace
+
+std::string plain_number(double value) {
+    char text[64];
+    if (std::floor(value) == value && std::fabs(value) < 1e15) {
+        std::snprintf(text, sizeof text, "%.0f", value);
+        return text;
+    }
+    for (int digits = 1; digits <= 17; ++digits) {
+        std::snprintf(text, sizeof text, "%.*g", digits, value);
+        if (std::strtod(text, nullptr) == value) {
+            break;
+        }
+    }
+    return text;
+}
 
 std::string describe_policy(const Policy& policy) {
     YAML::Emitter out;

@@ -125,21 +125,6 @@ bool matches_any(const std::vector<std::string>& globs, const std::string& path)
     });
 }
 
-bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::FunctionDelta& f) {
-    if (floors.empty()) {
-        return false;
-    }
-    for (const auto& floor : floors) {
-        for (const auto* side : {&f.base, &f.head}) {
-            // Written so that a value that is not a number is judged rather than skipped.
-            if (*side && !(core::measure_value((*side)->measures, floor.measure) < floor.below)) {
-                return false;
-            }
-        }
-    }
-    return true;
-}
-
 std::string function_text(const delta::FunctionDelta& f) {
     return f.name + "(" + f.signature + ")";
 }
@@ -357,6 +342,21 @@ std::string count_text(std::size_t count, const char* one, const char* many) {
 }
 
 } // namespace
+
+bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::FunctionDelta& f) {
+    if (floors.empty()) {
+        return false;
+    }
+    for (const auto& floor : floors) {
+        for (const auto* side : {&f.base, &f.head}) {
+            // Written so that a value that is not a number is judged rather than skipped.
+            if (*side && !(core::measure_value((*side)->measures, floor.measure) < floor.below)) {
+                return false;
+            }
+        }
+    }
+    return true;
+}
 
 bool in_scope(const PathScope& paths, const std::string& path) {
     return matches_any(paths.include, path) && !matches_any(paths.exclude, path);

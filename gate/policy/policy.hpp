@@ -194,6 +194,10 @@ Policy load_policy_file(const std::string& path);
 // ("\x1b", "\u202e") inside double quotes, so printing it shows them instead of obeying them.
 std::string describe_policy(const Policy& policy);
 
+// Return `value` as a policy file writes it, as a person would (53.37, not 53.369999999999997):
+// the shortest decimal that load_policy reads back as exactly the same double. Never fails.
+std::string plain_number(double value);
+
 // Return one readable line per setting that differs between `base` and `head`, e.g.
 // `rules["effort-growth"].max-increase-percent: 40 in base, 80 in head`; empty when equal.
 std::vector<std::string> policy_difference(const Policy& base, const Policy& head);

@@ -92,6 +92,16 @@ int collect_c_family_entry(const char* root, const git_tree_entry* entry, void* 
     return 0;
 }
 
+// Collects the path of every regular blob of a tree walk.
+int collect_any_entry(const char* root, const git_tree_entry* entry, void* payload) {
+    if (git_tree_entry_type(entry) == GIT_OBJECT_BLOB &&
+        git_tree_entry_filemode(entry) != GIT_FILEMODE_LINK) {
+        static_cast<std::vector<std::string>*>(payload)->push_back(std::string(root) +
+                                                                   git_tree_entry_name(entry));
+    }
+    return 0;
+}
+
 } // namespace
 
 struct Repository::Impl {
@@ -172,6 +182,15 @@ std::vector<TreeFile> Repository::list_c_family_files(const ObjectId& commit) co
     std::sort(files.begin(), files.end(),
               [](const TreeFile& a, const TreeFile& b) { return a.path < b.path; });
     return files;
+}
+
+std::vector<std::string> Repository::list_file_paths(const ObjectId& commit) const {
+    const git::Owned<git_tree> tree = git::commit_tree(*this, commit);
+    std::vector<std::string> paths;
+    git::check(git_tree_walk(tree.get(), GIT_TREEWALK_PRE, collect_any_entry, &paths),
+               "cannot list the tree of commit " + commit.short_hex());
+    std::sort(paths.begin(), paths.end());
+    return paths;
 }
 
 std::string Repository::read_blob(const ObjectId& blob) const {

@@ -56,6 +56,10 @@ public:
     // symlinks and submodules are left out. Throws Failure when the commit is missing.
     std::vector<TreeFile> list_c_family_files(const ObjectId& commit) const;
 
+    // Return the path of every regular file of `commit`'s tree, whatever its language, sorted;
+    // symlinks and submodules are left out. Throws Failure when the commit is missing.
+    std::vector<std::string> list_file_paths(const ObjectId& commit) const;
+
     // Return the bytes of blob `blob`. Throws Failure when it is missing.
     std::string read_blob(const ObjectId& blob) const;
 
