@@ -2,6 +2,7 @@
 // `tollgate check`: the gate. Measure the functions a change touched, before and after.
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/policy_source.hpp"
 #include "gate/cli/report_targets.hpp"
@@ -45,6 +46,7 @@ struct CheckOptions {
     bool no_cache = false;            // --no-pch-cache
     double stroud = 18.0;             // --stroud
     std::size_t rename_limit = 400;   // --rename-limit
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
 };
 
 // The baseline snapshot a check uses, if any.
@@ -127,6 +129,7 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.no_cache = options.no_cache;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
+    request.max_file_size = options.max_file_size;
     const SnapshotResult result = snapshot_revision(request);
     baseline::save_snapshot(result.snapshot, path);
     std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n", path.c_str(),
@@ -139,6 +142,7 @@ int run_check(const CheckOptions& options) {
 
     walker::ChangeOptions change_options;
     change_options.rename_limit = options.rename_limit;
+    change_options.max_file_size = options.max_file_size;
     delta::MeasureChangeSettings settings;
     settings.measures.stroud = options.stroud;
     settings.jobs = options.jobs;
@@ -167,6 +171,8 @@ int run_check(const CheckOptions& options) {
         };
     }
 
+    // A report that cannot be written fails now, not after the parsing.
+    check_report_targets(targets);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
     delta::ChangeReport report = delta::measure_change(repository, changes, settings);
     if (!loaded_baseline.note.empty()) {
@@ -224,6 +230,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "\"https://git.example/team/repo/blob/{commit}/{path}#L{line}\"");
     sub.add_option("--markdown-rows", options->markdown_rows,
                    "Rows of the Markdown table shown before the rest is folded")
+        ->check(whole_number(0, 100000))
         ->capture_default_str();
     add_jobs_option(sub, options->jobs);
     sub.add_option("--compile-commands", options->compile_commands,
@@ -234,9 +241,8 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
     add_stroud_option(sub, options->stroud);
-    sub.add_option("--rename-limit", options->rename_limit,
-                   "Candidates compared per added file when looking for renames")
-        ->capture_default_str();
+    add_rename_limit_option(sub, options->rename_limit);
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate check                                  this branch against its merge "
                "base with main\n"

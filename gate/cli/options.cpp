@@ -2,6 +2,8 @@
 // Shared command-line options.
 #include "gate/cli/options.hpp"
 
+#include "gate/cli/number_options.hpp"
+
 namespace tollgate {
 
 void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help) {
@@ -26,12 +28,30 @@ void add_source_options(CLI::App& sub, SourceOptions& options, const std::string
 
 void add_stroud_option(CLI::App& sub, double& stroud) {
     sub.add_option("--stroud", stroud, "Stroud number S for the time T = E / S")
-        ->check(CLI::Range(1.0, 100.0))
+        ->check(real_number(1.0, 100.0))
         ->capture_default_str();
 }
 
 void add_jobs_option(CLI::App& sub, unsigned& jobs) {
-    sub.add_option("-j,--jobs", jobs, "Parser threads (0 = all cores)")->capture_default_str();
+    sub.add_option("-j,--jobs", jobs, "Parser threads (0 = all cores)")
+        ->check(whole_number(0, k_max_jobs))
+        ->capture_default_str();
+}
+
+void add_max_file_size_option(CLI::App& sub, std::uint64_t& bytes) {
+    sub.add_option("--max-file-size", bytes,
+                   "Leave C/C++ files larger than SIZE unread and list them as skipped (bytes, "
+                   "or a number with K, M or G; 0 = no limit)")
+        ->transform(byte_size(std::uint64_t{1} << 40))
+        ->type_name("SIZE")
+        ->default_str(std::to_string(k_default_max_file_size >> 20) + "M");
+}
+
+void add_rename_limit_option(CLI::App& sub, std::size_t& limit) {
+    sub.add_option("--rename-limit", limit,
+                   "Candidates compared per added file when looking for renames")
+        ->check(whole_number(0, 100000))
+        ->capture_default_str();
 }
 
 SourceRequest to_request(const SourceOptions& options) {

@@ -5,6 +5,8 @@
 #include "gate/cli/sources.hpp"
 
 #include <CLI/CLI.hpp>
+#include <cstddef>
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -23,11 +25,19 @@ struct SourceOptions {
 // Add the source options to `sub`; `paths_help` describes the positional paths.
 void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help);
 
-// Add `--stroud S` (the Stroud number for T = E / S, 1 to 100) bound to `stroud`.
+// Add `--stroud S` (the Stroud number for T = E / S, a finite number from 1 to 100) bound to
+// `stroud`.
 void add_stroud_option(CLI::App& sub, double& stroud);
 
-// Add `-j,--jobs N` (parser threads, 0 = all cores) bound to `jobs`.
+// Add `-j,--jobs N` (parser threads, 0 = all cores, at most k_max_jobs) bound to `jobs`.
 void add_jobs_option(CLI::App& sub, unsigned& jobs);
+
+// Add `--max-file-size SIZE` (bytes, or a number with K, M or G; 0 = no limit; default
+// k_default_max_file_size) bound to `bytes`: files larger than this are listed, never read.
+void add_max_file_size_option(CLI::App& sub, std::uint64_t& bytes);
+
+// Add `--rename-limit N` (candidates compared per added file, 0 to 100000) bound to `limit`.
+void add_rename_limit_option(CLI::App& sub, std::size_t& limit);
 
 // Turn parsed source options into a request for load_sources.
 SourceRequest to_request(const SourceOptions& options);

@@ -3,6 +3,7 @@
 #include "gate/cli/report_targets.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/report/sarif.hpp"
 
 #include <cstdio>
@@ -52,30 +53,6 @@ void render(std::ostream& out, ReportFormat format, const Judged& judged,
     }
 }
 
-void write_file_atomically(const std::string& path, const std::string& content) {
-    namespace fs = std::filesystem;
-    const fs::path target(path);
-    if (target.has_parent_path()) {
-        std::error_code ec;
-        fs::create_directories(target.parent_path(), ec);
-    }
-    const std::string temporary = path + ".tmp-" + std::to_string(::getpid());
-    {
-        std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
-        out << content;
-        out.flush();
-        if (!out) {
-            throw Failure("cannot write report \"" + path + "\"");
-        }
-    }
-    std::error_code ec;
-    fs::rename(temporary, target, ec);
-    if (ec) {
-        fs::remove(temporary, ec);
-        throw Failure("cannot write report \"" + path + "\": " + ec.message());
-    }
-}
-
 } // namespace
 
 std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& specs) {
@@ -108,6 +85,14 @@ std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& s
     return targets;
 }
 
+void check_report_targets(const std::vector<ReportTarget>& targets) {
+    for (const auto& target : targets) {
+        if (target.path != "-") {
+            check_writable("report", target.path);
+        }
+    }
+}
+
 void write_reports(const delta::ChangeReport& report, const policy::Verdict& verdict,
                    const policy::Policy& policy, const std::vector<ReportTarget>& targets,
                    report::RenderOptions options, bool no_colour) {
@@ -128,7 +113,7 @@ void write_reports(const delta::ChangeReport& report, const policy::Verdict& ver
             std::ostringstream buffer;
             options.colour = report::Colour::off;
             render(buffer, target.format, judged, options);
-            write_file_atomically(target.path, buffer.str());
+            write_output_file("report", target.path, buffer.str());
         }
     }
     if (!stdout_used) {

@@ -25,8 +25,13 @@ struct ReportTarget {
 // the bad spec, with "did you mean" for a misspelled format.
 std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& specs);
 
+// Check before any work that every file target can be written (see check_writable). Throws
+// Failure `cannot write report "PATH": REASON` for the first that cannot.
+void check_report_targets(const std::vector<ReportTarget>& targets);
+
 // Write `report` to every target; with no target on stdout, the terminal table goes to stdout.
-// Files are written whole to a temporary name and renamed into place. Colour is used on stdout
+// Files are written whole by write_output_file (a temporary name renamed into place); a failure
+// throws its Failure. Colour is used on stdout
 // when it is a terminal, NO_COLOR is unset and `no_colour` is false.
 void write_reports(const delta::ChangeReport& report, const policy::Verdict& verdict,
                    const policy::Policy& policy, const std::vector<ReportTarget>& targets,

@@ -7,13 +7,57 @@
 
 #include <CLI/CLI.hpp>
 #include <algorithm>
+#include <cctype>
+#include <cerrno>
 #include <cstdio>
+#include <cstring>
 #include <exception>
 #include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 #include <string>
+#include <unistd.h>
 
 namespace tollgate {
+
+namespace {
+
+constexpr const char* k_directory_help =
+    "Run as if tollgate was started in DIR (paths given on the command line are then taken from "
+    "there); accepted before or after the command, and repeatable: each DIR is taken from the one "
+    "before, as git's -C";
+
+// Add -C/--repo to `app` and to every command below it, appending to `directories`.
+void add_directory_option(CLI::App& app, std::vector<std::string>& directories) {
+    app.add_option_function<std::string>(
+           "-C,--repo", [&directories](const std::string& dir) { directories.push_back(dir); },
+           k_directory_help)
+        ->type_name("DIR")
+        ->multi_option_policy(CLI::MultiOptionPolicy::TakeAll);
+    for (CLI::App* sub : app.get_subcommands([](CLI::App*) { return true; })) {
+        add_directory_option(*sub, directories);
+    }
+}
+
+// Change to each -C folder in turn. Throws UsageError naming the folder and the reason.
+void enter_directories(const std::vector<std::string>& directories) {
+    for (const std::string& dir : directories) {
+        if (::chdir(dir.c_str()) != 0) {
+            const int error = errno;
+            std::string reason = std::strerror(error);
+            if (!reason.empty()) {
+                reason[0] = static_cast<char>(std::tolower(static_cast<unsigned char>(reason[0])));
+            }
+            throw UsageError("cannot run in \"" + dir + "\" (-C): " + reason);
+        }
+    }
+}
+
+// Return true when `message` ends with a remedy in parentheses already.
+bool has_remedy(const std::string& message) {
+    return !message.empty() && message.back() == ')';
+}
+
+} // namespace
 
 int run_cli(int argc, char** argv) {
     CLI::App app{"tollgate: gate C/C++ changes on the Halstead measures of the functions they "
@@ -32,6 +76,7 @@ int run_cli(int argc, char** argv) {
         CLI::App* sub = app.add_subcommand(entry.name, entry.summary);
         entry.attach(*sub, global, selected);
     }
+    add_directory_option(app, global.directories);
 
     try {
         app.parse(argc, argv);
@@ -42,7 +87,9 @@ int run_cli(int argc, char** argv) {
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
     } catch (const CLI::ParseError& e) {
-        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n", e.what());
+        // Tollgate's own checks name the accepted values; CLI11's own messages get the hint.
+        std::fprintf(stderr, "tollgate: error: %s%s\n", e.what(),
+                     has_remedy(e.what()) ? "" : " (run \"tollgate --help\")");
         return static_cast<int>(ExitCode::usage);
     }
 
@@ -52,6 +99,7 @@ int run_cli(int argc, char** argv) {
     spdlog::set_default_logger(logger);
 
     try {
+        enter_directories(global.directories);
         return selected ? selected() : static_cast<int>(ExitCode::usage);
     } catch (const UsageError& e) {
         // A broken policy carries one message per line; each gets the prefix.
@@ -64,7 +112,8 @@ int run_cli(int argc, char** argv) {
         return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
         std::fprintf(stderr, "tollgate: error: %s%s\n", e.what(),
-                     global.verbose ? "" : " (run with --verbose for details)");
+                     global.verbose || has_remedy(e.what()) ? ""
+                                                            : " (run with --verbose for details)");
         return static_cast<int>(ExitCode::failure);
     } catch (const std::exception& e) {
         std::fprintf(stderr, "tollgate: internal error: %s (run with --verbose and report it)\n",

@@ -98,8 +98,14 @@ std::string commit_all(const std::string& dir, const std::string& message) {
     return id;
 }
 
+std::string tollgate_binary() {
+    // TOLLGATE_TEST_BINARY runs the tests against another build, e.g. the code before a fix.
+    const char* other = std::getenv("TOLLGATE_TEST_BINARY");
+    return other != nullptr && *other != '\0' ? std::string(other) : std::string(TOLLGATE_BINARY);
+}
+
 RunResult run_tollgate(const std::string& args, const std::string& cwd) {
-    return run_command(std::string(TOLLGATE_BINARY) + " " + args, cwd);
+    return run_command(shell_quote(tollgate_binary()) + " " + args, cwd);
 }
 
 } // namespace tollgate::test
