@@ -42,8 +42,8 @@ struct CacheCounts {
     }
 };
 
-// The default bound on a cache folder's size: 512 MiB holds the lexed files of thousands of
-// commits of a mid-sized code base (entries are tens of kilobytes each; see DEVELOPERS.md).
+// The default bound on a cache folder's size: 512 MiB holds about 15,000 entries of 34 KB, the
+// mean measured on Tollgate's own history (see DEVELOPERS.md), over a thousand commits.
 inline constexpr std::uint64_t k_default_cache_bytes = std::uint64_t{512} << 20;
 
 // The default bound on an entry's age since it was last used: 30 days, so a history replayed

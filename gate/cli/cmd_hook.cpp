@@ -6,7 +6,9 @@
 #include "gate/hook/hook_file.hpp"
 #include "gate/hook/pre_push.hpp"
 #include "gate/hook/process.hpp"
+#include "gate/walker/repository.hpp"
 
+#include <filesystem>
 #include <iostream>
 #include <iterator>
 #include <memory>
@@ -26,7 +28,14 @@ struct HookOptions {
     unsigned jobs = 0;       // run --jobs
 };
 
+// Open the repository around the current folder, for its errors: none outside a repository
+// (with the -C hint), git's words for one owned by another user.
+void require_repository() {
+    walker::Repository::open(std::filesystem::current_path().string());
+}
+
 int run_install(const HookOptions& options) {
+    require_repository();
     const hook::ExistingHook existing = options.chain   ? hook::ExistingHook::chain
                                         : options.force ? hook::ExistingHook::replace
                                                         : hook::ExistingHook::refuse;
@@ -37,6 +46,7 @@ int run_install(const HookOptions& options) {
 }
 
 int run_uninstall() {
+    require_repository();
     std::cerr << ("tollgate: " + hook::uninstall_hook(hook::hooks_folder()) + "\n");
     return static_cast<int>(ExitCode::pass);
 }

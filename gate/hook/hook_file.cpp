@@ -78,7 +78,8 @@ std::string hooks_folder() {
     }
     if (result.exit_code != 0 || path.empty()) {
         throw UsageError("not in a git repository: \"" + fs::current_path().string() +
-                         "\" (run \"tollgate hook\" inside the repository)");
+                         "\" (run \"tollgate hook\" inside the repository, or name it with -C "
+                         "DIR)");
     }
     return fs::absolute(path).lexically_normal().string();
 }
