@@ -198,6 +198,10 @@ std::optional<Token> classify_token(const RawToken& raw, const Convention& conve
             token.role = Role::operator_token;
             token.form = "namespace name";
             break;
+        case NameKind::annotation:
+            token.role = Role::operator_token;
+            token.form = "annotation";
+            break;
         case NameKind::defined:
             token.role =
                 convention.function_name_as_operand ? Role::operand_token : Role::operator_token;

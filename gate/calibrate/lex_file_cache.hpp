@@ -64,7 +64,8 @@ struct Eviction {
     std::uint64_t kept_bytes = 0;      // their total size
 };
 
-// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/1"),
+// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/2", every
+// text kept losslessly with text::store_bytes, so a file of any bytes reads back the same),
 // written to a temporary file and renamed into place, so a killed run leaves whole entries or
 // none. Entries that do not parse or whose recorded key differs are ignored and rewritten. A hit
 // stamps the entry's modification time, which evict() reads as its last use.
@@ -96,6 +97,8 @@ public:
     // counted, not thrown.
     void store(const SourceFile& file, const lexer::ParseContext& context,
                const lexer::FileFunctions& functions) override;
+    // Release the key of `file` and `context` without writing an entry.
+    void abandon(const SourceFile& file, const lexer::ParseContext& context) override;
 
     // Return the counts so far.
     CacheCounts counts() const;

@@ -39,23 +39,24 @@ namespace tollgate {
 namespace {
 
 struct CalibrateOptions {
-    std::string range;                                               // --range A..B
-    std::string default_branch;                                      // --default-branch
-    std::size_t max_commits = 300;                                   // --max-commits
-    std::string since;                                               // --since YYYY-MM-DD
-    std::vector<std::string> measures;                               // --measure, repeatable
-    std::string policy_path;                                         // --policy
-    std::optional<double> suggest;                                   // --suggest P
-    std::string out;                                                 // --out PATH
-    std::string format = "text";                                     // --format text|json
-    std::string html;                                                // --html PATH
-    unsigned jobs = 0;                                               // --jobs
-    std::string cache_dir;                                           // --cache-dir
-    std::string compile_commands;                                    // --compile-commands
-    bool no_pch_cache = false;                                       // --no-pch-cache
-    double stroud = 18.0;                                            // --stroud
-    std::size_t rename_limit = 400;                                  // --rename-limit
-    std::uint64_t max_file_size = k_default_max_file_size;           // --max-file-size
+    std::string range;                                     // --range A..B
+    std::string default_branch;                            // --default-branch
+    std::size_t max_commits = 300;                         // --max-commits
+    std::string since;                                     // --since YYYY-MM-DD
+    std::vector<std::string> measures;                     // --measure, repeatable
+    std::string policy_path;                               // --policy
+    std::optional<double> suggest;                         // --suggest P
+    std::string out;                                       // --out PATH
+    std::string format = "text";                           // --format text|json
+    std::string html;                                      // --html PATH
+    unsigned jobs = 0;                                     // --jobs
+    IsolationOptions isolation;                            // --parse-timeout, --parse-memory
+    std::string cache_dir;                                 // --cache-dir
+    std::string compile_commands;                          // --compile-commands
+    bool no_pch_cache = false;                             // --no-pch-cache
+    double stroud = 18.0;                                  // --stroud
+    std::size_t rename_limit = 400;                        // --rename-limit
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
     std::uint64_t cache_max_size = calibrate::k_default_cache_bytes; // --cache-max-size
     unsigned cache_max_age = calibrate::k_default_cache_days;        // --cache-max-age
 };
@@ -170,6 +171,7 @@ private:
 };
 
 int run_calibrate(const CalibrateOptions& options) {
+    apply_isolation_options(options.isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
     }
@@ -210,6 +212,9 @@ int run_calibrate(const CalibrateOptions& options) {
     settings.measure.compile_commands_json =
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.measure.compile_commands_root = repository.workdir();
+    settings.measure.compile_commands_origin = options.compile_commands.empty()
+                                                   ? lexer::DatabaseOrigin::found
+                                                   : lexer::DatabaseOrigin::given;
     settings.measure.cache_dir = options.no_pch_cache ? std::string() : default_cache_dir();
     settings.measure.lex_cache = cache.get();
     settings.changes.rename_limit = options.rename_limit;
@@ -325,6 +330,7 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("-j,--jobs", options->jobs, "Worker threads, one commit each (0 = all cores)")
         ->check(whole_number(0, k_max_jobs))
         ->capture_default_str();
+    add_isolation_options(sub, options->isolation);
     sub.add_option("--cache-dir", options->cache_dir,
                    "Folder of the lexed-file cache (default: the tool's cache folder + "
                    "\"/calibrate\"); when it cannot be made, calibrate warns and runs without");

@@ -3,6 +3,7 @@
 #include "gate/cli/options.hpp"
 
 #include "gate/cli/number_options.hpp"
+#include "gate/lexer/isolation.hpp"
 
 namespace tollgate {
 
@@ -26,6 +27,26 @@ void add_source_options(CLI::App& sub, SourceOptions& options, const std::string
         ->check(CLI::IsMember({"c", "c++"}));
 }
 
+void add_isolation_options(CLI::App& sub, IsolationOptions& options) {
+    sub.add_option("--parse-timeout", options.parse_timeout,
+                   "Processor seconds the parser may spend on one file (twice that of wall-clock "
+                   "time); past it the file is measured lexically")
+        ->check(whole_number(1, 86400))
+        ->capture_default_str();
+    sub.add_option("--parse-memory", options.parse_memory,
+                   "Address space of each parser process, in MiB; a file that needs more is "
+                   "measured lexically")
+        ->check(whole_number(512, std::uint64_t{1} << 20))
+        ->capture_default_str();
+}
+
+void apply_isolation_options(const IsolationOptions& options) {
+    lexer::IsolationSettings settings = lexer::current_isolation();
+    settings.cpu_seconds = options.parse_timeout;
+    settings.memory_mib = options.parse_memory;
+    lexer::set_isolation(settings);
+}
+
 void add_stroud_option(CLI::App& sub, double& stroud) {
     sub.add_option("--stroud", stroud, "Stroud number S for the time T = E / S")
         ->check(real_number(1.0, 100.0))
@@ -33,15 +54,16 @@ void add_stroud_option(CLI::App& sub, double& stroud) {
 }
 
 void add_jobs_option(CLI::App& sub, unsigned& jobs) {
-    sub.add_option("-j,--jobs", jobs, "Parser threads (0 = all cores)")
+    sub.add_option("-j,--jobs", jobs, "Parser processes (0 = all cores)")
         ->check(whole_number(0, k_max_jobs))
         ->capture_default_str();
 }
 
 void add_max_file_size_option(CLI::App& sub, std::uint64_t& bytes) {
-    sub.add_option("--max-file-size", bytes,
-                   "Leave C/C++ files larger than SIZE unread and list them as skipped (bytes, "
-                   "or a number with K, M or G; 0 = no limit)")
+    sub.add_option(
+           "--max-file-size", bytes,
+           "Leave C, C++ and Java files larger than SIZE unread and list them as skipped (bytes, "
+           "or a number with K, M or G; 0 = no limit)")
         ->transform(byte_size(std::uint64_t{1} << 40))
         ->type_name("SIZE")
         ->default_str(std::to_string(k_default_max_file_size >> 20) + "M");

@@ -25,11 +25,23 @@ struct SourceOptions {
 // Add the source options to `sub`; `paths_help` describes the positional paths.
 void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help);
 
+// The limits of the parser processes (`--parse-timeout`, `--parse-memory`).
+struct IsolationOptions {
+    unsigned parse_timeout = 60;       // --parse-timeout: processor seconds per file
+    std::uint64_t parse_memory = 4096; // --parse-memory: MiB of address space per parser process
+};
+
+// Add `--parse-timeout SECONDS` and `--parse-memory MIB` to `sub`, bound to `options`.
+void add_isolation_options(CLI::App& sub, IsolationOptions& options);
+
+// Use `options` for the parser processes of this run.
+void apply_isolation_options(const IsolationOptions& options);
+
 // Add `--stroud S` (the Stroud number for T = E / S, a finite number from 1 to 100) bound to
 // `stroud`.
 void add_stroud_option(CLI::App& sub, double& stroud);
 
-// Add `-j,--jobs N` (parser threads, 0 = all cores, at most k_max_jobs) bound to `jobs`.
+// Add `-j,--jobs N` (parser processes, 0 = all cores, at most k_max_jobs) bound to `jobs`.
 void add_jobs_option(CLI::App& sub, unsigned& jobs);
 
 // Add `--max-file-size SIZE` (bytes, or a number with K, M or G; 0 = no limit; default

@@ -2,6 +2,7 @@
 // Reading the files a command measures, from git or from disk.
 #include "gate/cli/sources.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/input_file.hpp"
 #include "gate/walker/repository.hpp"
@@ -19,16 +20,6 @@ namespace tollgate {
 
 namespace {
 
-std::string read_disk_file(const fs::path& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw UsageError("cannot read \"" + path.string() + "\"");
-    }
-    std::ostringstream buffer;
-    buffer << in.rdbuf();
-    return buffer.str();
-}
-
 // Return `path` relative to `root` with '/' separators, or nothing when it lies outside.
 std::optional<std::string> relative_inside(const fs::path& path, const fs::path& root) {
     const fs::path absolute = fs::weakly_canonical(fs::absolute(path));
@@ -41,8 +32,8 @@ std::optional<std::string> relative_inside(const fs::path& path, const fs::path&
     return text == "." ? std::string() : text;
 }
 
-// Every C/C++ file under `root` (skipping hidden folders and build folders), from disk; files over
-// `limit` are listed there instead of read.
+// Every C/C++ and Java file under `root` (skipping hidden folders and build folders), from disk;
+// files over `limit` are listed there instead of read.
 std::vector<SourceFile> read_disk_tree(const fs::path& root, const SizeLimit& limit) {
     std::vector<SourceFile> files;
     std::error_code ec;
@@ -54,16 +45,26 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root, const SizeLimit& li
             it.disable_recursion_pending();
             continue;
         }
-        if (it->is_regular_file() && is_c_family_path(name)) {
-            std::string relative = p.lexically_relative(root).generic_string();
-            std::error_code size_error;
-            const std::uintmax_t size = fs::file_size(p, size_error);
-            if (!size_error && limit.refuses(size)) {
-                limit.oversized->push_back({std::move(relative), size});
-                continue;
-            }
-            files.push_back({std::move(relative), read_disk_file(p)});
+        if (!is_measured_path(name) || it->is_directory()) {
+            continue;
         }
+        // Never follow a symlink or open a FIFO or device named like a source file.
+        DiskFile file = read_regular_file(p.string(), limit.max_bytes);
+        if (file.entry == DiskEntry::unreadable) {
+            throw UsageError("cannot read \"" + p.string() + "\"");
+        }
+        if (file.entry == DiskEntry::oversized) {
+            limit.oversized->push_back({p.lexically_relative(root).generic_string(), file.size});
+            continue;
+        }
+        if (file.entry != DiskEntry::regular) {
+            if (file.entry != DiskEntry::missing) {
+                spdlog::warn("skipped \"{}\": {}", p.lexically_relative(root).generic_string(),
+                             disk_entry_text(file.entry));
+            }
+            continue;
+        }
+        files.push_back({p.lexically_relative(root).generic_string(), std::move(file.content)});
     }
     std::sort(files.begin(), files.end(),
               [](const SourceFile& a, const SourceFile& b) { return a.path < b.path; });
@@ -104,8 +105,9 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
             }
         }
         if (!found) {
-            throw UsageError("no C/C++ file at \"" + as_given[i] +
-                             "\" (give a .c, .cc, .cpp, .cxx, .c++ or header file, or a folder)");
+            throw UsageError("no C, C++ or Java file at \"" + as_given[i] +
+                             "\" (give a .c, .cc, .cpp, .cxx, .c++, header or .java file, or a "
+                             "folder)");
         }
     }
     std::sort(selected.begin(), selected.end(),
@@ -122,17 +124,33 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
     return selected;
 }
 
+// Read a compile database found in the working tree, which may be the change under review: a
+// symlink or FIFO there is not followed. Return nothing when there is none to read.
+std::optional<std::string> read_found_database(const fs::path& path) {
+    DiskFile file = read_regular_file(path.string());
+    if (file.entry == DiskEntry::regular) {
+        spdlog::debug("using compile database {}", path.string());
+        return std::move(file.content);
+    }
+    if (file.entry != DiskEntry::missing) {
+        spdlog::warn("compile database \"{}\" left out: {}", path.string(),
+                     disk_entry_text(file.entry));
+    }
+    return std::nullopt;
+}
+
 } // namespace
 
 std::string read_compile_commands(const std::string& given, const std::string& root) {
     if (!given.empty()) {
         return read_named_file("compile database", given, "give a compile_commands.json file");
     }
+    if (root.empty()) {
+        return {};
+    }
     for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
-        const fs::path path = fs::path(root) / candidate;
-        if (!root.empty() && fs::exists(path)) {
-            spdlog::debug("using compile database {}", path.string());
-            return read_disk_file(path);
+        if (auto found = read_found_database(fs::path(root) / candidate)) {
+            return std::move(*found);
         }
     }
     return {};
@@ -205,7 +223,10 @@ LoadedSources load_sources(const SourceRequest& request) {
     loaded.selected = select_files(all, loaded.oversized, relative, request.paths);
 
     const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
-    loaded.context = lexer::make_parse_context(all, compile_db, root.string());
+    loaded.context =
+        lexer::make_parse_context(all, compile_db, root.string(),
+                                  request.compile_commands.empty() ? lexer::DatabaseOrigin::found
+                                                                   : lexer::DatabaseOrigin::given);
     loaded.context.force_language = request.force_language;
     loaded.context.cache_dir = resolve_cache_dir(request.no_cache, request.cache_dir);
     spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),

@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// C/C++ file recognition by extension.
+// C/C++ and Java file recognition by extension.
 #include "gate/common/source.hpp"
 
 #include "gate/common/byte_size.hpp"
@@ -47,6 +47,14 @@ bool is_c_family_path(const std::string& path) {
 std::string oversized_reason(std::uint64_t size, std::uint64_t max_bytes) {
     return "too large: " + format_byte_size(size) + ", over the " + format_byte_size(max_bytes) +
            " limit of --max-file-size";
+}
+
+bool is_java_path(const std::string& path) {
+    return lower_extension(path) == ".java";
+}
+
+bool is_measured_path(const std::string& path) {
+    return is_c_family_path(path) || is_java_path(path);
 }
 
 } // namespace tollgate

@@ -51,6 +51,7 @@ FunctionSide side_of(const SideFunction& f, const core::MeasureSettings& setting
     side.start_line = f.start_line();
     side.end_line = f.end_line();
     side.lexical = f.mode() == lexer::ExtentMode::lexical;
+    side.parser_stopped = f.mode() == lexer::ExtentMode::parser_stopped;
     side.token_hash = f.token_hash();
     side.measures = f.span ? core::compute_measures(core::count_tokens(f.span->tokens),
                                                     f.span->potential_operands, settings)

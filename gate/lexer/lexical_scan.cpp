@@ -2,6 +2,7 @@
 // The lexical cross-check: function definitions found from balanced braces after a parameter list.
 #include "gate/lexer/lexical_scan.hpp"
 
+#include <algorithm>
 #include <array>
 #include <string_view>
 
@@ -472,32 +473,71 @@ std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t op
     return tokens.size();
 }
 
+// The scan state at an open #if, restored by its #else / #elif, and how many definitions had
+// been found before it.
+struct SavedCondition {
+    ScanState state;
+    std::size_t found_before = 0;
+};
+
+// Apply the conditional directive `mark` to the scan: an #if saves the state, an #else / #elif
+// restores it, an #endif forgets it. `found_count` is the number of definitions found so far.
+void apply_directive(const DirectiveMark& mark, std::size_t found_count, ScanState& state,
+                     std::vector<SavedCondition>& saved) {
+    switch (mark.kind) {
+    case DirectiveKind::open_condition:
+        saved.push_back({state, found_count});
+        break;
+    case DirectiveKind::alternative:
+        if (!saved.empty()) {
+            state = saved.back().state;
+            // A branch that completed a definition ended a statement inside itself: the next
+            // branch's statement starts after the directive, not before the #if (else
+            // `#if A f(){} #else f(){} #endif` would measure both as one).
+            const bool outside_function =
+                state.stack.empty() || state.stack.back().kind == ScopeKind::container;
+            if (outside_function && found_count > saved.back().found_before) {
+                state.statement_start = std::max(state.statement_start, mark.before);
+                state.pending_body = k_npos;
+                state.paren_depth = 0;
+            }
+        }
+        break;
+    case DirectiveKind::close_condition:
+        if (!saved.empty()) {
+            saved.pop_back();
+        }
+        break;
+    case DirectiveKind::other:
+        break;
+    }
+}
+
+// Add `definition` to `found`, keeping definitions apart. An #else restores the brace count of
+// its #if, so one header can be seen to close twice (`f() { #if X } #else } #endif`), or an
+// unbalanced #else can reopen a body that closed: a definition that starts no later than the
+// ones it overlaps replaces them (its extent holds both endings); one that starts inside an
+// earlier definition is a repeat of it and is dropped.
+void add_definition(std::vector<LexicalDefinition>& found, LexicalDefinition definition) {
+    while (!found.empty() && found.back().body_close >= definition.first &&
+           found.back().first >= definition.first) {
+        found.pop_back();
+    }
+    if (found.empty() || found.back().body_close < definition.first) {
+        found.push_back(std::move(definition));
+    }
+}
+
 std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& tokens,
                                                 const std::vector<DirectiveMark>& directives) {
     std::vector<LexicalDefinition> found;
     ScanState state;
-    std::vector<ScanState> saved; // the state at each open #if, restored by #else / #elif
+    std::vector<SavedCondition> saved;
     std::size_t next_directive = 0;
     for (std::size_t i = 0; i < tokens.size(); ++i) {
-        while (next_directive < directives.size() && directives[next_directive].before <= i) {
-            switch (directives[next_directive].kind) {
-            case DirectiveKind::open_condition:
-                saved.push_back(state);
-                break;
-            case DirectiveKind::alternative:
-                if (!saved.empty()) {
-                    state = saved.back();
-                }
-                break;
-            case DirectiveKind::close_condition:
-                if (!saved.empty()) {
-                    saved.pop_back();
-                }
-                break;
-            case DirectiveKind::other:
-                break;
-            }
-            ++next_directive;
+        for (; next_directive < directives.size() && directives[next_directive].before <= i;
+             ++next_directive) {
+            apply_directive(directives[next_directive], found.size(), state, saved);
         }
         const SourceToken& token = tokens[i];
         const bool in_function =
@@ -511,7 +551,7 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                 if (kind == ScopeKind::function) {
                     LexicalDefinition definition = state.open_function;
                     definition.body_close = i;
-                    found.push_back(std::move(definition));
+                    add_definition(found, std::move(definition));
                     state.statement_start = i + 1;
                 }
             }

@@ -58,8 +58,8 @@ public:
     // "base") is left out of the message when empty.
     ObjectId resolve_commit(const std::string& revision, const std::string& role = {}) const;
 
-    // Return the C/C++ files (by is_c_family_path) of `commit`'s tree, sorted by path; symlinks
-    // and submodules are left out. Throws Failure when the commit is missing.
+    // Return the C/C++ and Java files (by is_measured_path) of `commit`'s tree, sorted by path;
+    // symlinks and submodules are left out. Throws Failure when the commit is missing.
     std::vector<TreeFile> list_c_family_files(const ObjectId& commit) const;
 
     // Return the bytes of blob `blob`. Throws Failure when it is missing.
@@ -69,17 +69,17 @@ public:
     // (absent, a folder, a symlink or a submodule). Throws Failure when the commit is missing.
     std::optional<SourceFile> read_file(const ObjectId& commit, const std::string& path) const;
 
-    // Return every C/C++ file of `commit` with its content, sorted by path. A blob larger than
-    // `limit` is left unread (its size comes from the object header) and listed in
+    // Return every C/C++ and Java file of `commit` with its content, sorted by path. A blob
+    // larger than `limit` is left unread (its size comes from the object header) and listed in
     // `limit.oversized`. Throws Failure when the commit or a blob is missing.
     std::vector<SourceFile> read_c_family_files(const ObjectId& commit,
                                                 const SizeLimit& limit = {}) const;
 
-    // Return every C/C++ file of the working tree (tracked or untracked, not ignored), with its
-    // content read from disk, sorted by path; files deleted from disk, symlinks and submodules are
-    // left out, and a file larger than `limit` is left unread (stat first) and listed in
-    // `limit.oversized`. Throws UsageError for a bare repository, Failure when a file cannot be
-    // read.
+    // Return every C/C++ and Java file of the working tree (tracked or untracked, not ignored),
+    // with its content read from disk, sorted by path; files deleted from disk, symlinks and
+    // submodules are left out, and a file larger than `limit` is left unread (its size taken from
+    // the open file) and listed in `limit.oversized`. Throws UsageError for a bare repository,
+    // Failure when a file cannot be read.
     std::vector<SourceFile> read_worktree_c_family_files(const SizeLimit& limit = {}) const;
 
     // Return the size in bytes of blob `blob` from its object header, without reading it. Throws

@@ -99,9 +99,10 @@ std::string commit_all(const std::string& dir, const std::string& message) {
 }
 
 std::string tollgate_binary() {
-    // TOLLGATE_TEST_BINARY runs the tests against another build, e.g. the code before a fix.
+    // TOLLGATE_TEST_BINARY runs the integration tests against another build (an older binary,
+    // to see a regression test fail there).
     const char* other = std::getenv("TOLLGATE_TEST_BINARY");
-    return other != nullptr && *other != '\0' ? std::string(other) : std::string(TOLLGATE_BINARY);
+    return other != nullptr && *other != '\0' ? other : TOLLGATE_BINARY;
 }
 
 RunResult run_tollgate(const std::string& args, const std::string& cwd) {
