@@ -74,6 +74,30 @@ TEST_CASE("every numeric option refuses what is not a number of its range", "[cl
          "--cache-max-age: \"-1\" is out of range (give a whole number from 0 to 36500)"},
         {"hook run origin --jobs abc",
          "--jobs: \"abc\" is not a whole number (give one from 0 to 1024)"},
+        // The parser processes' limits and annotate's numbers, merged from main, read the same.
+        {"check --parse-timeout 1.5",
+         "--parse-timeout: \"1.5\" is not a whole number (give one from 1 to 86400)"},
+        {"measure --parse-timeout 0",
+         "--parse-timeout: \"0\" is out of range (give a whole number from 1 to 86400)"},
+        {"snapshot --parse-memory 4G",
+         "--parse-memory: \"4G\" is not a whole number (give one from 512 to 1048576)"},
+        {"explain f.c:f --parse-memory 99999999999999999999",
+         "--parse-memory: \"99999999999999999999\" is out of range (give a whole number from 512 "
+         "to 1048576)"},
+        {"calibrate --parse-timeout -5",
+         "--parse-timeout: \"-5\" is out of range (give a whole number from 1 to 86400)"},
+        {"annotate --dry-run --from x.json --timeout 0",
+         "--timeout: \"0\" is out of range (give a whole number from 1 to 600)"},
+        {"annotate --dry-run --from x.json --timeout 1e2",
+         "--timeout: \"1e2\" is not a whole number (give one from 1 to 600)"},
+        {"annotate --dry-run --from x.json --markdown-rows -1",
+         "--markdown-rows: \"-1\" is out of range (give a whole number from 0 to 100000)"},
+        {"annotate --dry-run --from x.json --body-limit 4294967296000",
+         "--body-limit: \"4294967296000\" is out of range (give a whole number from 0 to "
+         "1073741824)"},
+        {"annotate --dry-run --from x.json --number ../../admin",
+         "--number: \"../../admin\" is not a whole number (give one from 1 to "
+         "9007199254740991)"},
     };
     for (const auto& [args, sentence] : cases) {
         const auto result = run_tollgate(args, root);

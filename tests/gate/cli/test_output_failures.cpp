@@ -102,6 +102,21 @@ TEST_CASE("an output that cannot be written fails the same way for every kind, b
         CHECK(page.exit_code == 3);
         CHECK(page.err == "tollgate: error: cannot write HTML page \"ro/c.html\"" + denied);
     }
+    SECTION("a pre-push hook, written by the same writer") {
+        // Hooks go where core.hooksPath says: here the folder the user cannot write to.
+        REQUIRE(run_command(std::string("git config --file .git/config core.hooksPath ro") +
+                                (::geteuid() == 0 ? " && chown 4321:4321 .git/config" : ""),
+                            root)
+                    .exit_code == 0);
+        const auto result = run_unprivileged("hook install", root, home);
+        CHECK(result.exit_code == 3);
+        const std::string start = "tollgate: error: cannot write hook \"";
+        const std::string end = "/ro/pre-push\"" + denied;
+        CHECK(result.err.rfind(start, 0) == 0);
+        CHECK(result.err.size() > start.size() + end.size());
+        CHECK(result.err.compare(result.err.size() - end.size(), end.size(), end) == 0);
+        CHECK_FALSE(fs::exists(root + "/ro/pre-push"));
+    }
     SECTION("a folder where the file should go") {
         const auto report = run_unprivileged(
             "check --base HEAD~1 --head HEAD --no-pch-cache --report json:ro", root, home);
@@ -164,6 +179,18 @@ TEST_CASE("files over the size limit are listed with their size and never read",
               std::string::npos);
         CHECK(run_tollgate("measure --max-file-size 0 --no-pch-cache", root).out.find("big.c:1") !=
               std::string::npos);
+    }
+    SECTION("measure outside a repository lists an oversized file of the folder the same way") {
+        const std::string folder = dir.path() + "/plain";
+        fs::create_directories(folder);
+        std::ofstream(folder + "/big.c") << big;
+        std::ofstream(folder + "/small.c") << "int s(int v) { return v; }\n";
+        const auto text = run_tollgate("measure --max-file-size 1K --no-pch-cache", folder);
+        CHECK(text.exit_code == 0);
+        CHECK(text.out.find("big.c:1") == std::string::npos);
+        CHECK(text.out.find("small.c:1") != std::string::npos);
+        CHECK(text.out.find("warning: big.c: not measured, too large: 1.9 KiB, over the 1 KiB "
+                            "limit of --max-file-size\n") != std::string::npos);
     }
     SECTION("explain refuses an oversized file") {
         std::ofstream(root + "/big.c") << big;
