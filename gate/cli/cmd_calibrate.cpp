@@ -8,10 +8,13 @@
 #include "gate/calibrate/replay.hpp"
 #include "gate/calibrate/suggested_policy.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/run_cli.hpp"
 #include "gate/cli/sources.hpp"
+#include "gate/common/byte_size.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/common/progress.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/policy/calendar_date.hpp"
@@ -31,6 +34,7 @@
 #include <iostream>
 #include <memory>
 #include <optional>
+#include <spdlog/spdlog.h>
 #include <sstream>
 #include <unistd.h>
 
@@ -39,27 +43,30 @@ namespace tollgate {
 namespace {
 
 struct CalibrateOptions {
-    std::string range;                  // --range A..B
-    std::string default_branch;         // --default-branch
-    std::size_t max_commits = 300;      // --max-commits
-    std::string since;                  // --since YYYY-MM-DD
-    std::vector<std::string> measures;  // --measure, repeatable
-    std::string policy_path;            // --policy
-    std::optional<double> suggest;      // --suggest P
-    std::optional<double> block_rate;   // --suggest-block-rate P
-    std::optional<double> warning_rate; // --suggest-warning-rate P
-    bool keep_vendored = false;         // --keep-vendored
-    std::string progress = "auto";      // --progress auto|always|never
-    std::string out;                    // --out PATH
-    std::string format = "text";        // --format text|json
-    std::string html;                   // --html PATH
-    unsigned jobs = 0;                  // --jobs
-    IsolationOptions isolation;         // --parse-timeout, --parse-memory
-    std::string cache_dir;              // --cache-dir
-    std::string compile_commands;       // --compile-commands
-    bool no_pch_cache = false;          // --no-pch-cache
-    double stroud = 18.0;               // --stroud
-    std::size_t rename_limit = 400;     // --rename-limit
+    std::string range;                                     // --range A..B
+    std::string default_branch;                            // --default-branch
+    std::size_t max_commits = 300;                         // --max-commits
+    std::string since;                                     // --since YYYY-MM-DD
+    std::vector<std::string> measures;                     // --measure, repeatable
+    std::string policy_path;                               // --policy
+    std::optional<double> suggest;                         // --suggest P
+    std::optional<double> block_rate;                      // --suggest-block-rate P
+    std::optional<double> warning_rate;                    // --suggest-warning-rate P
+    bool keep_vendored = false;                            // --keep-vendored
+    std::string progress = "auto";                         // --progress auto|always|never
+    std::string out;                                       // --out PATH
+    std::string format = "text";                           // --format text|json
+    std::string html;                                      // --html PATH
+    unsigned jobs = 0;                                     // --jobs
+    IsolationOptions isolation;                            // --parse-timeout, --parse-memory
+    std::string cache_dir;                                 // --cache-dir
+    std::string compile_commands;                          // --compile-commands
+    bool no_pch_cache = false;                             // --no-pch-cache
+    double stroud = 18.0;                                  // --stroud
+    std::size_t rename_limit = 400;                        // --rename-limit
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    std::uint64_t cache_max_size = calibrate::k_default_cache_bytes; // --cache-max-size
+    unsigned cache_max_age = calibrate::k_default_cache_days;        // --cache-max-age
 };
 
 // Raised by SIGINT; the replay's workers take no new commit once it is set.
@@ -131,12 +138,16 @@ std::vector<core::MeasureId> parse_measures(const std::vector<std::string>& name
     return out;
 }
 
-void write_file(const std::string& path, const std::string& text) {
-    std::ofstream out(path, std::ios::binary | std::ios::trunc);
-    out << text;
-    out.close();
-    if (!out) {
-        throw UsageError("cannot write \"" + path + "\" (check the folder exists and is writable)");
+// Return the lexed-file cache in `dir`, or, when that folder cannot be made, a cache that keeps
+// nothing, after a warning (as check runs without its precompiled headers then).
+std::unique_ptr<calibrate::LexFileCache> open_cache(const std::string& dir) {
+    try {
+        return std::make_unique<calibrate::LexFileCache>(dir);
+    } catch (const Failure& e) {
+        spdlog::warn("{}; calibrate runs without its lexed-file cache (pass --cache-dir to "
+                     "choose another folder)",
+                     e.what());
+        return std::make_unique<calibrate::LexFileCache>();
     }
 }
 
@@ -147,6 +158,13 @@ int run_calibrate(const CalibrateOptions& options) {
     }
     const auto measures = parse_measures(options.measures);
     const ProgressMode progress_mode = parse_progress_mode(options.progress);
+    // Outputs that cannot be written fail now, not after the replay.
+    if ((options.suggest || options.block_rate) && !options.out.empty() && options.out != "-") {
+        check_writable("policy", options.out);
+    }
+    if (!options.html.empty()) {
+        check_writable("HTML page", options.html);
+    }
     const std::string repository_path = std::filesystem::current_path().string();
     const auto repository = walker::Repository::open(repository_path);
 
@@ -170,7 +188,7 @@ int run_calibrate(const CalibrateOptions& options) {
         : !default_cache_dir().empty()
             ? default_cache_dir() + "/calibrate"
             : (std::filesystem::temp_directory_path() / "tollgate-calibrate").string();
-    calibrate::LexFileCache cache(cache_dir);
+    const std::unique_ptr<calibrate::LexFileCache> cache = open_cache(cache_dir);
     calibrate::ReplaySettings settings;
     settings.measure.measures.stroud = options.stroud;
     settings.measure.compile_commands_json =
@@ -180,8 +198,9 @@ int run_calibrate(const CalibrateOptions& options) {
                                                    ? lexer::DatabaseOrigin::found
                                                    : lexer::DatabaseOrigin::given;
     settings.measure.cache_dir = options.no_pch_cache ? std::string() : default_cache_dir();
-    settings.measure.lex_cache = &cache;
+    settings.measure.lex_cache = cache.get();
     settings.changes.rename_limit = options.rename_limit;
+    settings.changes.max_file_size = options.max_file_size;
     settings.threads = lexer::effective_jobs(options.jobs);
     settings.stop = &g_stop;
     settings.keep_file = [&scope](const walker::ChangedFile& file) {
@@ -208,6 +227,11 @@ int run_calibrate(const CalibrateOptions& options) {
         replay = calibrate::replay_history(repository_path, history, settings);
     }
     progress.finish();
+    const calibrate::Eviction evicted =
+        cache->evict({options.cache_max_size, options.cache_max_age});
+    spdlog::debug("lexed-file cache {}: {} entries ({}) kept, {} removed", cache->dir(),
+                  evicted.kept_entries, format_byte_size(evicted.kept_bytes),
+                  evicted.removed_entries);
 
     calibrate::Calibration calibration;
     std::vector<std::vector<std::string>> dropped;
@@ -218,7 +242,7 @@ int run_calibrate(const CalibrateOptions& options) {
     calibration.replay = &replay;
     calibration.scope = &scope;
     calibration.distributions = calibrate::distribute(replay, measures, &scope.policy);
-    calibration.cache = cache.counts();
+    calibration.cache = cache->counts();
     calibration.seconds =
         std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
     calibration.threads = settings.threads;
@@ -251,13 +275,13 @@ int run_calibrate(const CalibrateOptions& options) {
             std::cout << text;
             stdout_taken = true;
         } else {
-            write_file(options.out, text);
+            write_output_file("policy", options.out, text);
         }
     }
     if (!options.html.empty()) {
         std::ostringstream page;
         calibrate::write_calibration_html(page, calibration);
-        write_file(options.html, page.str());
+        write_output_file("HTML page", options.html, page.str());
     }
     if (!stdout_taken) {
         if (options.format == "json") {
@@ -295,6 +319,7 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
                    "main, else master)");
     sub.add_option("--max-commits", options->max_commits,
                    "Replay only the newest N commits (0 = all)")
+        ->check(whole_number(0, 10000000))
         ->capture_default_str();
     sub.add_option("--since", options->since,
                    "Replay only commits made on or after this date (YYYY-MM-DD, UTC)");
@@ -305,17 +330,17 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     auto* suggest =
         sub.add_option("--suggest", options->suggest,
                        "Write a policy whose limits sit at the P-th percentile of the history")
-            ->check(CLI::Range(0.0, 100.0));
+            ->check(real_number(0.0, 100.0));
     auto* block_rate =
         sub.add_option("--suggest-block-rate", options->block_rate,
                        "Write a policy whose limits are the strictest under which at most P% of "
                        "the replayed commits would have been blocked (searched per rule; the "
                        "report gives its replayed block and warning rates)")
-            ->check(CLI::Range(0.0, 100.0));
+            ->check(real_number(0.0, 100.0));
     sub.add_option("--suggest-warning-rate", options->warning_rate,
                    "With --suggest-block-rate: at most P% of the replayed commits may pass with "
                    "warnings (default: twice the block rate)")
-        ->check(CLI::Range(0.0, 100.0))
+        ->check(real_number(0.0, 100.0))
         ->needs(block_rate);
     suggest->excludes(block_rate);
     sub.add_flag("--keep-vendored", options->keep_vendored,
@@ -330,20 +355,32 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--html", options->html,
                    "Also write a self-contained HTML page with SVG histograms to PATH");
     sub.add_option("-j,--jobs", options->jobs, "Worker threads, one commit each (0 = all cores)")
+        ->check(whole_number(0, k_max_jobs))
         ->capture_default_str();
     add_isolation_options(sub, options->isolation);
     sub.add_option("--cache-dir", options->cache_dir,
                    "Folder of the lexed-file cache (default: the tool's cache folder + "
-                   "\"/calibrate\")");
+                   "\"/calibrate\"); when it cannot be made, calibrate warns and runs without");
+    sub.add_option("--cache-max-size", options->cache_max_size,
+                   "After the run, remove the least recently used cache entries until the cache "
+                   "holds at most SIZE (bytes, or a number with K, M or G; 0 = no limit)")
+        ->transform(byte_size(std::uint64_t{1} << 40))
+        ->type_name("SIZE")
+        ->default_str(std::to_string(calibrate::k_default_cache_bytes >> 20) + "M");
+    sub.add_option("--cache-max-age", options->cache_max_age,
+                   "After the run, remove cache entries unused for more than DAYS days (0 = no "
+                   "limit)")
+        ->check(whole_number(0, 36500))
+        ->type_name("DAYS")
+        ->capture_default_str();
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, at its root or in build/)");
     sub.add_flag("--no-pch-cache", options->no_pch_cache,
                  "Parse without the precompiled standard-library headers (as check's flag)");
     add_stroud_option(sub, options->stroud);
-    sub.add_option("--rename-limit", options->rename_limit,
-                   "Candidates compared per added file when looking for renames")
-        ->capture_default_str();
+    add_rename_limit_option(sub, options->rename_limit);
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate calibrate                                 the last 300 commits of "
                "the default branch\n"

@@ -3,6 +3,7 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/cli/baseline_source.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/policy_source.hpp"
 #include "gate/cli/report_targets.hpp"
@@ -51,6 +52,7 @@ struct CheckOptions {
     double stroud = 18.0;             // --stroud
     std::size_t rename_limit = 400;   // --rename-limit
     std::string progress = "auto";    // --progress
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
 };
 
 // After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
@@ -84,6 +86,7 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.no_cache = options.no_cache;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
+    request.max_file_size = options.max_file_size;
     const SnapshotResult result = snapshot_revision(request);
     baseline::save_snapshot(result.snapshot, path);
     std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n",
@@ -98,6 +101,7 @@ int run_check(const CheckOptions& options) {
 
     walker::ChangeOptions change_options;
     change_options.rename_limit = options.rename_limit;
+    change_options.max_file_size = options.max_file_size;
     delta::MeasureChangeSettings settings;
     settings.measures.stroud = options.stroud;
     settings.jobs = options.jobs;
@@ -116,6 +120,9 @@ int run_check(const CheckOptions& options) {
     judge_options.policy_origin = selected.origin;
 
     CheckBaseline baseline(options.baseline_path, selected.policy, repository, range, settings);
+
+    // A report that cannot be written fails now, not after the parsing.
+    check_report_targets(targets);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
     const ProgressMode progress_mode = parse_progress_mode(options.progress);
     ProgressMeter progress("check", "file sides", progress_mode,
@@ -187,6 +194,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
                    "\"https://git.example/team/repo/blob/{commit}/{path}#L{line}\"");
     sub.add_option("--markdown-rows", options->markdown_rows,
                    "Rows of the Markdown table shown before the rest is folded")
+        ->check(whole_number(0, 100000))
         ->capture_default_str();
     add_jobs_option(sub, options->jobs);
     add_isolation_options(sub, options->isolation);
@@ -199,9 +207,8 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
                  "Parse without the precompiled standard-library headers");
     add_stroud_option(sub, options->stroud);
     add_progress_option(sub, options->progress);
-    sub.add_option("--rename-limit", options->rename_limit,
-                   "Candidates compared per added file when looking for renames")
-        ->capture_default_str();
+    add_rename_limit_option(sub, options->rename_limit);
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate check                                  this branch against its merge "
                "base with main\n"

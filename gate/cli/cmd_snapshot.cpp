@@ -4,9 +4,11 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/baseline/snapshot_trend.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/common/progress.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
@@ -39,6 +41,7 @@ struct SnapshotOptions {
     std::string format = "text";      // text or json, for --compare
     std::size_t top = 10;             // grown functions listed by --compare
     std::string progress = "auto";    // --progress
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
     // Where the snapshot goes without --out and without a baseline.path in the revision's
     // policy, relative to the repository root. Always confined to the repository.
     std::string configured_path = baseline::k_default_snapshot_path;
@@ -80,6 +83,7 @@ int run_snapshot(const SnapshotOptions& options) {
     const baseline::Overwrite overwrite =
         options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
     // Refuse before the expensive part, not after.
+    check_writable("snapshot", out_path);
     baseline::check_replaceable(out_path, overwrite);
 
     SnapshotRequest request;
@@ -96,6 +100,8 @@ int run_snapshot(const SnapshotOptions& options) {
     request.on_progress = [&progress](std::size_t done, std::size_t total) {
         progress.update(done, total);
     };
+
+    request.max_file_size = options.max_file_size;
     const SnapshotResult measured = snapshot_revision(request);
     progress.finish();
     const baseline::Snapshot& snapshot = measured.snapshot;
@@ -109,6 +115,10 @@ int run_snapshot(const SnapshotOptions& options) {
                                            : fmt::format(" ({} parse warnings: tollgate measure "
                                                          "--rev {} shows them)",
                                                          warnings, commit.short_hex()));
+    for (const auto& file : measured.oversized) {
+        std::cerr << fmt::format("tollgate: skipped {} ({})\n", file.path,
+                                 oversized_reason(file.size, options.max_file_size));
+    }
     return 0;
 }
 
@@ -167,7 +177,10 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--format", options->format, "Output format of --compare")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
-    sub.add_option("--top", options->top, "Grown functions --compare lists")->capture_default_str();
+    sub.add_option("--top", options->top, "Grown functions --compare lists")
+        ->check(whole_number(0, 100000))
+        ->capture_default_str();
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate snapshot                          HEAD into baselines/snapshot.json\n"
                "  tollgate snapshot --rev v1.2 --out v1.2.json\n"

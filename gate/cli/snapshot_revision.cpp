@@ -19,6 +19,7 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.compile_commands = request.compile_commands;
     sources.cache_dir = request.cache_dir;
     sources.no_cache = request.no_cache;
+    sources.max_file_size = request.max_file_size;
     const LoadedSources loaded = load_sources(sources);
     std::atomic<std::size_t> done{0};
     const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs,
@@ -36,6 +37,7 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
                                               settings, baseline::current_utc_time());
     result.files = files.size();
     result.warnings = collect_warnings(files).size();
+    result.oversized = loaded.oversized;
     return result;
 }
 

@@ -5,6 +5,7 @@
 #include "gate/common/source.hpp"
 #include "gate/lexer/lexer.hpp"
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -19,21 +20,25 @@ struct SourceRequest {
     std::string compile_commands;   // compile_commands.json given by the user, or empty
     std::string cache_dir;          // precompiled-header cache; empty picks the default
     bool no_cache = false;          // disable the precompiled-header cache
-    std::optional<lexer::Language> force_language; // override the extension rule
+    std::optional<lexer::Language> force_language;         // override the extension rule
+    std::uint64_t max_file_size = k_default_max_file_size; // bytes; larger files are not read
 };
 
 // The files to measure and the parse context they share.
 struct LoadedSources {
-    std::string label;                // "working tree", "revision 3f2a91c (HEAD~1)" or a folder
-    std::string root;                 // absolute root the repository-relative paths start at
-    std::vector<SourceFile> selected; // the files to measure, sorted by path
-    lexer::ParseContext context;      // every header of the source, include folders, flags
+    std::string label;                    // "working tree", "revision 3f2a91c (HEAD~1)" or a folder
+    std::string root;                     // absolute root the repository-relative paths start at
+    std::vector<SourceFile> selected;     // the files to measure, sorted by path
+    lexer::ParseContext context;          // every header of the source, include folders, flags
+    std::vector<OversizedFile> oversized; // files of the selection left unread for their size
 };
 
 // Read the sources `request` names. Inside a git repository paths are repository-relative and
 // `revision` reads blobs from the object database; outside one, the current folder is the root
-// and only the working tree can be read. Throws UsageError for an unknown revision, a path that
-// does not exist or names no C/C++ file.
+// and only the working tree can be read. Files over `request.max_file_size` are never read (their
+// size is asked first) and those the paths select are listed in `oversized`. Throws UsageError for
+// an unknown revision, a path that does not exist or names no C/C++ file, and for a repository
+// owned by another user.
 LoadedSources load_sources(const SourceRequest& request);
 
 // Return the text of the compile database `given` (a path; UsageError when it does not exist), or

@@ -2,6 +2,7 @@
 // One change, measured: read sides, lex in parallel, compare, total.
 #include "gate/delta/measure_change.hpp"
 
+#include "gate/common/byte_size.hpp"
 #include "gate/delta/compare.hpp"
 #include "gate/delta/snapshot_check.hpp"
 #include "gate/java/java_front_end.hpp"
@@ -11,6 +12,7 @@
 
 #include <atomic>
 #include <fmt/format.h>
+#include <set>
 #include <spdlog/spdlog.h>
 
 namespace tollgate::delta {
@@ -28,6 +30,7 @@ std::string label_for(const std::string& name, const walker::ObjectId& id) {
 // Every file a side needs: the changed files' content and the side's headers.
 struct SideSources {
     std::vector<SourceFile> tree;                   // every C/C++ file of the side
+    std::vector<OversizedFile> oversized;           // files of the side left unread for size
     lexer::ParseContext context;                    // built from `tree`
     std::vector<std::optional<SourceFile>> changed; // per changed file, its content on this side
 };
@@ -43,7 +46,7 @@ SideSources read_side_sources(const walker::Repository& repository,
         any = any || (sources.changed.back() && !is_java_path(sources.changed.back()->path));
     }
     if (any) {
-        sources.tree = walker::read_side_tree(repository, changes, side);
+        sources.tree = walker::read_side_tree(repository, changes, side, &sources.oversized);
     }
     sources.context =
         lexer::make_parse_context(sources.tree, settings.compile_commands_json,
@@ -217,9 +220,13 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         report.notes.push_back(changes.range.note);
     }
     report.notes.insert(report.notes.end(), changes.notes.begin(), changes.notes.end());
+    std::set<std::string> skipped_paths;
     for (const auto& skipped : changes.skipped) {
-        report.skipped.push_back({skipped.head_path.empty() ? skipped.base_path : skipped.head_path,
-                                  walker::skip_reason_text(skipped.reason)});
+        const std::string& path = skipped.head_path.empty() ? skipped.base_path : skipped.head_path;
+        skipped_paths.insert(path);
+        report.skipped.push_back({path, skipped.reason == walker::SkipReason::too_large
+                                            ? oversized_reason(skipped.size, changes.max_file_size)
+                                            : walker::skip_reason_text(skipped.reason)});
     }
     report.measured_files = static_cast<unsigned>(changes.files.size());
     if (changes.files.empty()) {
@@ -229,6 +236,19 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
     // The base is always parsed: a snapshot of it is only compared (see check_base_snapshot).
     const SideSources base = read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
+    // Unchanged files left unread: the changed files that include them are parsed without them.
+    std::set<std::string> noted;
+    for (const SideSources* sources : {&base, &head}) {
+        for (const auto& file : sources->oversized) {
+            if (skipped_paths.count(file.path) == 0 && noted.insert(file.path).second) {
+                report.notes.push_back(fmt::format(
+                    "\"{}\" was not read: {} is over the {} limit (--max-file-size); files that "
+                    "include it are parsed without it",
+                    file.path, format_byte_size(file.size),
+                    format_byte_size(changes.max_file_size)));
+            }
+        }
+    }
 
     // A file takes its flags from the side it is read on (head, else base): say how many had
     // none, so that the reports can tell how to give a compile database.

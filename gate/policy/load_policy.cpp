@@ -1,5 +1,6 @@
 // SPDX-License-Identifier: MIT
 // Load a policy from YAML and validate every key, collecting all problems with file:line:column.
+#include "gate/common/input_file.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/policy.hpp"
 
@@ -833,14 +834,10 @@ Policy load_policy(const std::string& text, const std::string& origin) {
 }
 
 Policy load_policy_file(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw UsageError("cannot read policy file \"" + path +
-                         "\" (check the path, or run \"tollgate policy --default\" for a start)");
-    }
-    std::ostringstream text;
-    text << in.rdbuf();
-    return load_policy(text.str(), path);
+    return load_policy(read_named_file("policy file", path,
+                                       "check the path, or run \"tollgate policy --default\" for "
+                                       "a start"),
+                       path);
 }
 
 } // namespace tollgate::policy

@@ -185,6 +185,11 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
         results.push_back(std::move(result));
     }
 
+    // Files left out (binary, too large, ...) are no results; a property bag lists them.
+    json skipped = json::array();
+    for (const auto& s : report.skipped) {
+        skipped.push_back({{"file", s.path}, {"reason", s.reason}});
+    }
     json run = {
         {"tool",
          {{"driver", {{"name", "tollgate"}, {"version", TOLLGATE_VERSION}, {"rules", rules}}}}},
@@ -199,7 +204,8 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
           {"baseCommit", report.base_commit},
           {"headCommit", report.head_commit},
           {"convention", report.convention},
-          {"notes", verdict.notes}}},
+          {"notes", verdict.notes},
+          {"skipped", skipped}}},
     };
     const json log = {
         {"$schema", k_sarif_schema}, {"version", "2.1.0"}, {"runs", json::array({run})}};

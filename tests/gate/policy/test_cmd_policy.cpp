@@ -70,7 +70,8 @@ TEST_CASE("tollgate policy validates a policy file", "[policy]") {
     SECTION("a missing file is exit 2") {
         const auto result = run_tollgate("policy missing.yaml", dir.path());
         CHECK(result.exit_code == 2);
-        CHECK(result.err == "tollgate: error: cannot read policy file \"missing.yaml\" (check the "
-                            "path, or run \"tollgate policy --default\" for a start)\n");
+        CHECK(result.err == "tollgate: error: cannot read policy file \"missing.yaml\": no such "
+                            "file or directory (check the path, or run \"tollgate policy "
+                            "--default\" for a start)\n");
     }
 }

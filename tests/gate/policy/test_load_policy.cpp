@@ -247,8 +247,9 @@ rules:
 
 TEST_CASE("load_policy_file names the file it cannot read", "[policy]") {
     CHECK_THROWS_WITH(load_policy_file("/nonexistent/tollgate.yaml"),
-                      "cannot read policy file \"/nonexistent/tollgate.yaml\" (check the path, or "
-                      "run \"tollgate policy --default\" for a start)");
+                      "cannot read policy file \"/nonexistent/tollgate.yaml\": no such file or "
+                      "directory (check the path, or run \"tollgate policy --default\" for a "
+                      "start)");
 }
 
 TEST_CASE("describe_policy writes YAML that loads back to the same policy", "[policy]") {
