@@ -2,7 +2,10 @@
 // The lexical cross-check: function definitions found from balanced braces after a parameter list.
 #include "gate/lexer/lexical_scan.hpp"
 
+#include "gate/lexer/macro_names.hpp"
+
 #include <array>
+#include <optional>
 #include <string_view>
 
 namespace tollgate::lexer {
@@ -180,6 +183,29 @@ std::size_t find_body(const std::vector<SourceToken>& tokens, std::size_t open) 
     return k_npos;
 }
 
+// Return the `<` that opens the template argument list closed at `close` (`>` or `>>`), walking
+// back no further than `start`; k_npos when there is none.
+std::size_t angles_open(const std::vector<SourceToken>& tokens, std::size_t close,
+                        std::size_t start) {
+    int depth = 0;
+    for (std::size_t i = close + 1; i-- > start;) {
+        const SourceToken& token = tokens[i];
+        if (is_punct(token, ">")) {
+            ++depth;
+        } else if (is_punct(token, ">>")) {
+            depth += 2;
+        } else if (is_punct(token, "<")) {
+            if (--depth <= 0) {
+                return depth == 0 ? i : k_npos;
+            }
+        } else if (is_punct(token, ";") || is_punct(token, "{") || is_punct(token, "}") ||
+                   is_punct(token, "(") || is_punct(token, ")")) {
+            return k_npos;
+        }
+    }
+    return k_npos;
+}
+
 // Find the name of the function whose parameter list opens at `open`: an identifier, or the
 // `operator` keyword a few tokens back. Return k_npos when there is none.
 std::size_t find_name(const std::vector<SourceToken>& tokens, std::size_t open,
@@ -197,14 +223,52 @@ std::size_t find_name(const std::vector<SourceToken>& tokens, std::size_t open,
             break;
         }
     }
-    const SourceToken& previous = tokens[open - 1];
+    std::size_t name = open - 1;
+    if (is_punct(tokens[name], ">") || is_punct(tokens[name], ">>")) {
+        // An explicit specialisation: `C::f<Arg>(...)` is named by the `f` before `<...>`.
+        name = angles_open(tokens, name, statement_start);
+        if (name == k_npos || name == statement_start) {
+            return k_npos;
+        }
+        --name;
+    }
+    const SourceToken& previous = tokens[name];
     if (previous.kind != core::LexKind::identifier || is_attribute_name(previous.spelling)) {
         return k_npos;
     }
-    if (open >= 2 && (is_punct(tokens[open - 2], ".") || is_punct(tokens[open - 2], "->"))) {
+    if (name >= 1 && (is_punct(tokens[name - 1], ".") || is_punct(tokens[name - 1], "->"))) {
         return k_npos;
     }
-    return open - 1;
+    return name;
+}
+
+// Return true when the statement from `start` whose `(` names `name` and whose braces open at
+// `body` declares a type rather than a function: a typedef, an enumeration whose base or
+// attributes come from a macro (`enum Kind MACRO(unsigned char) { ... }`, a list without `;`),
+// or a class whose attributes come from a macro right after its key (`struct ALIGNED(8) S {`).
+bool declares_type(const std::vector<SourceToken>& tokens, std::size_t start, std::size_t name,
+                   std::size_t body) {
+    for (std::size_t i = start; i < name; ++i) {
+        if (is_keyword(tokens[i], "typedef")) {
+            return true;
+        }
+        if (is_keyword(tokens[i], "enum")) {
+            if (i + 1 < name &&
+                (is_keyword(tokens[i + 1], "class") || is_keyword(tokens[i + 1], "struct"))) {
+                return true;
+            }
+            const std::size_t close = match_bracket(tokens, body);
+            for (std::size_t j = body + 1; j < close && j < tokens.size(); ++j) {
+                if (is_punct(tokens[j], ";")) {
+                    return false; // statements: a function returning an enumeration
+                }
+            }
+            return true;
+        }
+    }
+    return name > start &&
+           (is_keyword(tokens[name - 1], "class") || is_keyword(tokens[name - 1], "struct") ||
+            is_keyword(tokens[name - 1], "union"));
 }
 
 // Join tokens as a type is usually written: "const char *", "std::vector<int> &".
@@ -292,14 +356,7 @@ std::string written_name(const std::vector<SourceToken>& tokens, std::size_t nam
                          std::size_t statement_start) {
     std::string text;
     if (is_keyword(tokens[name], "operator")) {
-        text = "operator";
-        for (std::size_t i = name + 1; i < open; ++i) {
-            const bool word = tokens[i].kind != core::LexKind::punctuation;
-            if (word) {
-                text += ' ';
-            }
-            text += tokens[i].spelling;
-        }
+        text = join_written(tokens, name, open);
     } else {
         text = tokens[name].spelling;
     }
@@ -449,6 +506,19 @@ std::string innermost_class(const std::vector<Scope>& stack) {
     return stack.empty() ? std::string() : stack.back().name;
 }
 
+// Return the name of a function made by a macro invocation followed by a body, as written
+// ("TEST(Suite, Name)"): the statement starts with the invocation and the macro's name reads as
+// a macro's (a constructor of the enclosing class does not count). Nothing otherwise.
+std::optional<std::string> test_macro_name(const std::vector<SourceToken>& tokens,
+                                           std::size_t start, std::size_t name,
+                                           const std::vector<Scope>& stack) {
+    if (name != start || !is_macro_style_name(tokens[name].spelling) ||
+        tokens[name].spelling == innermost_class(stack)) {
+        return std::nullopt;
+    }
+    return macro_invocation_name(tokens, name);
+}
+
 } // namespace
 
 std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t open) {
@@ -470,6 +540,14 @@ std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t op
         }
     }
     return tokens.size();
+}
+
+bool declares_type_at(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t name) {
+    if (name <= first || name + 1 >= tokens.size() || !is_punct(tokens[name + 1], "(")) {
+        return false;
+    }
+    const std::size_t body = find_body(tokens, name + 1);
+    return body != k_npos && declares_type(tokens, first, name, body);
 }
 
 std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& tokens,
@@ -553,7 +631,7 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
             if (state.paren_depth == 0 && state.pending_body == k_npos) {
                 const std::size_t name = find_name(tokens, i, state.statement_start);
                 const std::size_t body = name == k_npos ? k_npos : find_body(tokens, i);
-                if (body != k_npos) {
+                if (body != k_npos && !declares_type(tokens, state.statement_start, name, body)) {
                     LexicalDefinition definition;
                     definition.first = state.statement_start;
                     definition.name = name;
@@ -568,6 +646,14 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                                                        written, innermost_class(state.stack))
                                                 ? 1
                                                 : 0);
+                    if (const auto invocation =
+                            test_macro_name(tokens, state.statement_start, name, state.stack)) {
+                        // Named as written, like the parser's macro-made functions; such a
+                        // body takes no parameters and returns nothing.
+                        definition.qualified_name = scope_prefix(state.stack) + *invocation;
+                        definition.signature.clear();
+                        definition.potential_operands = 0;
+                    }
                     state.pending = std::move(definition);
                     state.pending_body = body;
                     continue; // the parameter list is skipped with the rest of the header
