@@ -597,7 +597,9 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         }
     }
     const std::vector<LexicalDefinition> definitions = scan_definitions(tokens, parsed.directives);
+    const std::vector<SkippedRange> skipped = skipped_ranges(unit.get(), main_file);
     BraceExtentNotes brace_notes;
+    std::vector<std::size_t> braced_definitions; // closing braces of phantoms' real functions
     // The widest extent first, so a template's header beats a repeat of its pattern.
     std::stable_sort(located.begin(), located.end(),
                      [](const FoundFunction& a, const FoundFunction& b) {
@@ -605,11 +607,19 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
                      });
     for (const FoundFunction& candidate : located) {
         FoundFunction checked = candidate;
-        const auto braces =
-            check_extent(tokens, {candidate.first, candidate.last}, candidate.name, definitions);
+        const ExtentCheck extent = check_extent(tokens, {candidate.first, candidate.last},
+                                                candidate.name, definitions, skipped);
+        if (extent.verdict == ExtentVerdict::phantom) {
+            brace_notes.add_phantom(qualified_name(candidate.cursor), tokens[candidate.first].line);
+            if (extent.braces.last < tokens.size()) {
+                braced_definitions.push_back(extent.braces.last);
+            }
+            continue; // the brace-matched definition is measured below, lexically
+        }
+        const bool braces = extent.verdict == ExtentVerdict::braces;
         if (braces) {
-            checked.first = braces->first;
-            checked.last = braces->last;
+            checked.first = extent.braces.first;
+            checked.last = extent.braces.last;
         }
         const FoundFunction* found = &checked;
         const CXCursor cursor = candidate.cursor;
@@ -637,7 +647,7 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         const ReadableName readable = readable_name(cursor, qualified_name(cursor), tokens,
                                                     found->first, found->last, found->name);
         item.span.qualified_name = readable.name;
-        item.span.brace_extent = braces.has_value();
+        item.span.brace_extent = braces;
         if (braces) {
             brace_notes.add(item.span.qualified_name, tokens[found->first].line);
         }
@@ -661,7 +671,6 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
 
     // The lexical cross-check: definitions libclang did not report are measured lexically, and
     // so are those of the #if branches the preprocessor skipped (marked inactive).
-    const std::vector<SkippedRange> skipped = skipped_ranges(unit.get(), main_file);
     for (const LexicalDefinition& definition : definitions) {
         const bool known = std::any_of(taken.begin(), taken.end(), [&](const auto& range) {
             return range.second == definition.body_close ||
@@ -682,12 +691,15 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         item.span.end_line = tokens[definition.body_close].line;
         item.span.mode = ExtentMode::lexical;
         item.span.inactive = inactive;
+        item.span.brace_extent = std::find(braced_definitions.begin(), braced_definitions.end(),
+                                           definition.body_close) != braced_definitions.end();
         item.range = {definition.first, definition.body_close, definition.name};
-        if (inactive) {
-            pending.push_back(std::move(item));
+        ++result.lexically_recovered;
+        if (inactive || item.span.brace_extent) {
+            result.lexically_recovered -= inactive ? 1 : 0;
+            pending.push_back(std::move(item)); // warned about above, or expected
             continue;
         }
-        ++result.lexically_recovered;
         result.warnings.push_back(
             {file.path, item.span.start_line,
              "function \"" + definition.qualified_name +
