@@ -71,6 +71,16 @@ Json function_json(const SnapshotFunction& f) {
     object["signature"] = f.signature;
     object["extent"] = extent_name(f.mode);
     object["token_hash"] = f.token_hash;
+    if (f.inactive || f.brace_extent) {
+        Json marks = Json::array();
+        if (f.inactive) {
+            marks.push_back("inactive");
+        }
+        if (f.brace_extent) {
+            marks.push_back("brace-extent");
+        }
+        object["marks"] = std::move(marks);
+    }
     object["counts"] = {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
     object["potential_operands"] = f.measures.potential_operands;
@@ -320,6 +330,24 @@ private:
                             extent + "\"");
         }
         f.token_hash = string_at(object, "token_hash", pointer);
+        if (object.contains("marks")) {
+            const Json& marks = object["marks"];
+            if (!marks.is_array()) {
+                throw corrupted(ill_typed(pointer + "/marks", "an array", marks));
+            }
+            for (const Json& mark : marks) {
+                if (mark == "inactive") {
+                    f.inactive = true;
+                } else if (mark == "brace-extent") {
+                    f.brace_extent = true;
+                } else {
+                    throw corrupted(pointer +
+                                    "/marks: expected \"inactive\" or \"brace-extent\", "
+                                    "found " +
+                                    mark.dump());
+                }
+            }
+        }
         const Json& counts = member(object, "counts", pointer);
         const std::string counts_pointer = pointer + "/counts";
         if (!counts.is_object()) {

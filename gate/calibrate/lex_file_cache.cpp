@@ -25,7 +25,7 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-constexpr const char* k_format = "tollgate.lexcache/1";
+constexpr const char* k_format = "tollgate.lexcache/2";
 
 __extension__ typedef unsigned __int128 Hash128;
 
@@ -152,6 +152,8 @@ json to_json(const lexer::FileFunctions& functions) {
                         {"lexical", f.mode == lexer::ExtentMode::lexical},
                         {"potential_operands", f.potential_operands},
                         {"token_hash", f.token_hash},
+                        {"inactive", f.inactive},
+                        {"brace_extent", f.brace_extent},
                         {"tokens", tokens}});
     }
     json warnings = json::array();
@@ -180,6 +182,8 @@ lexer::FileFunctions from_json(const json& j) {
                                                 : lexer::ExtentMode::syntax_tree;
         span.potential_operands = f.at("potential_operands").get<std::uint64_t>();
         span.token_hash = f.at("token_hash").get<std::string>();
+        span.inactive = f.at("inactive").get<bool>();
+        span.brace_extent = f.at("brace_extent").get<bool>();
         for (const auto& t : f.at("tokens")) {
             core::Token token;
             token.key = t.at(0).get<std::string>();

@@ -15,6 +15,8 @@ report::MeasuredFunction measure_span(const lexer::FunctionSpan& span,
     measured.name = span.qualified_name;
     measured.signature = span.signature;
     measured.lexical = span.mode == lexer::ExtentMode::lexical;
+    measured.inactive = span.inactive;
+    measured.brace_extent = span.brace_extent;
     measured.counts = core::count_tokens(span.tokens);
     measured.measures = core::compute_measures(measured.counts, span.potential_operands, settings);
     return measured;

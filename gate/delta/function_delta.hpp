@@ -6,6 +6,7 @@
 
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace tollgate::delta {
@@ -24,28 +25,35 @@ const char* label_name(DeltaLabel label);
 
 // One side of a touched function.
 struct FunctionSide {
-    std::string path;        // repository-relative path on this side
-    unsigned start_line = 0; // first line of the definition
-    unsigned end_line = 0;   // last line of the definition
-    bool lexical = false;    // extent came from the lexical cross-check
-    std::string token_hash;  // digest of the counted tokens
-    core::Measures measures; // every measure on this side
+    std::string path;          // repository-relative path on this side
+    unsigned start_line = 0;   // first line of the definition
+    unsigned end_line = 0;     // last line of the definition
+    bool lexical = false;      // extent came from the lexical cross-check
+    bool inactive = false;     // defined in an #if branch the preprocessor skipped
+    bool brace_extent = false; // libclang's extent disagreed with brace matching: braces' taken
+    std::string token_hash;    // digest of the counted tokens
+    core::Measures measures;   // every measure on this side
 
     bool operator==(const FunctionSide& other) const {
         return path == other.path && start_line == other.start_line && end_line == other.end_line &&
                lexical == other.lexical && token_hash == other.token_hash &&
-               measures == other.measures;
+               measures == other.measures && inactive == other.inactive &&
+               brace_extent == other.brace_extent;
     }
 };
 
 // A touched function, paired across the change.
 struct FunctionDelta {
-    std::string name;                       // qualified name (head's, or base's when removed)
-    std::string signature;                  // parameter types
-    std::string identity;                   // USR, or the fallback key when there is none
-    DeltaLabel label = DeltaLabel::changed; // what happened
-    std::optional<FunctionSide> base;       // empty when added
-    std::optional<FunctionSide> head;       // empty when removed
+    std::string name;                          // qualified name (head's, or base's when removed)
+    std::string signature;                     // parameter types
+    std::string identity;                      // USR, or the fallback key when there is none
+    DeltaLabel label = DeltaLabel::changed;    // what happened
+    std::optional<FunctionSide> base;          // empty when added
+    std::optional<FunctionSide> head;          // empty when removed
+    std::optional<std::string> base_name;      // the base's qualified name when it differs from
+                                               // `name` (a namespace or class renamed)
+    std::optional<std::string> base_signature; // the base's parameter types when they differ
+                                               // from `signature` (a parameter list edited)
 
     // Return the change of measure `id`; a missing side counts as zero.
     core::Delta delta(core::MeasureId id) const;
@@ -54,7 +62,8 @@ struct FunctionDelta {
 
     bool operator==(const FunctionDelta& other) const {
         return name == other.name && signature == other.signature && identity == other.identity &&
-               label == other.label && base == other.base && head == other.head;
+               label == other.label && base == other.base && head == other.head &&
+               base_name == other.base_name && base_signature == other.base_signature;
     }
 };
 
@@ -73,6 +82,23 @@ struct ChangeWarning {
     std::string path;    // repository-relative path
     unsigned line = 0;   // 0 when not tied to a line
     std::string message; // lowercase sentence
+};
+
+// The changed lines of one C/C++ file that fall inside no measured function: file-scope code,
+// macros, declarations, or lines the front end could not attribute. Blank and comment-only
+// lines are not counted; a line edited in place counts once on each side.
+struct UnmeasuredLines {
+    std::string path;                                // head path, or base path when deleted
+    std::vector<std::pair<unsigned, unsigned>> base; // deleted lines outside every base function,
+                                                     // as inclusive ranges in base numbering
+    std::vector<std::pair<unsigned, unsigned>> head; // added lines outside every head function,
+                                                     // as inclusive ranges in head numbering
+    unsigned count = 0;                              // lines in `base` and `head` together
+
+    bool operator==(const UnmeasuredLines& other) const {
+        return path == other.path && base == other.base && head == other.head &&
+               count == other.count;
+    }
 };
 
 // Sums over a set of functions.
@@ -106,6 +132,9 @@ struct ChangeReport {
     std::vector<SkippedPath> skipped;     // changed files not measured
     std::vector<ChangeWarning> warnings;  // parser warnings on either side
     unsigned measured_files = 0;          // changed C/C++ files measured
+    std::vector<UnmeasuredLines> unmeasured; // per changed C/C++ file with changed lines outside
+                                             // every measured function, by path
+    unsigned unmeasured_lines = 0;           // the sum of their counts
 };
 
 // Sort `functions` for reports: largest effort growth first, then by path, line and name, so

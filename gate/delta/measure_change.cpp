@@ -3,9 +3,11 @@
 #include "gate/delta/measure_change.hpp"
 
 #include "gate/delta/compare.hpp"
+#include "gate/delta/unmeasured_lines.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 
+#include <algorithm>
 #include <fmt/format.h>
 #include <spdlog/spdlog.h>
 
@@ -149,6 +151,22 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
     }
     report.functions = compare_functions(sides, settings.measures);
     compute_totals(report);
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        const std::optional<SourceFile> base_file =
+            base_from_snapshot ? walker::read_side(repository, changes, file, Side::base)
+                               : base.changed[i];
+        const auto& head_file = head.changed[i];
+        UnmeasuredLines lines = unmeasured_lines(
+            file.head_path.empty() ? file.base_path : file.head_path, sides[i],
+            base_file ? &base_file->content : nullptr, head_file ? &head_file->content : nullptr);
+        if (lines.count > 0) {
+            report.unmeasured_lines += lines.count;
+            report.unmeasured.push_back(std::move(lines));
+        }
+    }
+    std::sort(report.unmeasured.begin(), report.unmeasured.end(),
+              [](const UnmeasuredLines& a, const UnmeasuredLines& b) { return a.path < b.path; });
     return report;
 }
 

@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // The Markdown delta table a reviewer reads in the merge request.
 #include "gate/report/change_report.hpp"
+#include "gate/report/marks.hpp"
 #include "gate/report/measure_table.hpp"
 
 #include <fmt/format.h>
@@ -98,12 +99,12 @@ void write_table(std::ostream& out, const ChangeReport& report, const policy::Ve
     for (std::size_t i = first; i < last; ++i) {
         const FunctionDelta& f = report.functions[i];
         const std::string rules = rules_broken_by(verdict, f);
-        out << fmt::format("| {} | {} | {} | {} | {} | {} | {} | {} |\n",
-                           delta::label_name(f.label), code_cell(f.name),
-                           location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
-                           pair_cell(f, MeasureId::difficulty, 2),
-                           pair_cell(f, MeasureId::effort, 0), growth_cell(f),
-                           rules.empty() ? std::string() : cell_text(rules));
+        out << fmt::format(
+            "| {} | {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
+            code_cell(f.name) + cell_text(function_title(f).substr(f.name.size())),
+            location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
+            pair_cell(f, MeasureId::difficulty, 2), pair_cell(f, MeasureId::effort, 0),
+            growth_cell(f), rules.empty() ? std::string() : cell_text(rules));
     }
 }
 
@@ -139,6 +140,11 @@ void write_change_markdown(std::ostream& out, const ChangeReport& report,
                                    group_thousands(top_growth.absolute));
         }
         summary += ".";
+    }
+    if (report.unmeasured_lines > 0) {
+        summary +=
+            fmt::format(" {} changed C/C++ line{} outside functions.", report.unmeasured_lines,
+                        report.unmeasured_lines == 1 ? " lies" : "s lie");
     }
     out << summary << "\n\n";
     if (!verdict.policy_change_summary.empty()) {
@@ -176,6 +182,10 @@ void write_change_markdown(std::ostream& out, const ChangeReport& report,
     }
     for (const auto& note : report.notes) {
         bullets.push_back("note: " + cell_text(note));
+    }
+    for (const auto& lines : report.unmeasured) {
+        bullets.push_back(
+            fmt::format("unmeasured `{}`: {}", lines.path, cell_text(unmeasured_text(lines))));
     }
     for (const auto& s : report.skipped) {
         bullets.push_back(fmt::format("skipped `{}` ({})", s.path, s.reason));

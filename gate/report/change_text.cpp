@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // The terminal table of a change report.
 #include "gate/report/change_report.hpp"
+#include "gate/report/marks.hpp"
 #include "gate/report/measure_table.hpp"
 
 #include <algorithm>
@@ -119,7 +120,7 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
         std::vector<std::vector<std::string>> rows;
         rows.push_back({"label", "location", "function", "V", "D", "E", "rules"});
         for (const auto& f : report.functions) {
-            rows.push_back({delta::label_name(f.label), location_of(f), f.name,
+            rows.push_back({delta::label_name(f.label), location_of(f), function_title(f),
                             change_cell(f, MeasureId::volume, 1),
                             change_cell(f, MeasureId::difficulty, 2),
                             change_cell(f, MeasureId::effort, 0), rules_broken_by(verdict, f)});
@@ -165,6 +166,9 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
                            group_thousands(t.base_effort), group_thousands(t.head_effort),
                            effort.absolute >= 0 ? "+" : "", group_thousands(effort.absolute),
                            format_percent(effort.percent));
+    }
+    for (const auto& lines : report.unmeasured) {
+        out << fmt::format("unmeasured: {}: {}\n", lines.path, unmeasured_text(lines));
     }
     write_verdict_text(out, verdict, paint);
     for (const auto& s : report.skipped) {

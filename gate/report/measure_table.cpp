@@ -2,6 +2,8 @@
 // Text and JSON renderers for per-function measures.
 #include "gate/report/measure_table.hpp"
 
+#include "gate/report/marks.hpp"
+
 #include <algorithm>
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
@@ -52,7 +54,7 @@ std::string location(const MeasuredFunction& f) {
 }
 
 std::string display_name(const MeasuredFunction& f) {
-    return f.lexical ? f.name + " [lexical]" : f.name;
+    return f.name + mark_suffix({f.lexical, f.inactive, f.brace_extent});
 }
 
 nlohmann::json measures_json(const core::Measures& m) {
@@ -72,6 +74,7 @@ nlohmann::json function_json(const MeasuredFunction& f) {
         {"function", f.name},
         {"signature", f.signature},
         {"extent", f.lexical ? "lexical" : "syntax-tree"},
+        {"marks", mark_words({f.lexical, f.inactive, f.brace_extent})},
         {"measures", measures_json(f.measures)},
     };
 }
@@ -190,8 +193,14 @@ void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& 
 void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         const std::string& source_label, const std::string& convention,
                         double stroud) {
+    std::string how;
+    for (const auto& word : mark_words({f.lexical, f.inactive, f.brace_extent})) {
+        how += word == "inactive"       ? ", inactive #if branch (lexical extent)"
+               : word == "brace-extent" ? ", extent from brace matching"
+                                        : ", lexical extent";
+    }
     out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line, f.name,
-                       f.signature, source_label, convention, f.lexical ? ", lexical extent" : "");
+                       f.signature, source_label, convention, how);
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {
         std::vector<std::pair<std::string, core::TableEntry>> rows(table.begin(), table.end());

@@ -13,14 +13,16 @@ namespace tollgate::report {
 
 // One measured function, as the reports show it.
 struct MeasuredFunction {
-    std::string path;        // repository-relative path
-    unsigned start_line = 0; // first line of the definition
-    unsigned end_line = 0;   // last line of the definition
-    std::string name;        // qualified name
-    std::string signature;   // parameter types
-    bool lexical = false;    // extent came from the lexical cross-check
-    core::Counts counts;     // per-token tables and n1, n2, N1, N2
-    core::Measures measures; // every measure
+    std::string path;          // repository-relative path
+    unsigned start_line = 0;   // first line of the definition
+    unsigned end_line = 0;     // last line of the definition
+    std::string name;          // qualified name
+    std::string signature;     // parameter types
+    bool lexical = false;      // extent came from the lexical cross-check
+    bool inactive = false;     // defined in an #if branch the preprocessor skipped
+    bool brace_extent = false; // extent taken from brace matching (the parse disagreed)
+    core::Counts counts;       // per-token tables and n1, n2, N1, N2
+    core::Measures measures;   // every measure
 };
 
 // A warning shown under the table.
