@@ -31,20 +31,21 @@ namespace tollgate {
 namespace {
 
 struct CheckOptions {
-    walker::RevisionRange range;      // --base, --head, --worktree, --default-branch
-    std::string policy_path;          // --policy
-    std::string baseline_path;        // --baseline
-    bool update_baseline = false;     // --update-baseline
-    std::vector<std::string> reports; // --report FORMAT:PATH
-    bool no_colour = false;           // --no-color
-    std::string link_template;        // --link-template
-    std::size_t markdown_rows = 10;   // --markdown-rows
-    unsigned jobs = 0;                // --jobs
-    std::string compile_commands;     // --compile-commands
-    std::string cache_dir;            // --cache-dir
-    bool no_cache = false;            // --no-pch-cache
-    double stroud = 18.0;             // --stroud
-    std::size_t rename_limit = 400;   // --rename-limit
+    walker::RevisionRange range;           // --base, --head, --worktree, --default-branch
+    std::string policy_path;               // --policy
+    std::string baseline_path;             // --baseline
+    bool update_baseline = false;          // --update-baseline
+    std::vector<std::string> reports;      // --report FORMAT:PATH
+    bool no_colour = false;                // --no-color
+    std::string link_template;             // --link-template
+    std::size_t markdown_rows = 10;        // --markdown-rows
+    unsigned jobs = 0;                     // --jobs
+    std::string compile_commands;          // --compile-commands
+    std::string cache_dir;                 // --cache-dir
+    bool no_cache = false;                 // --no-pch-cache
+    std::vector<std::string> include_dirs; // --include-dir
+    double stroud = 18.0;                  // --stroud
+    std::size_t rename_limit = 400;        // --rename-limit
 };
 
 // The baseline snapshot a check uses, if any.
@@ -125,6 +126,7 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
     const SnapshotResult result = snapshot_revision(request);
@@ -146,6 +148,7 @@ int run_check(const CheckOptions& options) {
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.compile_commands_root = repository.workdir();
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
+    settings.include_dirs = resolve_include_dirs(options.include_dirs, repository.workdir());
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
     const SelectedPolicy selected = select_policy(repository, range, options.policy_path);
@@ -233,6 +236,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "Folder for the precompiled standard-library headers");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
+    add_include_dir_option(sub, options->include_dirs);
     add_stroud_option(sub, options->stroud);
     sub.add_option("--rename-limit", options->rename_limit,
                    "Candidates compared per added file when looking for renames")

@@ -39,9 +39,11 @@ bool all_digits(const std::string& text) {
            std::all_of(text.begin(), text.end(), [](unsigned char c) { return std::isdigit(c); });
 }
 
-// Pick the function `wanted` (a name or a line number) names among `spans`.
+// Pick the function `wanted` (a name or a line number) names among `spans`; `revision` is the
+// --rev the user gave (empty for the working tree), repeated in the hint.
 const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>& spans,
-                                         const std::string& path, const std::string& wanted) {
+                                         const std::string& path, const std::string& wanted,
+                                         const std::string& revision) {
     std::vector<const lexer::FunctionSpan*> matches;
     if (all_digits(wanted)) {
         const unsigned line = static_cast<unsigned>(std::stoul(wanted));
@@ -78,10 +80,12 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             }
         }
         const std::string suggestion = closest_match(wanted, names);
-        throw UsageError(fmt::format(
-            "no function \"{}\" in \"{}\"{}", wanted, path,
-            suggestion.empty() ? " (run \"tollgate measure " + path + "\" to list its functions)"
-                               : " (did you mean \"" + suggestion + "\"?)"));
+        throw UsageError(fmt::format("no function \"{}\" in \"{}\"{}", wanted, path,
+                                     suggestion.empty()
+                                         ? " (run \"tollgate measure " +
+                                               (revision.empty() ? "" : "--rev " + revision + " ") +
+                                               path + "\" to list its functions)"
+                                         : " (did you mean \"" + suggestion + "\"?)"));
     }
     std::string candidates;
     for (const auto* span : matches) {
@@ -116,7 +120,8 @@ int run_explain(const ExplainOptions& options) {
                          " files (explain takes one file)");
     }
     const auto files = lexer::lex_files(loaded.selected, loaded.context, 1);
-    const auto& span = pick_function(files.front().functions, path, wanted);
+    const auto& span =
+        pick_function(files.front().functions, path, wanted, options.sources.revision);
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);

@@ -24,17 +24,18 @@ namespace tollgate {
 namespace {
 
 struct SnapshotOptions {
-    std::string revision = "HEAD";    // --rev
-    std::string out;                  // --out, as given on the command line
-    bool force = false;               // --force: replace a file that is not a snapshot
-    unsigned jobs = 0;                // parser threads, 0 = all cores
-    double stroud = 18.0;             // Stroud number for T
-    std::string compile_commands;     // --compile-commands
-    std::string cache_dir;            // --cache-dir
-    bool no_cache = false;            // --no-pch-cache
-    std::vector<std::string> compare; // --compare BASE HEAD
-    std::string format = "text";      // text or json, for --compare
-    std::size_t top = 10;             // grown functions listed by --compare
+    std::string revision = "HEAD";         // --rev
+    std::string out;                       // --out, as given on the command line
+    bool force = false;                    // --force: replace a file that is not a snapshot
+    unsigned jobs = 0;                     // parser threads, 0 = all cores
+    double stroud = 18.0;                  // Stroud number for T
+    std::string compile_commands;          // --compile-commands
+    std::string cache_dir;                 // --cache-dir
+    bool no_cache = false;                 // --no-pch-cache
+    std::vector<std::string> include_dirs; // --include-dir
+    std::vector<std::string> compare;      // --compare BASE HEAD
+    std::string format = "text";           // text or json, for --compare
+    std::size_t top = 10;                  // grown functions listed by --compare
     // Where the snapshot goes without --out and without a baseline.path in the revision's
     // policy, relative to the repository root. Always confined to the repository.
     std::string configured_path = baseline::k_default_snapshot_path;
@@ -82,6 +83,7 @@ int run_snapshot(const SnapshotOptions& options) {
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
     const SnapshotResult measured = snapshot_revision(request);
@@ -140,6 +142,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
                    "$XDG_CACHE_HOME/tollgate or ~/.cache/tollgate)");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
+    add_include_dir_option(sub, options->include_dirs);
     auto* compare = sub.add_option("--compare", options->compare,
                                    "Compare two snapshot files, BASE then HEAD, instead of "
                                    "writing one")

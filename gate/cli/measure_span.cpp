@@ -2,6 +2,7 @@
 // From a lexed function to its counts and measures.
 #include "gate/cli/measure_span.hpp"
 
+#include "gate/lexer/missing_headers.hpp"
 #include "tollgate/core/counts.hpp"
 
 namespace tollgate {
@@ -24,11 +25,17 @@ report::MeasuredFunction measure_span(const lexer::FunctionSpan& span,
 
 std::vector<report::SourceWarning>
 collect_warnings(const std::vector<lexer::FileFunctions>& files) {
-    std::vector<report::SourceWarning> warnings;
+    std::vector<lexer::LexWarning> all;
     for (const auto& file : files) {
-        for (const auto& w : file.warnings) {
-            warnings.push_back({w.path, w.line, w.message});
-        }
+        all.insert(all.end(), file.warnings.begin(), file.warnings.end());
+    }
+    const lexer::WarningSummary summary = lexer::summarise_missing_headers(all);
+    std::vector<report::SourceWarning> warnings;
+    for (const auto& w : summary.warnings) {
+        warnings.push_back({w.path, w.line, w.message});
+    }
+    if (summary.headers_missing) {
+        warnings.push_back({"", 0, lexer::include_folder_hint()}); // said once, as a note
     }
     return warnings;
 }

@@ -16,6 +16,7 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.compile_commands = request.compile_commands;
     sources.cache_dir = request.cache_dir;
     sources.no_cache = request.no_cache;
+    sources.include_dirs = request.include_dirs;
     const LoadedSources loaded = load_sources(sources);
     const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs);
 

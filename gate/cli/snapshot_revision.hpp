@@ -7,6 +7,7 @@
 
 #include <cstddef>
 #include <string>
+#include <vector>
 
 namespace tollgate {
 
@@ -18,6 +19,7 @@ struct SnapshotRequest {
     bool no_cache = false;        // parse without the precompiled-header cache
     unsigned jobs = 0;            // parser threads, 0 = all cores
     double stroud = 18.0;         // Stroud number for T
+    std::vector<std::string> include_dirs; // --include-dir folders, as given
 };
 
 // The snapshot with what a summary line needs.

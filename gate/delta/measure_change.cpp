@@ -6,6 +6,7 @@
 #include "gate/delta/unmeasured_lines.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
+#include "gate/lexer/missing_headers.hpp"
 
 #include <algorithm>
 #include <fmt/format.h>
@@ -44,6 +45,7 @@ SideSources read_side_sources(const walker::Repository& repository,
     }
     sources.context = lexer::make_parse_context(sources.tree, settings.compile_commands_json,
                                                 settings.compile_commands_root);
+    lexer::add_include_dirs(sources.context, sources.tree, settings.include_dirs);
     sources.context.convention = settings.convention;
     sources.context.cache_dir = settings.cache_dir;
     return sources;
@@ -141,13 +143,25 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
             sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
         }
     }
+    std::vector<lexer::LexWarning> base_warnings, head_warnings;
     for (std::size_t j = 0; j < lexed.size(); ++j) {
         const auto [index, side] = job_owner[j];
         (side == Side::base ? sides[index].base : sides[index].head) = side_functions(&lexed[j]);
-        for (const auto& w : lexed[j].warnings) {
+        auto& warnings = side == Side::base ? base_warnings : head_warnings;
+        warnings.insert(warnings.end(), lexed[j].warnings.begin(), lexed[j].warnings.end());
+    }
+    bool headers_missing = false;
+    for (const auto side : {Side::base, Side::head}) {
+        const auto summary =
+            lexer::summarise_missing_headers(side == Side::base ? base_warnings : head_warnings);
+        headers_missing = headers_missing || summary.headers_missing;
+        for (const auto& w : summary.warnings) {
             report.warnings.push_back(
                 {side == Side::base ? "base" : "head", w.path, w.line, w.message});
         }
+    }
+    if (headers_missing) {
+        report.notes.push_back(lexer::include_folder_hint());
     }
     report.functions = compare_functions(sides, settings.measures);
     compute_totals(report);

@@ -13,19 +13,22 @@
 
 #include <optional>
 #include <string>
+#include <vector>
 
 namespace tollgate::delta {
 
 // Settings of the measuring pipeline.
 struct MeasureChangeSettings {
-    core::MeasureSettings measures;       // Stroud number
-    core::Convention convention;          // counting convention switches
-    std::string compile_commands_json;    // text of a compile_commands.json, or empty
-    std::string compile_commands_root;    // absolute folder its paths are relative to
-    std::string cache_dir;                // precompiled-header cache; empty disables it
-    unsigned jobs = 0;                    // parser threads, 0 = all cores
-    lexer::LexCache* lex_cache = nullptr; // lexed files to reuse and to keep (not owned);
-                                          // null parses every file
+    core::MeasureSettings measures;        // Stroud number
+    core::Convention convention;           // counting convention switches
+    std::string compile_commands_json;     // text of a compile_commands.json, or empty
+    std::string compile_commands_root;     // absolute folder its paths are relative to
+    std::string cache_dir;                 // precompiled-header cache; empty disables it
+    std::vector<std::string> include_dirs; // -I folders for files without compile-database
+                                           // flags, as lexer::add_include_dirs takes them
+    unsigned jobs = 0;                     // parser threads, 0 = all cores
+    lexer::LexCache* lex_cache = nullptr;  // lexed files to reuse and to keep (not owned);
+                                           // null parses every file
     const baseline::Snapshot* base_snapshot = nullptr; // a snapshot of the base commit: its
                                                        // measures replace parsing the base side;
                                                        // ignored when its commit is not the base

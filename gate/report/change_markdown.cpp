@@ -59,6 +59,13 @@ std::string code_cell(const std::string& text) {
     return "`" + escaped + "`";
 }
 
+// The function's name in a code span, its base identity when that changed, then its marks.
+std::string function_cell(const FunctionDelta& f) {
+    const std::string base = base_identity(f);
+    return code_cell(head_identity(f)) + (base.empty() ? "" : " (base: " + code_cell(base) + ")") +
+           cell_text(marks_text(f));
+}
+
 std::string pair_cell(const FunctionDelta& f, MeasureId id, int decimals) {
     const auto value = [&](const std::optional<delta::FunctionSide>& side) {
         if (!side) {
@@ -101,8 +108,7 @@ void write_table(std::ostream& out, const ChangeReport& report, const policy::Ve
         const std::string rules = rules_broken_by(verdict, f);
         out << fmt::format(
             "| {} | {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
-            code_cell(f.name) + cell_text(function_title(f).substr(f.name.size())),
-            location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
+            function_cell(f), location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
             pair_cell(f, MeasureId::difficulty, 2), pair_cell(f, MeasureId::effort, 0),
             growth_cell(f), rules.empty() ? std::string() : cell_text(rules));
     }

@@ -48,24 +48,29 @@ std::vector<std::string> base_only_marks(const delta::FunctionDelta& f) {
     return only;
 }
 
-std::string function_title(const delta::FunctionDelta& f) {
-    std::string title = f.name;
-    if (f.base_name || f.base_signature) {
-        if (f.base_signature) {
-            title += "(" + f.signature + ")";
-        }
-        title += " (base: " + f.base_name.value_or(f.name);
-        if (f.base_signature) {
-            title += "(" + *f.base_signature + ")";
-        }
-        title += ")";
+std::string head_identity(const delta::FunctionDelta& f) {
+    return f.base_signature ? f.name + "(" + f.signature + ")" : f.name;
+}
+
+std::string base_identity(const delta::FunctionDelta& f) {
+    if (!f.base_name && !f.base_signature) {
+        return {};
     }
-    title += mark_suffix(marks_of(f.shown_side()));
+    return f.base_name.value_or(f.name) + "(" + f.base_signature.value_or(f.signature) + ")";
+}
+
+std::string marks_text(const delta::FunctionDelta& f) {
+    std::string text = mark_suffix(marks_of(f.shown_side()));
     for (std::string word : base_only_marks(f)) {
         std::replace(word.begin(), word.end(), '-', ' ');
-        title += " [base: " + word + "]";
+        text += " [base: " + word + "]";
     }
-    return title;
+    return text;
+}
+
+std::string function_title(const delta::FunctionDelta& f) {
+    const std::string base = base_identity(f);
+    return head_identity(f) + (base.empty() ? "" : " (base: " + base + ")") + marks_text(f);
 }
 
 namespace {

@@ -29,9 +29,18 @@ std::string mark_suffix(const FunctionMarks& marks);
 // Return the marks of one side of a touched function.
 FunctionMarks marks_of(const delta::FunctionSide& side);
 
-// Return what a reviewer reads for `f` in a table: its name; when its name or signature changed,
-// "(signature)" after it and " (base: NAME(SIGNATURE))"; then the marks of the side shown
-// (head, or base when removed), and " [base: WORD]" for a mark only the base side has.
+// Return `f`'s name, with "(signature)" after it when the signature changed.
+std::string head_identity(const delta::FunctionDelta& f);
+
+// Return the base side's "NAME(SIGNATURE)" when `f`'s name or signature changed, else empty.
+std::string base_identity(const delta::FunctionDelta& f);
+
+// Return the marks text after a function: those of the side shown (head, or base when removed),
+// then " [base: WORD]" for each mark only the base side has; empty when none.
+std::string marks_text(const delta::FunctionDelta& f);
+
+// Return what a reviewer reads for `f` in a table: head_identity, " (base: " base_identity ")"
+// when the identity changed, then marks_text.
 std::string function_title(const delta::FunctionDelta& f);
 
 // Return the base side's marks that the head side lacks, as JSON words (empty when none or when

@@ -153,7 +153,9 @@ void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& 
         write_row(fmt::format("total ({} functions)", functions.size()), "", total_row);
     }
     for (const auto& w : warnings) {
-        if (w.line > 0) {
+        if (w.path.empty()) {
+            out << "note: " << w.message << "\n";
+        } else if (w.line > 0) {
             out << fmt::format("warning: {}:{}: {}\n", w.path, w.line, w.message);
         } else {
             out << fmt::format("warning: {}: {}\n", w.path, w.message);

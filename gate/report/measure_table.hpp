@@ -27,7 +27,7 @@ struct MeasuredFunction {
 
 // A warning shown under the table.
 struct SourceWarning {
-    std::string path;    // repository-relative path
+    std::string path;    // repository-relative path; empty for a note about the whole run
     unsigned line = 0;   // 0 when not tied to a line
     std::string message; // lowercase sentence
 };
