@@ -7,7 +7,7 @@
 namespace tollgate::core {
 
 // The name and version of the default counting convention.
-inline constexpr const char* k_convention_name = "c-family/1";
+inline constexpr const char* k_convention_name = "c-family/2";
 
 // Switches of the convention. Each switch that differs from the default changes the fingerprint.
 struct Convention {
@@ -21,7 +21,7 @@ struct Convention {
     }
 };
 
-// Return the fingerprint of `convention`: "c-family/1" for the default, followed by
+// Return the fingerprint of `convention`: "c-family/2" for the default, followed by
 // "+name-operand", "+body-only", "+merged-forms" for each switch that is on.
 std::string fingerprint(const Convention& convention);
 
