@@ -554,22 +554,30 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                                                 const std::vector<DirectiveMark>& directives) {
     std::vector<LexicalDefinition> found;
     ScanState state;
-    std::vector<ScanState> saved; // the state at each open #if, restored by #else / #elif
+    std::vector<ScanState> saved;      // the state at each open #if, restored by #else / #elif
+    std::vector<std::size_t> saved_at; // the first token after each open #if
     std::size_t next_directive = 0;
     for (std::size_t i = 0; i < tokens.size(); ++i) {
         while (next_directive < directives.size() && directives[next_directive].before <= i) {
             switch (directives[next_directive].kind) {
             case DirectiveKind::open_condition:
                 saved.push_back(state);
+                saved_at.push_back(directives[next_directive].before);
                 break;
             case DirectiveKind::alternative:
                 if (!saved.empty()) {
                     state = saved.back();
+                    // A branch that opened at a statement boundary starts its own statement: a
+                    // declaration of the #else branch does not begin in the #if branch.
+                    if (state.statement_start == saved_at.back()) {
+                        state.statement_start = directives[next_directive].before;
+                    }
                 }
                 break;
             case DirectiveKind::close_condition:
                 if (!saved.empty()) {
                     saved.pop_back();
+                    saved_at.pop_back();
                 }
                 break;
             case DirectiveKind::other:
