@@ -93,7 +93,10 @@ FunctionDelta make_delta(const Candidate* base, const Candidate* head, PairPlace
         delta.label = DeltaLabel::added;
     } else if (!head) {
         delta.label = DeltaLabel::removed;
-    } else if (place != PairPlace::same_file ||
+    } else if (place == PairPlace::other_file ||
+               (place == PairPlace::other_scope &&
+                (base->span->path() != head->span->path() ||
+                 base->span->qualified_name() != head->span->qualified_name())) ||
                (base->whole && head->whole &&
                 base->span->start_line() != head->span->start_line())) {
         delta.label = DeltaLabel::moved;
