@@ -694,10 +694,11 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         item.span.brace_extent = std::find(braced_definitions.begin(), braced_definitions.end(),
                                            definition.body_close) != braced_definitions.end();
         item.range = {definition.first, definition.body_close, definition.name};
-        ++result.lexically_recovered;
+        if (!inactive) {
+            ++result.lexically_recovered;
+        }
         if (inactive || item.span.brace_extent) {
-            result.lexically_recovered -= inactive ? 1 : 0;
-            pending.push_back(std::move(item)); // warned about above, or expected
+            pending.push_back(std::move(item)); // expected, or warned about above
             continue;
         }
         result.warnings.push_back(
