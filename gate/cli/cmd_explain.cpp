@@ -53,6 +53,14 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             }
         }
     } else {
+        // A name made by a test macro holds parentheses itself: "TEST(Suite, Name)".
+        for (const auto& span : spans) {
+            if (name_matches(span.qualified_name, wanted)) {
+                matches.push_back(&span);
+            }
+        }
+    }
+    if (matches.empty() && !all_digits(wanted)) {
         std::string name = wanted;
         const auto paren = name.find('(');
         std::string signature;

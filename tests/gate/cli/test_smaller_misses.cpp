@@ -160,3 +160,19 @@ TEST_CASE("check refuses a baseline measured under convention c-family/1", "[che
                         "this run counts \"c-family/2\" (rebuild it: tollgate snapshot --rev " +
                             base.substr(0, 7) + " --out snap.json)\n");
 }
+
+TEST_CASE("explain finds a test-macro function by the name reports show", "[explain]") {
+    TempDir dir;
+    dir.write("macros.hpp", "#define TEST(s, n) class s##_##n##_Test { void TestBody(); }; "
+                            "void s##_##n##_Test::TestBody()\n");
+    dir.write("codec_test.cpp", "#include \"macros.hpp\"\n"
+                                "TEST(Codec, Roundtrip) {\n"
+                                "    int x = 1;\n"
+                                "}\n");
+    const auto result = run_tollgate(
+        "explain --no-pch-cache " + shell_quote("codec_test.cpp:TEST(Codec, Roundtrip)"),
+        dir.path());
+    INFO(result.err);
+    CHECK(result.exit_code == 0);
+    CHECK(result.out.rfind("codec_test.cpp:2-4  TEST(Codec, Roundtrip)()", 0) == 0);
+}
