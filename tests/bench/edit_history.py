@@ -7,10 +7,11 @@ files (seeded, so the same tree gives the same history).
 Usage: edit_history.py SOURCE_TREE REPO [COMMITS] [SEED]
 
 The edits are found in the text alone (no parser is asked where functions are): a statement
-added or deleted in an indented block, a return value edited, comments reworded, a region's
-indentation changed, a function moved under `#if 0`, a parameter type edited, a namespace
-renamed, a macro definition edited, a function appended or removed (a block from a line at
-column 0 that ends in "{" to the next line "}"), and a test appended to a test file.
+added or deleted in an indented block (also in a Windows-only #if branch, inactive on Linux),
+a return value edited, comments reworded, a region's indentation changed, a function moved under
+`#if 0`, a parameter type edited, a namespace renamed, a macro definition edited, a function
+appended or removed (a block from a line at column 0 that ends in "{" to the next line "}"), and a
+test appended to a test file.
 """
 
 import os
@@ -92,6 +93,29 @@ def edit_return(lines, rng):
         return False
     i = rng.choice(spots)
     lines[i] = lines[i].replace("return ", "return !!(", 1).replace(";", ");", 1)
+    return True
+
+
+def edit_inactive(lines, rng):
+    """Add a statement inside a Windows-only branch (inactive when building on Linux)."""
+    stack = []
+    spots = []
+    for i, line in enumerate(lines):
+        text = line.strip()
+        if text.startswith("#if"):
+            windows = bool(re.search(r"GTEST_OS_WINDOWS|_MSC_VER|_WIN32", text))
+            stack.append(windows and "!" not in text and not text.startswith("#ifndef"))
+        elif text.startswith(("#else", "#elif")) and stack:
+            stack[-1] = False
+        elif text.startswith("#endif") and stack:
+            stack.pop()
+        elif any(stack) and re.match(r"^ {2,}\S.*;\s*$", line) and "return" not in line:
+            spots.append(i)
+    if not spots:
+        return False
+    i = rng.choice(spots)
+    indent = re.match(r"^ *", lines[i]).group(0)
+    lines.insert(i + 1, indent + "static_cast<void>(0);  // scratch edit, Windows only")
     return True
 
 
@@ -181,7 +205,7 @@ def append_test(lines, rng):
 
 EDITS = [add_statement, delete_statement, edit_return, reword_comment, reindent,
          disable_function, edit_parameter, rename_namespace, edit_macro, append_function,
-         remove_function, append_test]
+         remove_function, append_test, edit_inactive]
 
 
 def main():
@@ -200,7 +224,7 @@ def main():
     for n in range(commits):
         edit = EDITS[n % len(EDITS)]
         changed = []
-        wanted = rng.randint(1, 4)
+        wanted = rng.randint(1, 6)
         for path in rng.sample(files, len(files)):
             if len(changed) == wanted:
                 break
