@@ -37,6 +37,19 @@ while [ $# -gt 0 ]; do
     esac
 done
 
+# Revisions come from the CI system (a pull request's branch name may be anyone's choice): one
+# that begins with "-" would be read as an option by git, so it is refused, and every git call
+# below ends its options with --end-of-options before a value from outside.
+for value in "$base" "$head"; do
+    case $value in
+    -*)
+        echo "tollgate-gate: error: revision \"$value\" begins with \"-\" (give a commit id or a" \
+            "branch name)" >&2
+        exit 2
+        ;;
+    esac
+done
+
 if ! command -v "$tollgate" >/dev/null 2>&1; then
     echo "tollgate-gate: error: cannot run \"$tollgate\" (install the tollgate .deb with" \
         "\"apt-get install ./tollgate_*.deb\", or set TOLLGATE)" >&2
@@ -53,20 +66,20 @@ if [ "$fetch" != no ]; then
     if [ "$(git rev-parse --is-shallow-repository)" = true ]; then
         git fetch --quiet --unshallow || echo "tollgate-gate: warning: git fetch --unshallow failed" >&2
     fi
-    if [ -n "$base" ] && ! git cat-file -e "$base^{commit}" 2>/dev/null; then
-        git fetch --quiet origin "$base" ||
+    if [ -n "$base" ] && ! git cat-file -e --end-of-options "$base^{commit}" 2>/dev/null; then
+        git fetch --quiet --end-of-options origin "$base" ||
             echo "tollgate-gate: warning: cannot fetch base \"$base\"" >&2
     fi
 fi
 
 mkdir -p "$out"
-args=(check --head "$head"
+args=(check "--head=$head"
     --report "markdown:$out/tollgate.md"
     --report "sarif:$out/tollgate.sarif"
     --report "json:$out/tollgate.json"
     --report text:-)
 if [ -n "$base" ]; then
-    args+=(--base "$base")
+    args+=("--base=$base")
 fi
 "$tollgate" "${args[@]}" "${extra[@]}"
 code=$?

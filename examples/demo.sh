@@ -1,8 +1,9 @@
 #!/usr/bin/env bash
 # SPDX-License-Identifier: MIT
 # Build Tollgate (installing missing Debian packages), build the invented "skyline-sensors" demo
-# repository in a temporary folder, and gate its two pull requests: one the policy blocks, one it
-# passes. Keep the repository with TOLLGATE_DEMO_KEEP=1.
+# repository in a temporary folder, and gate its three pull requests: two the policy blocks (one
+# in the C++ firmware, one in the Java ground station), one it passes. Keep the repository with
+# TOLLGATE_DEMO_KEEP=1.
 set -euo pipefail
 root="$(cd "$(dirname "$0")/.." && pwd)"
 bash "$root/.ci/build" >/dev/null
@@ -30,6 +31,7 @@ echo "== the demo repository: $(git log --oneline --all | wc -l) commits, policy
 git log --oneline --graph --all
 gate filter-outliers "outlier handling written into the filter's update step"
 gate crc-simplify "the CRC's inner branch folded into one expression"
+gate decoder-resync "Java: resynchronisation written into the ground station's frame decoder"
 
 echo
 if [ "${TOLLGATE_DEMO_KEEP:-0}" != 1 ]; then
@@ -39,4 +41,5 @@ else
 fi
 echo "  $tollgate explain --rev filter-outliers src/fusion_filter.cpp:FusionFilter::update"
 echo "  $tollgate check --base main --head filter-outliers --report markdown:-"
+echo "  $tollgate explain --rev decoder-resync ground/src/com/skyline/ground/FrameDecoder.java:decode"
 echo "  $tollgate policy"

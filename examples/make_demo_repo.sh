@@ -1,9 +1,11 @@
 #!/usr/bin/env bash
 # SPDX-License-Identifier: MIT
-# Build the demo repository (invented: the "skyline-sensors" firmware library) in DIR: a main
-# branch with the library and its .tollgate.yaml, then two pull-request branches:
+# Build the demo repository (invented: the "skyline-sensors" firmware library and the Java
+# ground-station service that decodes its telemetry) in DIR: a main branch with both and its
+# .tollgate.yaml, then three pull-request branches:
 #   filter-outliers  bloats FusionFilter::update with outlier handling (the policy blocks it)
 #   crc-simplify     folds the CRC's inner if/else into one expression (the policy passes it)
+#   decoder-resync   writes frame resynchronisation into FrameDecoder.decode (Java; blocked)
 # Usage: make_demo_repo.sh DIR   (DIR must not exist or be empty)
 set -euo pipefail
 
@@ -30,7 +32,7 @@ commit() {
 }
 
 git init -q -b main .
-cp -R "$sources/include" "$sources/src" .
+cp -R "$sources/include" "$sources/src" "$sources/ground" .
 cat > .tollgate.yaml <<'EOF'
 # The skyline-sensors team's gate (demo): changed functions may not grow much harder to read.
 tollgate-policy: 1
@@ -53,9 +55,9 @@ rules:
     level: warning
 
 paths:
-  include: ["src/**", "include/**"]
+  include: ["src/**", "include/**", "ground/**"]   # C/C++ firmware and the Java ground station
 EOF
-commit 1 "skyline-sensors: ring buffer, CRC-16, unit conversions, altitude filter"
+commit 1 "skyline-sensors: ring buffer, CRC-16, unit conversions, altitude filter, ground decoder"
 
 # Pull request 1: outlier handling written straight into the update step.
 git checkout -q -b filter-outliers main
@@ -124,5 +126,46 @@ source.write_text(source.read_text().replace(
 EOF
 commit 3 "crc16: one expression for the polynomial step"
 
+# Pull request 3 (Java): resynchronisation on a lost sync byte, written into the decoder.
+git checkout -q -b decoder-resync main
+python3 - <<'EOF'
+import pathlib
+source = pathlib.Path("ground/src/com/skyline/ground/FrameDecoder.java")
+source.write_text(source.read_text().replace(
+"""    public Optional<Sample> decode(byte[] frame) {
+        if (frame.length < 4 || (frame[0] & 0xFF) != SYNC) {
+            rejected++;
+            return Optional.empty();
+        }
+        int length = frame[1] & 0xFF;""",
+"""    public Optional<Sample> decode(byte[] frame) {
+        int start = 0;
+        while (start < frame.length && (frame[start] & 0xFF) != SYNC) {
+            start++;
+        }
+        if (start > 0) {
+            if (start + 4 > frame.length) {
+                rejected++;
+                return Optional.empty();
+            }
+            byte[] shifted = new byte[frame.length - start];
+            for (int i = 0; i < shifted.length; i++) {
+                shifted[i] = frame[start + i];
+            }
+            frame = shifted;
+        }
+        if (frame.length < 4 || (frame[0] & 0xFF) != SYNC) {
+            rejected++;
+            return Optional.empty();
+        }
+        int length = frame[1] & 0xFF;
+        if (2 + length + 2 > frame.length) {
+            rejected = rejected + (frame.length > 2 ? 1 : 2);
+            return Optional.empty();
+        }"""))
+EOF
+commit 4 "ground: resynchronise on a lost sync byte, reject short frames"
+
 git checkout -q main
-echo "make_demo_repo: built $(pwd): main, filter-outliers (blocked), crc-simplify (passes)" >&2
+echo "make_demo_repo: built $(pwd): main, filter-outliers (blocked), crc-simplify (passes)," \
+    "decoder-resync (blocked)" >&2

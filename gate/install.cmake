@@ -21,9 +21,9 @@ set(CPACK_PACKAGING_INSTALL_PREFIX /usr)
 set(CPACK_DEBIAN_FILE_NAME DEB-DEFAULT)
 set(CPACK_DEBIAN_PACKAGE_SECTION devel)
 set(CPACK_DEBIAN_PACKAGE_DEPENDS
-    "libclang1-14, libclang-common-14-dev, libgit2-1.5, libyaml-cpp0.7, libspdlog1.10, libfmt9, libstdc++6 (>= 12), libgcc-s1, libc6 (>= 2.34)")
+    "libclang1-14, libclang-common-14-dev, libgit2-1.5, libtree-sitter0, libyaml-cpp0.7, libspdlog1.10, libfmt9, libcurl4, ca-certificates, libstdc++6 (>= 12), libgcc-s1, libc6 (>= 2.34)")
 set(CPACK_DEBIAN_PACKAGE_RECOMMENDS "git, libstdc++-12-dev")
 set(CPACK_DEBIAN_PACKAGE_DESCRIPTION
-    "${PROJECT_DESCRIPTION}\n Tollgate finds the C/C++ functions a change touched between two commits,\n measures each before and after with Halstead's measures and judges the\n growth with the team's policy. Ships ready policies, CI templates and a\n pre-push hook.")
+    "${PROJECT_DESCRIPTION}\n Tollgate finds the C, C++ and Java functions a change touched between two commits,\n measures each before and after with Halstead's measures and judges the\n growth with the team's policy. Ships ready policies, CI templates and a\n pre-push hook.")
 set(CPACK_STRIP_FILES ON)
 include(CPack)

@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// The counting convention c-family/1, rule by rule (see core/README.md).
+// The counting convention c-family/2, rule by rule (see core/README.md).
 #include "tollgate/core/classify.hpp"
 
 #include <array>
@@ -197,6 +197,10 @@ std::optional<Token> classify_token(const RawToken& raw, const Convention& conve
         case NameKind::namespace_name:
             token.role = Role::operator_token;
             token.form = "namespace name";
+            break;
+        case NameKind::annotation:
+            token.role = Role::operator_token;
+            token.form = "annotation";
             break;
         case NameKind::defined:
             token.role =

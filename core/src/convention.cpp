@@ -4,16 +4,35 @@
 
 namespace tollgate::core {
 
-std::string fingerprint(const Convention& convention) {
-    std::string result = k_convention_name;
+namespace {
+
+std::string with_switches(std::string name, const Convention& convention) {
     if (convention.function_name_as_operand) {
-        result += "+name-operand";
+        name += "+name-operand";
     }
     if (convention.body_only) {
-        result += "+body-only";
+        name += "+body-only";
     }
     if (convention.merge_unary_binary) {
-        result += "+merged-forms";
+        name += "+merged-forms";
+    }
+    return name;
+}
+
+} // namespace
+
+std::string fingerprint(const Convention& convention) {
+    return with_switches(k_convention_name, convention);
+}
+
+std::string java_fingerprint(const Convention& convention) {
+    return with_switches(k_java_convention_name, convention);
+}
+
+std::string combined_fingerprint(const Convention& convention, bool with_java) {
+    std::string result = fingerprint(convention);
+    if (with_java) {
+        result += ", " + java_fingerprint(convention);
     }
     return result;
 }

@@ -2,6 +2,8 @@
 // Comparing two snapshots: pairing functions, growth by effort, totals per top folder.
 #include "gate/baseline/snapshot_trend.hpp"
 
+#include "gate/common/text_safety.hpp"
+
 #include <algorithm>
 #include <cmath>
 #include <fmt/format.h>
@@ -205,11 +207,16 @@ SnapshotTrend compare_snapshots(const Snapshot& base, const Snapshot& head) {
 }
 
 void write_trend_text(std::ostream& out, const SnapshotTrend& trend, std::size_t top) {
-    out << fmt::format("snapshot trend under convention \"{}\"\n", trend.convention);
-    out << fmt::format("  base {} ({}), {} functions\n", trend.base_commit.substr(0, 7),
-                       trend.base_created, trend.total.base_functions);
-    out << fmt::format("  head {} ({}), {} functions\n", trend.head_commit.substr(0, 7),
-                       trend.head_created, trend.total.head_functions);
+    // Snapshot files are read as they are: every text from them is made visible.
+    using text::terminal_text;
+    out << terminal_text(fmt::format("snapshot trend under convention \"{}\"", trend.convention))
+        << "\n";
+    out << terminal_text(fmt::format("  base {} ({}), {} functions", trend.base_commit.substr(0, 7),
+                                     trend.base_created, trend.total.base_functions))
+        << "\n";
+    out << terminal_text(fmt::format("  head {} ({}), {} functions", trend.head_commit.substr(0, 7),
+                                     trend.head_created, trend.total.head_functions))
+        << "\n";
     out << fmt::format("  {} in both ({} grew, {} shrank, {} unchanged in effort), {} added, "
                        "{} removed\n",
                        trend.matched, trend.grew, trend.shrank, trend.unchanged, trend.added,
@@ -226,10 +233,10 @@ void write_trend_text(std::ostream& out, const SnapshotTrend& trend, std::size_t
             {"function", "location", "effort base", "effort head", "change", "%"}};
         for (std::size_t i = 0; i < shown; ++i) {
             const FunctionGrowth& g = trend.growth[i];
-            rows.push_back({g.qualified_name + "(" + g.signature + ")",
-                            fmt::format("{}:{}", g.path, g.head_line), amount(g.effort.base, 0),
-                            amount(g.effort.head, 0), amount(g.effort.absolute, 0, true),
-                            percent_text(g.effort)});
+            rows.push_back({terminal_text(g.qualified_name + "(" + g.signature + ")"),
+                            terminal_text(fmt::format("{}:{}", g.path, g.head_line)),
+                            amount(g.effort.base, 0), amount(g.effort.head, 0),
+                            amount(g.effort.absolute, 0, true), percent_text(g.effort)});
         }
         write_table(out, rows, 2);
     }
@@ -239,11 +246,11 @@ void write_trend_text(std::ostream& out, const SnapshotTrend& trend, std::size_t
                                                    "volume head", "change", "effort base",
                                                    "effort head", "change", "%"}};
     auto add_row = [&rows](const FolderTotals& f) {
-        rows.push_back({f.folder, fmt::format("{} -> {}", f.base_functions, f.head_functions),
-                        amount(f.volume.base, 1), amount(f.volume.head, 1),
-                        amount(f.volume.absolute, 1, true), amount(f.effort.base, 0),
-                        amount(f.effort.head, 0), amount(f.effort.absolute, 0, true),
-                        percent_text(f.effort)});
+        rows.push_back(
+            {terminal_text(f.folder), fmt::format("{} -> {}", f.base_functions, f.head_functions),
+             amount(f.volume.base, 1), amount(f.volume.head, 1), amount(f.volume.absolute, 1, true),
+             amount(f.effort.base, 0), amount(f.effort.head, 0), amount(f.effort.absolute, 0, true),
+             percent_text(f.effort)});
     };
     for (const auto& f : trend.folders) {
         add_row(f);
@@ -282,7 +289,7 @@ void write_trend_json(std::ostream& out, const SnapshotTrend& trend, std::size_t
         {"folders", std::move(folders)},
         {"total", folder_json(trend.total)},
     };
-    out << document.dump(2, ' ', false, Json::error_handler_t::replace) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 } // namespace tollgate::baseline

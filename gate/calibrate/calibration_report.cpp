@@ -2,6 +2,7 @@
 // Text, JSON and HTML views of a calibration; every number comes from the Calibration value.
 #include "gate/calibrate/calibration_report.hpp"
 
+#include "gate/common/text_safety.hpp"
 #include "gate/delta/function_delta.hpp"
 
 #include <algorithm>
@@ -13,17 +14,11 @@ namespace tollgate::calibrate {
 
 namespace {
 
+using text::terminal_text;
+
 // Cut a commit subject for one terminal line (the JSON and HTML keep it whole).
 std::string short_subject(const std::string& subject) {
-    constexpr std::size_t k_limit = 60;
-    if (subject.size() <= k_limit) {
-        return subject;
-    }
-    std::size_t cut = k_limit - 3;
-    while (cut > 0 && (static_cast<unsigned char>(subject[cut]) & 0xC0) == 0x80) {
-        --cut; // never split a UTF-8 sequence
-    }
-    return subject.substr(0, cut) + "...";
+    return text::clip(terminal_text(subject), 60);
 }
 
 using nlohmann::json;
@@ -73,9 +68,9 @@ std::string header_line(const Calibration& c) {
 
 void write_calibration_text(std::ostream& out, const Calibration& c) {
     const Replay& r = *c.replay;
-    out << "tollgate calibrate: " << header_line(c) << "\n";
+    out << "tollgate calibrate: " << terminal_text(header_line(c)) << "\n";
     for (const auto& note : r.notes) {
-        out << "note: " << note << "\n";
+        out << "note: " << terminal_text(note) << "\n";
     }
     out << "percentiles: linear interpolation between closest ranks; changed functions counted "
            "with zero and negative changes\n";
@@ -112,17 +107,17 @@ void write_calibration_text(std::ostream& out, const Calibration& c) {
                 const auto& commit = r.commits[s.commit].commit;
                 out << fmt::format("    {}{}  {} {}  {}\n", number(s.value), v.unit,
                                    commit.id.short_hex(), short_subject(commit.subject),
-                                   function_place(function_of(r, s)));
+                                   terminal_text(function_place(function_of(r, s))));
             }
         }
     }
     if (c.what_if) {
         const auto& w = *c.what_if;
-        out << "\n== what if: " << w.policy_origin << " ==\n";
+        out << "\n== what if: " << terminal_text(w.policy_origin) << " ==\n";
         out << fmt::format("{} of {} commits blocked, {} passed with warnings\n", w.blocked,
                            w.judged, w.warned);
         for (const auto& [rule, count] : w.rule_commits) {
-            out << fmt::format("  rule \"{}\": {} commits\n", rule, count);
+            out << fmt::format("  rule \"{}\": {} commits\n", terminal_text(rule), count);
         }
         for (const auto& j : w.flagged) {
             const auto& commit = r.commits[j.commit].commit;
@@ -132,7 +127,7 @@ void write_calibration_text(std::ostream& out, const Calibration& c) {
             }
             out << fmt::format("  {} {:<8} {}  ({})\n", commit.id.short_hex(),
                                j.outcome == policy::Outcome::blocked ? "blocked" : "warned",
-                               short_subject(commit.subject), rules);
+                               short_subject(commit.subject), terminal_text(rules));
         }
     }
 }
@@ -220,33 +215,22 @@ void write_calibration_json(std::ostream& out, const Calibration& c) {
                           {"blocked", w.blocked},      {"warned", w.warned},
                           {"rules", w.rule_commits},   {"flagged", flagged}};
     }
-    out << doc.dump(2) << "\n";
+    out << text::dump_json(doc, 2) << "\n";
 }
 
 namespace {
 
+// Every text on the page, ours or the history's, goes through one HTML escape.
 std::string escape(const std::string& text) {
-    std::string out;
-    for (char ch : text) {
-        switch (ch) {
-        case '&':
-            out += "&amp;";
-            break;
-        case '<':
-            out += "&lt;";
-            break;
-        case '>':
-            out += "&gt;";
-            break;
-        case '"':
-            out += "&quot;";
-            break;
-        default:
-            out += ch;
-        }
-    }
-    return out;
+    return text::html_text(text);
 }
+
+// The chart palette: Okabe, M. and Ito, K., "Color Universal Design (CUD): how to make figures
+// and presentations that are friendly to colorblind people", 2008 (hex values from memory):
+// blue for the bins, vermillion for the overflow bin, told apart by hue and lightness under
+// red-green colour blindness, and each also marked in words (the ">" label and the legend).
+constexpr const char* k_bin_colour = "#0072B2";      // Okabe-Ito blue
+constexpr const char* k_overflow_colour = "#D55E00"; // Okabe-Ito vermillion
 
 std::string svg_histogram(const Series& series, const std::string& id, const char* unit) {
     constexpr int k_width = 640, k_height = 200, k_bottom = 40, k_left = 40;
@@ -274,7 +258,7 @@ std::string svg_histogram(const Series& series, const std::string& id, const cha
         svg += fmt::format("<rect class=\"bar\" x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" "
                            "fill=\"{}\" data-count=\"{}\"><title>{}: {}</title></rect>",
                            x + 1, k_height - h, bar_width - 2, h,
-                           b.overflow ? "#c0504d" : "#4f81bd", b.count, label, b.count);
+                           b.overflow ? k_overflow_colour : k_bin_colour, b.count, label, b.count);
         svg +=
             fmt::format("<text x=\"{}\" y=\"{}\" font-size=\"9\" text-anchor=\"middle\">{}</text>",
                         x + bar_width / 2, k_height - h - 2, b.count);
@@ -308,6 +292,9 @@ void write_calibration_html(std::ostream& out, const Calibration& c) {
     }
     out << "<p class=\"note\">Percentiles: linear interpolation between closest ranks. Changed "
            "functions are counted with zero and negative changes.</p>\n";
+    out << "<p class=\"note legend\"><span style=\"color:" << k_bin_colour
+        << "\">&#9632;</span> functions per bin; <span style=\"color:" << k_overflow_colour
+        << "\">&#9632;</span> the last bin, marked &gt;, holds every larger value.</p>\n";
     for (const auto& d : c.distributions) {
         const std::string name(core::measure_name(d.measure));
         out << "<h2>" << escape(name) << "</h2>\n<table class=\"percentiles\" id=\"table-"

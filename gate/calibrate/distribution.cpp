@@ -3,6 +3,7 @@
 #include "gate/calibrate/distribution.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -212,8 +213,12 @@ std::string suggest_policy(const Replay& replay,
     std::ostringstream out;
     out << "# Tollgate policy suggested by \"tollgate calibrate --suggest "
         << fmt::format("{:g}", p) << "\" from " << replay.commits.size() << " replayed commits "
-        << replay_span(replay) << "\n# of "
-        << (replay.history.tip_name.empty() ? "the history" : "\"" + replay.history.tip_name + "\"")
+        << replay_span(replay)
+        << "\n# of "
+        // A name with a line break must not end the comment and write policy keys.
+        << (replay.history.tip_name.empty()
+                ? "the history"
+                : "\"" + text::terminal_text(replay.history.tip_name) + "\"")
         << ". Each limit is the p" << fmt::format("{:g}", p)
         << " of the team's own past changes\n# (linear interpolation between closest ranks), "
            "rounded to two decimals: review before use.\n\n";

@@ -4,6 +4,9 @@
 #include "gate/calibrate/lex_file_cache.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
+#include "gate/java/java_front_end.hpp"
+#include "gate/lexer/file_functions_json.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -25,7 +28,10 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-constexpr const char* k_format = "tollgate.lexcache/2";
+// Version 3: the entry's lexed file is lexer::file_functions_to_json, every text kept losslessly
+// with text::store_bytes (source text need not be UTF-8, JSON strings must be), with each
+// function's inactive and brace_extent marks.
+constexpr const char* k_format = "tollgate.lexcache/3";
 
 __extension__ typedef unsigned __int128 Hash128;
 
@@ -134,81 +140,6 @@ std::string basename_of(const std::string& path) {
     return slash == std::string::npos ? path : path.substr(slash + 1);
 }
 
-json to_json(const lexer::FileFunctions& functions) {
-    json list = json::array();
-    for (const auto& f : functions.functions) {
-        json tokens = json::array();
-        for (const auto& t : f.tokens) {
-            tokens.push_back({t.key, t.spelling, t.role == core::Role::operand_token ? 1 : 0,
-                              t.form, static_cast<int>(t.basis), t.line});
-        }
-        list.push_back({{"usr", f.usr},
-                        {"fallback_key", f.fallback_key},
-                        {"qualified_name", f.qualified_name},
-                        {"signature", f.signature},
-                        {"path", f.path},
-                        {"start_line", f.start_line},
-                        {"end_line", f.end_line},
-                        {"lexical", f.mode == lexer::ExtentMode::lexical},
-                        {"potential_operands", f.potential_operands},
-                        {"token_hash", f.token_hash},
-                        {"inactive", f.inactive},
-                        {"brace_extent", f.brace_extent},
-                        {"tokens", tokens}});
-    }
-    json warnings = json::array();
-    for (const auto& w : functions.warnings) {
-        warnings.push_back({w.path, w.line, w.message});
-    }
-    return {{"path", functions.path},
-            {"functions", list},
-            {"warnings", warnings},
-            {"lexically_recovered", functions.lexically_recovered}};
-}
-
-lexer::FileFunctions from_json(const json& j) {
-    lexer::FileFunctions out;
-    out.path = j.at("path").get<std::string>();
-    for (const auto& f : j.at("functions")) {
-        lexer::FunctionSpan span;
-        span.usr = f.at("usr").get<std::string>();
-        span.fallback_key = f.at("fallback_key").get<std::string>();
-        span.qualified_name = f.at("qualified_name").get<std::string>();
-        span.signature = f.at("signature").get<std::string>();
-        span.path = f.at("path").get<std::string>();
-        span.start_line = f.at("start_line").get<unsigned>();
-        span.end_line = f.at("end_line").get<unsigned>();
-        span.mode = f.at("lexical").get<bool>() ? lexer::ExtentMode::lexical
-                                                : lexer::ExtentMode::syntax_tree;
-        span.potential_operands = f.at("potential_operands").get<std::uint64_t>();
-        span.token_hash = f.at("token_hash").get<std::string>();
-        span.inactive = f.at("inactive").get<bool>();
-        span.brace_extent = f.at("brace_extent").get<bool>();
-        for (const auto& t : f.at("tokens")) {
-            core::Token token;
-            token.key = t.at(0).get<std::string>();
-            token.spelling = t.at(1).get<std::string>();
-            token.role =
-                t.at(2).get<int>() == 1 ? core::Role::operand_token : core::Role::operator_token;
-            token.form = t.at(3).get<std::string>();
-            const int basis = t.at(4).get<int>();
-            if (basis < 0 || basis > static_cast<int>(core::Basis::lexical)) {
-                throw std::runtime_error("bad basis");
-            }
-            token.basis = static_cast<core::Basis>(basis);
-            token.line = t.at(5).get<unsigned>();
-            span.tokens.push_back(std::move(token));
-        }
-        out.functions.push_back(std::move(span));
-    }
-    for (const auto& w : j.at("warnings")) {
-        out.warnings.push_back(
-            {w.at(0).get<std::string>(), w.at(1).get<unsigned>(), w.at(2).get<std::string>()});
-    }
-    out.lexically_recovered = j.at("lexically_recovered").get<unsigned>();
-    return out;
-}
-
 } // namespace
 
 std::string content_key(const std::string& bytes) {
@@ -221,6 +152,9 @@ std::string lex_cache_key(const SourceFile& file, const lexer::ParseContext& con
     Fnv128 hash;
     hash.feed(k_format);
     hash.feed(core::fingerprint(context.convention));
+    if (is_java_path(file.path)) {
+        hash.feed(java::java_status()); // the Java convention and grammar versions
+    }
     hash.feed(file.path);
     hash.feed(file.content);
     hash.feed(context.force_language ? std::to_string(static_cast<int>(*context.force_language))
@@ -323,7 +257,7 @@ std::optional<lexer::FileFunctions> LexFileCache::find(const SourceFile& file,
             entry.at("key").get<std::string>() != key) {
             throw std::runtime_error("key mismatch");
         }
-        lexer::FileFunctions functions = from_json(entry.at("lexed"));
+        lexer::FileFunctions functions = lexer::file_functions_from_json(entry.at("lexed"));
         std::lock_guard<std::mutex> lock(m_mutex);
         ++m_counts.hits;
         return functions;
@@ -336,8 +270,9 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
                          const lexer::FileFunctions& functions) {
     const std::string key = lex_cache_key(file, context);
     const fs::path final_path = entry_path(key);
-    const json entry = {{"format", k_format}, {"key", key}, {"lexed", to_json(functions)}};
-    const std::string text = entry.dump();
+    const json entry = {
+        {"format", k_format}, {"key", key}, {"lexed", lexer::file_functions_to_json(functions)}};
+    const std::string serialised = text::dump_json(entry, -1);
     const fs::path temp_path = fs::path(m_dir) / ("tmp." + std::to_string(::getpid()) + "." +
                                                   std::to_string(m_temp_serial++) + ".part");
     std::error_code error;
@@ -345,7 +280,7 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
     bool written = false;
     if (!error) {
         std::ofstream out(temp_path, std::ios::binary | std::ios::trunc);
-        out << text;
+        out << serialised;
         out.close();
         written = static_cast<bool>(out);
         if (written) {
@@ -374,13 +309,25 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
     if (written && m_pause_after != 0 && writes >= m_pause_after) {
         // Test hook: leave a half-written temporary file behind, then wait to be killed.
         std::ofstream half(fs::path(m_dir) / "tmp.paused.part", std::ios::binary);
-        half << text.substr(0, text.size() / 2);
+        half << serialised.substr(0, serialised.size() / 2);
         half.close();
         std::cerr << "tollgate: test hook: paused after " << writes << " cache writes" << std::endl;
         for (;;) {
             std::this_thread::sleep_for(std::chrono::seconds(1));
         }
     }
+}
+
+void LexFileCache::abandon(const SourceFile& file, const lexer::ParseContext& context) {
+    const std::string key = lex_cache_key(file, context);
+    {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        const auto owner = m_in_flight.find(key);
+        if (owner != m_in_flight.end() && owner->second == std::this_thread::get_id()) {
+            m_in_flight.erase(owner);
+        }
+    }
+    m_stored.notify_all();
 }
 
 CacheCounts LexFileCache::counts() const {

@@ -42,7 +42,8 @@ struct CacheCounts {
     }
 };
 
-// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/1"),
+// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/3", every
+// text kept losslessly with text::store_bytes, so a file of any bytes reads back the same),
 // written to a temporary file and renamed into place, so a killed run leaves whole entries or
 // none. Entries that do not parse or whose recorded key differs are ignored and rewritten.
 // Thread-safe: a lookup of a key that another thread is parsing waits for its entry (unless the
@@ -61,6 +62,8 @@ public:
     // counted, not thrown.
     void store(const SourceFile& file, const lexer::ParseContext& context,
                const lexer::FileFunctions& functions) override;
+    // Release the key of `file` and `context` without writing an entry.
+    void abandon(const SourceFile& file, const lexer::ParseContext& context) override;
 
     // Return the counts so far.
     CacheCounts counts() const;

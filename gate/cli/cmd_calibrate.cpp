@@ -46,6 +46,7 @@ struct CalibrateOptions {
     std::string format = "text";       // --format text|json
     std::string html;                  // --html PATH
     unsigned jobs = 0;                 // --jobs
+    IsolationOptions isolation;        // --parse-timeout, --parse-memory
     std::string cache_dir;             // --cache-dir
     std::string compile_commands;      // --compile-commands
     bool no_pch_cache = false;         // --no-pch-cache
@@ -159,6 +160,7 @@ private:
 };
 
 int run_calibrate(const CalibrateOptions& options) {
+    apply_isolation_options(options.isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
     }
@@ -192,6 +194,9 @@ int run_calibrate(const CalibrateOptions& options) {
     settings.measure.compile_commands_json =
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.measure.compile_commands_root = repository.workdir();
+    settings.measure.compile_commands_origin = options.compile_commands.empty()
+                                                   ? lexer::DatabaseOrigin::found
+                                                   : lexer::DatabaseOrigin::given;
     settings.measure.cache_dir = options.no_pch_cache ? std::string() : default_cache_dir();
     settings.measure.lex_cache = &cache;
     settings.changes.rename_limit = options.rename_limit;
@@ -299,6 +304,7 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
                    "Also write a self-contained HTML page with SVG histograms to PATH");
     sub.add_option("-j,--jobs", options->jobs, "Worker threads, one commit each (0 = all cores)")
         ->capture_default_str();
+    add_isolation_options(sub, options->isolation);
     sub.add_option("--cache-dir", options->cache_dir,
                    "Folder of the lexed-file cache (default: the tool's cache folder + "
                    "\"/calibrate\")");

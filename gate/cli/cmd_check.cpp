@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // `tollgate check`: the gate. Measure the functions a change touched, before and after.
 #include "gate/baseline/snapshot_file.hpp"
+#include "gate/cli/baseline_source.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/policy_source.hpp"
@@ -9,7 +10,9 @@
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/delta/measure_change.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/walker/change_set.hpp"
@@ -18,11 +21,9 @@
 
 #include <cstdio>
 #include <filesystem>
-#include <fstream>
-#include <map>
+#include <iostream>
 #include <memory>
 #include <optional>
-#include <set>
 #include <spdlog/spdlog.h>
 #include <sstream>
 
@@ -37,9 +38,12 @@ struct CheckOptions {
     bool update_baseline = false;          // --update-baseline
     std::vector<std::string> reports;      // --report FORMAT:PATH
     bool no_colour = false;                // --no-color
+    bool wide = false;                     // -w, --wide
+    bool verbose = false;                  // the global --verbose: diagnostics listed on stderr
     std::string link_template;             // --link-template
     std::size_t markdown_rows = 10;        // --markdown-rows
     unsigned jobs = 0;                     // --jobs
+    IsolationOptions isolation;            // --parse-timeout, --parse-memory
     std::string compile_commands;          // --compile-commands
     std::string cache_dir;                 // --cache-dir
     bool no_cache = false;                 // --no-pch-cache
@@ -48,58 +52,9 @@ struct CheckOptions {
     std::size_t rename_limit = 400;        // --rename-limit
 };
 
-// The baseline snapshot a check uses, if any.
-struct LoadedBaseline {
-    std::optional<baseline::Snapshot> snapshot; // empty when none is given or configured
-    std::string path;                           // where it is (or would be)
-    std::string note;                           // a sentence for the report, or empty
-};
-
-// Load the snapshot named by --baseline, else by the policy's baseline.path (confined to the
-// repository). A configured snapshot that does not exist yet is a note; a given one is an error.
-LoadedBaseline load_baseline(const CheckOptions& options, const policy::Policy& judging,
-                             const walker::Repository& repository,
-                             const delta::MeasureChangeSettings& settings) {
-    LoadedBaseline loaded;
-    bool configured = false;
-    if (!options.baseline_path.empty()) {
-        loaded.path = options.baseline_path;
-    } else if (!judging.baseline.path.empty() && !repository.is_bare()) {
-        loaded.path = baseline::confine_to_repository(judging.baseline.path, repository.workdir());
-        configured = true;
-    } else {
-        return loaded;
-    }
-    if (configured && !std::filesystem::exists(loaded.path)) {
-        loaded.note = "no baseline snapshot at " + judging.baseline.path +
-                      " yet (\"tollgate snapshot\" on the main branch writes it)";
-        return loaded;
-    }
-    baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(settings.convention);
-    expectations.stroud = settings.measures.stroud;
-    loaded.snapshot = baseline::load_snapshot(loaded.path, expectations);
-    return loaded;
-}
-
-// Index the snapshot's measures by the identity the report uses (USR, else the fallback key);
-// identities recorded twice (macro-made functions) are left out rather than guessed.
-std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snapshot& snapshot) {
-    std::map<std::string, core::Measures> by_identity;
-    std::set<std::string> repeated;
-    for (const auto& f : snapshot.functions) {
-        const std::string& identity = f.usr.empty() ? f.fallback_key : f.usr;
-        if (!by_identity.emplace(identity, f.measures).second) {
-            repeated.insert(identity);
-        }
-    }
-    for (const auto& identity : repeated) {
-        by_identity.erase(identity);
-    }
-    return by_identity;
-}
-
-// After a passing run, write the head's snapshot where the baseline lives.
+// After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
+// policy's baseline.path in the working tree (the pipeline on the main branch keeps it from
+// there). A check reads the policy's path from the base commit, never from the working tree.
 void update_baseline(const CheckOptions& options, const policy::Verdict& verdict,
                      const walker::ResolvedRange& range, const policy::Policy& judging,
                      const walker::Repository& repository) {
@@ -131,11 +86,13 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.stroud = options.stroud;
     const SnapshotResult result = snapshot_revision(request);
     baseline::save_snapshot(result.snapshot, path);
-    std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n", path.c_str(),
-                 result.snapshot.functions.size(), range.head.short_hex().c_str());
+    std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n",
+                 text::terminal_text(path).c_str(), result.snapshot.functions.size(),
+                 range.head.short_hex().c_str());
 }
 
 int run_check(const CheckOptions& options) {
+    apply_isolation_options(options.isolation);
     const auto targets = parse_report_targets(options.reports);
     const auto repository = walker::Repository::open(std::filesystem::current_path().string());
 
@@ -147,6 +104,9 @@ int run_check(const CheckOptions& options) {
     settings.compile_commands_json =
         read_compile_commands(options.compile_commands, repository.workdir());
     settings.compile_commands_root = repository.workdir();
+    settings.compile_commands_origin = options.compile_commands.empty()
+                                           ? lexer::DatabaseOrigin::found
+                                           : lexer::DatabaseOrigin::given;
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
     settings.include_dirs = resolve_include_dirs(options.include_dirs, repository.workdir());
 
@@ -156,25 +116,10 @@ int run_check(const CheckOptions& options) {
     judge_options.today = policy::current_date();
     judge_options.policy_origin = selected.origin;
 
-    const LoadedBaseline loaded_baseline =
-        load_baseline(options, selected.policy, repository, settings);
-    std::map<std::string, core::Measures> recorded;
-    if (loaded_baseline.snapshot) {
-        settings.base_snapshot = &*loaded_baseline.snapshot;
-        settings.base_snapshot_path = loaded_baseline.path;
-        recorded = baseline_by_identity(*loaded_baseline.snapshot);
-        judge_options.baseline_lookup =
-            [&recorded](const std::string& identity) -> std::optional<core::Measures> {
-            const auto it = recorded.find(identity);
-            return it == recorded.end() ? std::nullopt : std::optional(it->second);
-        };
-    }
-
+    CheckBaseline baseline(options.baseline_path, selected.policy, repository, range, settings);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
     delta::ChangeReport report = delta::measure_change(repository, changes, settings);
-    if (!loaded_baseline.note.empty()) {
-        report.notes.push_back(loaded_baseline.note);
-    }
+    baseline.apply(range, report, judge_options);
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
     verdict.policy_change_summary = selected.change_summary;
@@ -182,6 +127,10 @@ int run_check(const CheckOptions& options) {
     report::RenderOptions render;
     render.link_template = options.link_template;
     render.markdown_rows = options.markdown_rows;
+    render.fit = options.wide ? report::Fit::wide : report::Fit::to_width;
+    if (options.verbose) {
+        report::write_diagnostics_text(std::cerr, report); // never after the verdict on stdout
+    }
     write_reports(report, verdict, selected.policy, targets, render, options.no_colour);
     if (options.update_baseline) {
         update_baseline(options, verdict, range, selected.policy, repository);
@@ -192,7 +141,7 @@ int run_check(const CheckOptions& options) {
 
 } // namespace
 
-void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<int()>& selected) {
+void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected) {
     auto options = std::make_shared<CheckOptions>();
     sub.description(
         "Gate a change: find the C/C++ functions touched between a base and a head commit, "
@@ -211,9 +160,10 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "Policy file that judges the change (default: .tollgate.yaml of the base "
                    "commit, else the built-in policy; see \"tollgate policy --default\")");
     sub.add_option("--baseline", options->baseline_path,
-                   "Baseline snapshot (default: the policy's baseline.path); when it is of the "
-                   "base commit its measures replace parsing the base, and functions already "
-                   "above a ceiling in it are grandfathered");
+                   "Baseline snapshot kept by the pipeline (default: the policy's baseline.path "
+                   "as the base commit has it); functions already above a ceiling in it are "
+                   "grandfathered, and one of the base commit is checked against the parsed "
+                   "base");
     sub.add_flag("--update-baseline", options->update_baseline,
                  "After a passing run, write the head commit's snapshot to the baseline path");
     sub.add_option("--report", options->reports,
@@ -222,6 +172,9 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
     sub.add_flag("--no-color", options->no_colour,
                  "Never colour the terminal table (colour is used on a terminal unless NO_COLOR "
                  "is set)");
+    sub.add_flag("-w,--wide", options->wide,
+                 "Show every column and whole names in the terminal table (default: fit the "
+                 "terminal's width, or 100 columns when not a terminal)");
     sub.add_option("--link-template", options->link_template,
                    "Link file:line cells of the Markdown table, e.g. "
                    "\"https://git.example/team/repo/blob/{commit}/{path}#L{line}\"");
@@ -229,6 +182,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                    "Rows of the Markdown table shown before the rest is folded")
         ->capture_default_str();
     add_jobs_option(sub, options->jobs);
+    add_isolation_options(sub, options->isolation);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, at its root or in build/)");
@@ -248,7 +202,12 @@ void attach_check(CLI::App& sub, const GlobalOptions& /*global*/, std::function<
                "  tollgate check --worktree                       uncommitted edits against "
                "HEAD\n"
                "  tollgate check --base v1.4 --report json:check.json --report text:-");
-    sub.callback([options, &selected] { selected = [options] { return run_check(*options); }; });
+    sub.callback([options, &global, &selected] {
+        selected = [options, &global] {
+            options->verbose = global.verbose;
+            return run_check(*options);
+        };
+    });
 }
 
 } // namespace tollgate

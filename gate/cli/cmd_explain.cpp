@@ -5,6 +5,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -22,16 +23,22 @@ struct ExplainOptions {
     SourceOptions sources;       // --rev and parsing options
     std::string format = "text"; // text or json
     double stroud = 18.0;        // Stroud number
+    IsolationOptions isolation;  // --parse-timeout, --parse-memory
 };
 
-// Return true when `name` is `wanted` or ends with "::" + `wanted`.
+// Return true when `name` is `wanted` or ends with "::" + `wanted` (C++) or "." + `wanted`
+// (Java).
 bool name_matches(const std::string& name, const std::string& wanted) {
     if (name == wanted) {
         return true;
     }
-    const std::string suffix = "::" + wanted;
-    return name.size() > suffix.size() &&
-           name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0;
+    for (const std::string& suffix : {"::" + wanted, "." + wanted}) {
+        if (name.size() > suffix.size() &&
+            name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0) {
+            return true;
+        }
+    }
+    return false;
 }
 
 bool all_digits(const std::string& text) {
@@ -85,6 +92,8 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             const auto colon = span.qualified_name.rfind("::");
             if (colon != std::string::npos) {
                 names.push_back(span.qualified_name.substr(colon + 2));
+            } else if (const auto dot = span.qualified_name.rfind('.'); dot != std::string::npos) {
+                names.push_back(span.qualified_name.substr(dot + 1)); // a Java name
             }
         }
         const std::string suggestion = closest_match(wanted, names);
@@ -97,15 +106,17 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
     }
     std::string candidates;
     for (const auto* span : matches) {
-        candidates += fmt::format("\n  {}:{}  {}({})", path, span->start_line, span->qualified_name,
-                                  span->signature);
+        candidates += fmt::format("{}{}:{} {}({})", candidates.empty() ? "" : ", ", path,
+                                  span->start_line, span->qualified_name, span->signature);
     }
-    throw UsageError(fmt::format("\"{}\" matches {} functions in \"{}\" (name one as "
-                                 "PATH:LINE or PATH:NAME(SIGNATURE)):{}",
+    // One line: an error message is printed as one line (see run_cli).
+    throw UsageError(fmt::format("\"{}\" matches {} functions in \"{}\": {} (name one as "
+                                 "PATH:LINE or PATH:NAME(SIGNATURE))",
                                  wanted, matches.size(), path, candidates));
 }
 
 int run_explain(const ExplainOptions& options) {
+    apply_isolation_options(options.isolation);
     const auto colon = options.target.rfind(':');
     if (colon == std::string::npos || colon == 0 || colon + 1 == options.target.size()) {
         throw UsageError("expected PATH:FUNCTION, got \"" + options.target +
@@ -133,7 +144,7 @@ int run_explain(const ExplainOptions& options) {
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);
-    const std::string convention = core::fingerprint(loaded.context.convention);
+    const std::string convention = java::build_fingerprint(loaded.context.convention);
     if (options.format == "json") {
         report::write_explain_json(std::cout, measured, loaded.label, convention);
     } else {
@@ -158,6 +169,7 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
     add_stroud_option(sub, options->stroud);
+    add_isolation_options(sub, options->isolation);
     sub.footer("Examples:\n"
                "  tollgate explain src/filter.cpp:Kalman::update\n"
                "  tollgate explain src/crc.c:crc16 --rev HEAD~1\n"

@@ -3,6 +3,7 @@
 #include "gate/cli/commands.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/run_cli.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/hook/hook_file.hpp"
 #include "gate/hook/pre_push.hpp"
 #include "gate/hook/process.hpp"
@@ -17,13 +18,14 @@ namespace tollgate {
 namespace {
 
 struct HookOptions {
-    bool force = false;      // install --force
-    bool chain = false;      // install --chain
-    std::string binary;      // install --binary
-    std::string remote;      // run REMOTE
-    std::string url;         // run URL
-    std::string policy_path; // run --policy
-    unsigned jobs = 0;       // run --jobs
+    bool force = false;         // install --force
+    bool chain = false;         // install --chain
+    std::string binary;         // install --binary
+    std::string remote;         // run REMOTE
+    std::string url;            // run URL
+    std::string policy_path;    // run --policy
+    unsigned jobs = 0;          // run --jobs
+    IsolationOptions isolation; // run --parse-timeout, --parse-memory
 };
 
 int run_install(const HookOptions& options) {
@@ -32,12 +34,15 @@ int run_install(const HookOptions& options) {
                                                         : hook::ExistingHook::refuse;
     const std::string binary = options.binary.empty() ? hook::self_executable() : options.binary;
     // One string, built before anything is written: a refusal leaves no dangling prefix.
-    std::cerr << ("tollgate: " + hook::install_hook(hook::hooks_folder(), binary, existing) + "\n");
+    std::cerr << ("tollgate: " +
+                  text::terminal_text(hook::install_hook(hook::hooks_folder(), binary, existing)) +
+                  "\n");
     return static_cast<int>(ExitCode::pass);
 }
 
 int run_uninstall() {
-    std::cerr << ("tollgate: " + hook::uninstall_hook(hook::hooks_folder()) + "\n");
+    std::cerr << ("tollgate: " + text::terminal_text(hook::uninstall_hook(hook::hooks_folder())) +
+                  "\n");
     return static_cast<int>(ExitCode::pass);
 }
 
@@ -50,6 +55,8 @@ int check_ref(const hook::RefPlan& plan, const HookOptions& options) {
         argv.insert(argv.end(), {"--policy", options.policy_path});
     }
     argv.insert(argv.end(), {"--jobs", std::to_string(options.jobs)});
+    argv.insert(argv.end(), {"--parse-timeout", std::to_string(options.isolation.parse_timeout),
+                             "--parse-memory", std::to_string(options.isolation.parse_memory)});
     // The table is for the person pushing: it goes to stderr, which git leaves on the terminal.
     return hook::run_process(argv, hook::Output::to_stderr).exit_code;
 }
@@ -59,22 +66,26 @@ int run_pre_push(const HookOptions& options) {
                             std::istreambuf_iterator<char>()};
     const auto refs = hook::parse_pushed_refs(input);
     int worst = static_cast<int>(ExitCode::pass);
+    // Ref and remote names come from git's input and arguments: made visible on the terminal.
+    using text::terminal_text;
     for (const hook::PushedRef& ref : refs) {
         const hook::RefPlan plan = hook::plan_ref(ref, options.remote);
+        const std::string ref_name = terminal_text(ref.remote_ref);
         if (plan.action == hook::RefAction::skip) {
-            std::cerr << "tollgate: " << ref.remote_ref << ": nothing to judge (" << plan.reason
-                      << ")\n";
+            std::cerr << "tollgate: " << ref_name << ": nothing to judge ("
+                      << terminal_text(plan.reason) << ")\n";
             continue;
         }
-        std::cerr << "tollgate: " << ref.remote_ref << ": judging " << plan.base.substr(0, 7)
-                  << ".." << plan.head.substr(0, 7) << " (base: " << plan.reason << ")\n";
+        std::cerr << "tollgate: " << ref_name << ": judging "
+                  << terminal_text(plan.base.substr(0, 7)) << ".."
+                  << terminal_text(plan.head.substr(0, 7))
+                  << " (base: " << terminal_text(plan.reason) << ")\n";
         const int code = check_ref(plan, options);
         if (code == static_cast<int>(ExitCode::blocked)) {
-            std::cerr << "tollgate: the policy blocks the push of " << ref.remote_ref << " to \""
-                      << options.remote << "\"\n";
+            std::cerr << "tollgate: the policy blocks the push of " << ref_name << " to \""
+                      << terminal_text(options.remote) << "\"\n";
         } else if (code != static_cast<int>(ExitCode::pass)) {
-            std::cerr << "tollgate: " << ref.remote_ref << " could not be judged (exit " << code
-                      << ")\n";
+            std::cerr << "tollgate: " << ref_name << " could not be judged (exit " << code << ")\n";
         }
         // Errors (2, 3) outrank a block (1): nothing was judged there.
         if (code > worst) {
@@ -132,6 +143,7 @@ void attach_hook(CLI::App& sub, const GlobalOptions& /*global*/, std::function<i
     run->add_option("--policy", options->policy_path,
                     "Policy file (default: .tollgate.yaml of each base commit)");
     add_jobs_option(*run, options->jobs);
+    add_isolation_options(*run, options->isolation);
     run->callback(
         [options, &selected] { selected = [options] { return run_pre_push(*options); }; });
 

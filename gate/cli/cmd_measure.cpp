@@ -3,8 +3,10 @@
 #include "gate/cli/commands.hpp"
 #include "gate/cli/measure_span.hpp"
 #include "gate/cli/options.hpp"
+#include "gate/cli/report_targets.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -19,11 +21,14 @@ struct MeasureOptions {
     SourceOptions sources;       // --rev, paths, compile database, cache
     std::string format = "text"; // text or json
     bool all_measures = false;   // every measure, not the essential columns
+    bool wide = false;           // -w, --wide: every column, whole names
     unsigned jobs = 0;           // parser threads, 0 = all cores
+    IsolationOptions isolation;  // --parse-timeout, --parse-memory
     double stroud = 18.0;        // Stroud number for T
 };
 
 int run_measure(const MeasureOptions& options) {
+    apply_isolation_options(options.isolation);
     const LoadedSources loaded = load_sources(to_request(options.sources));
     const auto files = lexer::lex_files(loaded.selected, loaded.context, options.jobs);
     core::MeasureSettings settings;
@@ -37,11 +42,12 @@ int run_measure(const MeasureOptions& options) {
     const auto warnings = collect_warnings(files);
     if (options.format == "json") {
         report::write_measure_json(std::cout, functions, warnings, loaded.label,
-                                   core::fingerprint(loaded.context.convention));
+                                   java::build_fingerprint(loaded.context.convention));
     } else {
         report::write_measure_text(
             std::cout, functions, warnings,
-            options.all_measures ? report::Columns::all : report::Columns::essential, loaded.label);
+            options.all_measures ? report::Columns::all : report::Columns::essential, loaded.label,
+            terminal_width(), options.wide ? report::Fit::wide : report::Fit::to_width);
     }
     return 0;
 }
@@ -59,9 +65,13 @@ void attach_measure(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--format", options->format, "Output format")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
+    sub.add_flag("-w,--wide", options->wide,
+                 "Show every column and whole names (default: fit the terminal's width, or 100 "
+                 "columns when not a terminal)");
     sub.add_flag("-a,--all-measures", options->all_measures,
                  "Show every measure (N n N^ V D L^ E T B V* V*/V), not only the essential ones");
     add_jobs_option(sub, options->jobs);
+    add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
     sub.footer("Examples:\n"
                "  tollgate measure src/filter.cpp            the working tree's file\n"

@@ -2,6 +2,7 @@
 // `tollgate policy`: validate a policy file and print the effective policy.
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
 
 #include <filesystem>
@@ -51,8 +52,9 @@ int run_policy(const PolicyOptions& options) {
         path = std::filesystem::relative(candidate).string();
     }
     const policy::Policy loaded = policy::load_policy_file(path);
-    std::cerr << "tollgate: " << path << " is a valid policy\n";
-    std::cout << "# effective policy: " << path << "\n" << policy::describe_policy(loaded);
+    std::cerr << "tollgate: " << text::terminal_text(path) << " is a valid policy\n";
+    std::cout << "# effective policy: " << text::terminal_text(path) << "\n"
+              << policy::describe_policy(loaded);
     return 0;
 }
 

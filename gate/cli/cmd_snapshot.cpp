@@ -7,6 +7,7 @@
 #include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
@@ -28,6 +29,7 @@ struct SnapshotOptions {
     std::string out;                       // --out, as given on the command line
     bool force = false;                    // --force: replace a file that is not a snapshot
     unsigned jobs = 0;                     // parser threads, 0 = all cores
+    IsolationOptions isolation;            // --parse-timeout, --parse-memory
     double stroud = 18.0;                  // Stroud number for T
     std::string compile_commands;          // --compile-commands
     std::string cache_dir;                 // --cache-dir
@@ -51,6 +53,7 @@ std::string display_path(const fs::path& absolute) {
 }
 
 int run_snapshot(const SnapshotOptions& options) {
+    apply_isolation_options(options.isolation);
     const walker::Repository repository = walker::Repository::open(fs::current_path().string());
     const walker::ObjectId commit = repository.resolve_commit(options.revision);
     // The measured revision's policy may say where its baseline lives.
@@ -92,8 +95,8 @@ int run_snapshot(const SnapshotOptions& options) {
 
     const std::size_t warnings = measured.warnings;
     std::cerr << fmt::format("tollgate: wrote {}: {} functions in {} files of commit {}{}\n",
-                             out_path, snapshot.functions.size(), measured.files,
-                             commit.short_hex(),
+                             text::terminal_text(out_path), snapshot.functions.size(),
+                             measured.files, commit.short_hex(),
                              warnings == 0 ? std::string()
                                            : fmt::format(" ({} parse warnings: tollgate measure "
                                                          "--rev {} shows them)",
@@ -102,10 +105,12 @@ int run_snapshot(const SnapshotOptions& options) {
 }
 
 int run_compare(const SnapshotOptions& options) {
+    // The two snapshots must share one convention, whichever: a build that measures Java can
+    // still compare two snapshots made before it did.
     baseline::SnapshotExpectations expectations;
-    expectations.convention = core::fingerprint(core::Convention{});
     expectations.stroud = options.stroud;
     const baseline::Snapshot base = baseline::load_snapshot(options.compare.at(0), expectations);
+    expectations.convention = base.convention;
     const baseline::Snapshot head = baseline::load_snapshot(options.compare.at(1), expectations);
     const baseline::SnapshotTrend trend = baseline::compare_snapshots(base, head);
     if (options.format == "json") {
@@ -121,8 +126,9 @@ int run_compare(const SnapshotOptions& options) {
 void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
                      std::function<int()>& selected) {
     auto options = std::make_shared<SnapshotOptions>();
-    sub.description("Measure every function of every C/C++ file of a revision and write a "
-                    "baseline snapshot, or compare two snapshots.");
+    sub.description(
+        "Measure every function of every C, C++ and Java file of a revision and write a "
+        "baseline snapshot, or compare two snapshots.");
     auto* rev = sub.add_option("--rev", options->revision,
                                "Revision to measure, read from the object database")
                     ->capture_default_str();
@@ -133,6 +139,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     auto* force = sub.add_flag("--force", options->force,
                                "Replace the output file even when it is not a Tollgate snapshot");
     add_jobs_option(sub, options->jobs);
+    add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "

@@ -16,6 +16,8 @@ const std::vector<CommandEntry>& command_table() {
          &attach_snapshot},
         {"calibrate", "Replay history: delta distributions, what-if a policy, suggest limits",
          &attach_calibrate},
+        {"annotate", "Keep one comment with the report on the pull/merge request",
+         &attach_annotate},
         {"hook", "Install or remove the pre-push hook, or run it", &attach_hook},
         {"policy", "Validate a policy file and print the effective policy", &attach_policy},
     };

@@ -32,6 +32,7 @@ void attach_explain(CLI::App& sub, const GlobalOptions& global, std::function<in
 void attach_policy(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_snapshot(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_calibrate(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
+void attach_annotate(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 void attach_hook(CLI::App& sub, const GlobalOptions& global, std::function<int()>& selected);
 
 } // namespace tollgate

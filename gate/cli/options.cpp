@@ -2,6 +2,8 @@
 // Shared command-line options.
 #include "gate/cli/options.hpp"
 
+#include "gate/lexer/isolation.hpp"
+
 namespace tollgate {
 
 void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help) {
@@ -31,6 +33,26 @@ void add_include_dir_option(CLI::App& sub, std::vector<std::string>& folders) {
                    "folder inside the repository is read at the measured revision)");
 }
 
+void add_isolation_options(CLI::App& sub, IsolationOptions& options) {
+    sub.add_option("--parse-timeout", options.parse_timeout,
+                   "Processor seconds the parser may spend on one file (twice that of wall-clock "
+                   "time); past it the file is measured lexically")
+        ->check(CLI::Range(1u, 86400u))
+        ->capture_default_str();
+    sub.add_option("--parse-memory", options.parse_memory,
+                   "Address space of each parser process, in MiB; a file that needs more is "
+                   "measured lexically")
+        ->check(CLI::Range(std::uint64_t{512}, std::uint64_t{1} << 20))
+        ->capture_default_str();
+}
+
+void apply_isolation_options(const IsolationOptions& options) {
+    lexer::IsolationSettings settings = lexer::current_isolation();
+    settings.cpu_seconds = options.parse_timeout;
+    settings.memory_mib = options.parse_memory;
+    lexer::set_isolation(settings);
+}
+
 void add_stroud_option(CLI::App& sub, double& stroud) {
     sub.add_option("--stroud", stroud, "Stroud number S for the time T = E / S")
         ->check(CLI::Range(1.0, 100.0))
@@ -38,7 +60,7 @@ void add_stroud_option(CLI::App& sub, double& stroud) {
 }
 
 void add_jobs_option(CLI::App& sub, unsigned& jobs) {
-    sub.add_option("-j,--jobs", jobs, "Parser threads (0 = all cores)")->capture_default_str();
+    sub.add_option("-j,--jobs", jobs, "Parser processes (0 = all cores)")->capture_default_str();
 }
 
 SourceRequest to_request(const SourceOptions& options) {

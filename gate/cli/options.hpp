@@ -5,6 +5,7 @@
 #include "gate/cli/sources.hpp"
 
 #include <CLI/CLI.hpp>
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -27,10 +28,22 @@ void add_source_options(CLI::App& sub, SourceOptions& options, const std::string
 // Add `--include-dir DIR` (repeatable) bound to `folders`.
 void add_include_dir_option(CLI::App& sub, std::vector<std::string>& folders);
 
+// The limits of the parser processes (`--parse-timeout`, `--parse-memory`).
+struct IsolationOptions {
+    unsigned parse_timeout = 60;       // --parse-timeout: processor seconds per file
+    std::uint64_t parse_memory = 4096; // --parse-memory: MiB of address space per parser process
+};
+
+// Add `--parse-timeout SECONDS` and `--parse-memory MIB` to `sub`, bound to `options`.
+void add_isolation_options(CLI::App& sub, IsolationOptions& options);
+
+// Use `options` for the parser processes of this run.
+void apply_isolation_options(const IsolationOptions& options);
+
 // Add `--stroud S` (the Stroud number for T = E / S, 1 to 100) bound to `stroud`.
 void add_stroud_option(CLI::App& sub, double& stroud);
 
-// Add `-j,--jobs N` (parser threads, 0 = all cores) bound to `jobs`.
+// Add `-j,--jobs N` (parser processes, 0 = all cores) bound to `jobs`.
 void add_jobs_option(CLI::App& sub, unsigned& jobs);
 
 // Turn parsed source options into a request for load_sources.

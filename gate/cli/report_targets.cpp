@@ -11,6 +11,7 @@
 #include <fstream>
 #include <iostream>
 #include <sstream>
+#include <sys/ioctl.h>
 #include <unistd.h>
 
 namespace tollgate {
@@ -108,6 +109,25 @@ std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& s
     return targets;
 }
 
+std::size_t terminal_width() {
+    constexpr std::size_t k_fallback = 100;
+    if (const char* columns = std::getenv("COLUMNS"); columns != nullptr && *columns != '\0') {
+        const std::string text(columns);
+        if (text.size() <= 5 && text.find_first_not_of("0123456789") == std::string::npos) {
+            const auto value = std::stoul(text);
+            if (value >= 20 && value <= 10000) {
+                return value;
+            }
+        }
+    }
+    winsize size{};
+    if (::isatty(STDOUT_FILENO) == 1 && ::ioctl(STDOUT_FILENO, TIOCGWINSZ, &size) == 0 &&
+        size.ws_col >= 20) {
+        return size.ws_col;
+    }
+    return k_fallback;
+}
+
 void write_reports(const delta::ChangeReport& report, const policy::Verdict& verdict,
                    const policy::Policy& policy, const std::vector<ReportTarget>& targets,
                    report::RenderOptions options, bool no_colour) {
@@ -123,16 +143,19 @@ void write_reports(const delta::ChangeReport& report, const policy::Verdict& ver
             stdout_options.colour = colour_stdout && target.format == ReportFormat::text
                                         ? report::Colour::on
                                         : report::Colour::off;
+            stdout_options.width = terminal_width();
             render(std::cout, target.format, judged, stdout_options);
         } else {
             std::ostringstream buffer;
             options.colour = report::Colour::off;
+            options.width = 100;
             render(buffer, target.format, judged, options);
             write_file_atomically(target.path, buffer.str());
         }
     }
     if (!stdout_used) {
         options.colour = colour_stdout ? report::Colour::on : report::Colour::off;
+        options.width = terminal_width();
         report::write_change_text(std::cout, report, verdict, options);
     }
     std::cout.flush();

@@ -4,25 +4,57 @@
 
 #include "gate/cli/commands.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/text_safety.hpp"
+#include "gate/java/java_front_end.hpp"
+#include "gate/lexer/lex_worker.hpp"
+#include "gate/policy/policy.hpp"
 
 #include <CLI/CLI.hpp>
-#include <algorithm>
 #include <cstdio>
 #include <exception>
+#include <memory>
+#include <spdlog/formatter.h>
 #include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 #include <string>
 
 namespace tollgate {
 
+namespace {
+
+// Log lines as "tollgate: LEVEL: MESSAGE", the message made visible: logs quote paths and names.
+class VisibleFormatter : public spdlog::formatter {
+public:
+    void format(const spdlog::details::log_msg& message, spdlog::memory_buf_t& out) override {
+        const auto level = spdlog::level::to_string_view(message.level);
+        const std::string line =
+            "tollgate: " + std::string(level.data(), level.size()) + ": " +
+            text::terminal_text(std::string_view(message.payload.data(), message.payload.size())) +
+            "\n";
+        out.append(line.data(), line.data() + line.size());
+    }
+    std::unique_ptr<spdlog::formatter> clone() const override {
+        return std::make_unique<VisibleFormatter>();
+    }
+};
+
+} // namespace
+
 int run_cli(int argc, char** argv) {
+    // The parser process is this executable with a hidden first argument (never in --help).
+    if (argc >= 2 && std::string(argv[1]) == lexer::k_worker_command) {
+        return lexer::run_lex_worker(argc, argv);
+    }
     CLI::App app{"tollgate: gate C/C++ changes on the Halstead measures of the functions they "
                  "touch",
                  "tollgate"};
     app.require_subcommand(1);
-    app.set_version_flag("--version", std::string("tollgate ") + TOLLGATE_VERSION);
+    app.set_version_flag("--version",
+                         std::string("tollgate ") + TOLLGATE_VERSION + "\n" + java::java_status());
     GlobalOptions global;
     app.add_flag("-v,--verbose", global.verbose, "Log what each stage does on stderr");
+    // "-v" after the command ("tollgate check -v", as check's diagnostics line says) works too.
+    app.fallthrough();
     app.footer("Exit codes: 0 pass, 1 blocked by the policy, 2 usage or configuration error, "
                "3 repository or parsing failure.\nRun \"tollgate COMMAND --help\" for a "
                "command's options and an example.");
@@ -42,33 +74,36 @@ int run_cli(int argc, char** argv) {
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
     } catch (const CLI::ParseError& e) {
-        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n", e.what());
+        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n",
+                     text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::usage);
     }
 
     auto logger = spdlog::stderr_color_st("tollgate");
-    logger->set_pattern("tollgate: %l: %v");
+    logger->set_formatter(std::make_unique<VisibleFormatter>());
     logger->set_level(global.verbose ? spdlog::level::debug : spdlog::level::warn);
     spdlog::set_default_logger(logger);
 
     try {
         return selected ? selected() : static_cast<int>(ExitCode::usage);
-    } catch (const UsageError& e) {
-        // A broken policy carries one message per line; each gets the prefix.
-        const std::string text = e.what();
-        for (std::size_t start = 0; start <= text.size();) {
-            const std::size_t end = std::min(text.find('\n', start), text.size());
-            std::fprintf(stderr, "tollgate: error: %s\n", text.substr(start, end - start).c_str());
-            start = end + 1;
+    } catch (const policy::PolicyError& e) {
+        // A broken policy carries one message per fault; each gets its line and the prefix.
+        for (const auto& message : e.messages()) {
+            std::fprintf(stderr, "tollgate: error: %s\n", text::terminal_text(message).c_str());
         }
         return static_cast<int>(ExitCode::usage);
+    } catch (const UsageError& e) {
+        // Messages quote paths, names and revisions: a line break or escape sequence among them
+        // is shown, never obeyed, so every message stays one line.
+        std::fprintf(stderr, "tollgate: error: %s\n", text::terminal_text(e.what()).c_str());
+        return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
-        std::fprintf(stderr, "tollgate: error: %s%s\n", e.what(),
+        std::fprintf(stderr, "tollgate: error: %s%s\n", text::terminal_text(e.what()).c_str(),
                      global.verbose ? "" : " (run with --verbose for details)");
         return static_cast<int>(ExitCode::failure);
     } catch (const std::exception& e) {
         std::fprintf(stderr, "tollgate: internal error: %s (run with --verbose and report it)\n",
-                     e.what());
+                     text::terminal_text(e.what()).c_str());
         return static_cast<int>(ExitCode::failure);
     }
 }

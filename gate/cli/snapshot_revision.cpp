@@ -5,6 +5,7 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/cli/measure_span.hpp"
 #include "gate/cli/sources.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
@@ -23,9 +24,9 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     core::MeasureSettings settings;
     settings.stroud = request.stroud;
     SnapshotResult result;
-    result.snapshot =
-        baseline::make_snapshot(files, request.commit, core::fingerprint(loaded.context.convention),
-                                settings, baseline::current_utc_time());
+    result.snapshot = baseline::make_snapshot(files, request.commit,
+                                              java::build_fingerprint(loaded.context.convention),
+                                              settings, baseline::current_utc_time());
     result.files = files.size();
     result.warnings = collect_warnings(files).size();
     return result;

@@ -2,6 +2,7 @@
 // Reading the files a command measures, from git or from disk.
 #include "gate/cli/sources.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/walker/repository.hpp"
 
@@ -40,7 +41,7 @@ std::optional<std::string> relative_inside(const fs::path& path, const fs::path&
     return text == "." ? std::string() : text;
 }
 
-// Every C/C++ file under `root` (skipping hidden folders and build folders), from disk.
+// Every C/C++ and Java file under `root` (skipping hidden folders and build folders), from disk.
 std::vector<SourceFile> read_disk_tree(const fs::path& root) {
     std::vector<SourceFile> files;
     std::error_code ec;
@@ -52,9 +53,22 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
             it.disable_recursion_pending();
             continue;
         }
-        if (it->is_regular_file() && is_c_family_path(name)) {
-            files.push_back({p.lexically_relative(root).generic_string(), read_disk_file(p)});
+        if (!is_measured_path(name) || it->is_directory()) {
+            continue;
         }
+        // Never follow a symlink or open a FIFO or device named like a source file.
+        DiskFile file = read_regular_file(p.string());
+        if (file.entry == DiskEntry::unreadable) {
+            throw UsageError("cannot read \"" + p.string() + "\"");
+        }
+        if (file.entry != DiskEntry::regular) {
+            if (file.entry != DiskEntry::missing) {
+                spdlog::warn("skipped \"{}\": {}", p.lexically_relative(root).generic_string(),
+                             disk_entry_text(file.entry));
+            }
+            continue;
+        }
+        files.push_back({p.lexically_relative(root).generic_string(), std::move(file.content)});
     }
     std::sort(files.begin(), files.end(),
               [](const SourceFile& a, const SourceFile& b) { return a.path < b.path; });
@@ -84,8 +98,9 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
             }
         }
         if (!found) {
-            throw UsageError("no C/C++ file at \"" + as_given[i] +
-                             "\" (give a .c, .cc, .cpp, .cxx, .c++ or header file, or a folder)");
+            throw UsageError("no C, C++ or Java file at \"" + as_given[i] +
+                             "\" (give a .c, .cc, .cpp, .cxx, .c++, header or .java file, or a "
+                             "folder)");
         }
     }
     std::sort(selected.begin(), selected.end(),
@@ -97,6 +112,21 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
     return selected;
 }
 
+// Read a compile database found in the working tree, which may be the change under review: a
+// symlink or FIFO there is not followed. Return nothing when there is none to read.
+std::optional<std::string> read_found_database(const fs::path& path) {
+    DiskFile file = read_regular_file(path.string());
+    if (file.entry == DiskEntry::regular) {
+        spdlog::debug("using compile database {}", path.string());
+        return std::move(file.content);
+    }
+    if (file.entry != DiskEntry::missing) {
+        spdlog::warn("compile database \"{}\" left out: {}", path.string(),
+                     disk_entry_text(file.entry));
+    }
+    return std::nullopt;
+}
+
 } // namespace
 
 std::string read_compile_commands(const std::string& given, const std::string& root) {
@@ -106,11 +136,12 @@ std::string read_compile_commands(const std::string& given, const std::string& r
         }
         return read_disk_file(given);
     }
+    if (root.empty()) {
+        return {};
+    }
     for (const char* candidate : {"compile_commands.json", "build/compile_commands.json"}) {
-        const fs::path path = fs::path(root) / candidate;
-        if (!root.empty() && fs::exists(path)) {
-            spdlog::debug("using compile database {}", path.string());
-            return read_disk_file(path);
+        if (auto found = read_found_database(fs::path(root) / candidate)) {
+            return std::move(*found);
         }
     }
     return {};
@@ -206,7 +237,10 @@ LoadedSources load_sources(const SourceRequest& request) {
     loaded.selected = select_files(all, relative, request.paths);
 
     const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
-    loaded.context = lexer::make_parse_context(all, compile_db, root.string());
+    loaded.context =
+        lexer::make_parse_context(all, compile_db, root.string(),
+                                  request.compile_commands.empty() ? lexer::DatabaseOrigin::found
+                                                                   : lexer::DatabaseOrigin::given);
     loaded.context.force_language = request.force_language;
     lexer::add_include_dirs(loaded.context, all,
                             resolve_include_dirs(request.include_dirs, root.string()));

@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// C/C++ file recognition by extension.
+// C/C++ and Java file recognition by extension.
 #include "gate/common/source.hpp"
 
 #include <algorithm>
@@ -40,6 +40,14 @@ bool is_c_family_path(const std::string& path) {
     const std::string ext = lower_extension(path);
     return is_header_path(path) || std::find(k_source_extensions.begin(), k_source_extensions.end(),
                                              ext) != k_source_extensions.end();
+}
+
+bool is_java_path(const std::string& path) {
+    return lower_extension(path) == ".java";
+}
+
+bool is_measured_path(const std::string& path) {
+    return is_c_family_path(path) || is_java_path(path);
 }
 
 } // namespace tollgate

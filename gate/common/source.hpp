@@ -25,6 +25,14 @@ std::string lower_extension(const std::string& path);
 // .h .hh .hpp .hxx .inl .ipp .tpp, case-insensitive).
 bool is_c_family_path(const std::string& path);
 
+// Return true when `path` has the extension Tollgate measures as Java (.java, case-insensitive).
+bool is_java_path(const std::string& path);
+
+// Return true when `path` is a file some front end measures: C/C++ (is_c_family_path) or Java
+// (is_java_path). A Java file is still listed when this build has no Java front end, so that the
+// run can say so.
+bool is_measured_path(const std::string& path);
+
 // Return true when `path` is a header (.h .hh .hpp .hxx .inl .ipp .tpp), supplied to the parser
 // as an in-memory file.
 bool is_header_path(const std::string& path);

@@ -46,6 +46,7 @@ FunctionSide side_of(const SideFunction& f, const core::MeasureSettings& setting
     side.lexical = f.mode() == lexer::ExtentMode::lexical;
     side.inactive = f.inactive();
     side.brace_extent = f.brace_extent();
+    side.parser_stopped = f.mode() == lexer::ExtentMode::parser_stopped;
     side.token_hash = f.token_hash();
     side.measures = f.span ? core::compute_measures(core::count_tokens(f.span->tokens),
                                                     f.span->potential_operands, settings)

@@ -25,20 +25,22 @@ const char* label_name(DeltaLabel label);
 
 // One side of a touched function.
 struct FunctionSide {
-    std::string path;          // repository-relative path on this side
-    unsigned start_line = 0;   // first line of the definition
-    unsigned end_line = 0;     // last line of the definition
-    bool lexical = false;      // extent came from the lexical cross-check
-    bool inactive = false;     // defined in an #if branch the preprocessor skipped
-    bool brace_extent = false; // libclang's extent disagreed with brace matching: braces' taken
-    std::string token_hash;    // digest of the counted tokens
-    core::Measures measures;   // every measure on this side
+    std::string path;            // repository-relative path on this side
+    unsigned start_line = 0;     // first line of the definition
+    unsigned end_line = 0;       // last line of the definition
+    bool lexical = false;        // extent came from the lexical cross-check
+    bool parser_stopped = false; // the parser stopped on this side's file (or the other side's):
+                                 // measured lexically
+    bool inactive = false;       // defined in an #if branch the preprocessor skipped
+    bool brace_extent = false;   // libclang's extent disagreed with brace matching: braces' taken
+    std::string token_hash;      // digest of the counted tokens
+    core::Measures measures;     // every measure on this side
 
     bool operator==(const FunctionSide& other) const {
         return path == other.path && start_line == other.start_line && end_line == other.end_line &&
-               lexical == other.lexical && token_hash == other.token_hash &&
-               measures == other.measures && inactive == other.inactive &&
-               brace_extent == other.brace_extent;
+               lexical == other.lexical && parser_stopped == other.parser_stopped &&
+               token_hash == other.token_hash && measures == other.measures &&
+               inactive == other.inactive && brace_extent == other.brace_extent;
     }
 };
 
@@ -59,6 +61,10 @@ struct FunctionDelta {
     core::Delta delta(core::MeasureId id) const;
     // Return the side a reviewer should look at: head, or base when removed.
     const FunctionSide& shown_side() const { return head ? *head : *base; }
+    // Return true when either side was measured lexically because the parser stopped.
+    bool parser_stopped() const {
+        return (base && base->parser_stopped) || (head && head->parser_stopped);
+    }
 
     bool operator==(const FunctionDelta& other) const {
         return name == other.name && signature == other.signature && identity == other.identity &&
@@ -132,9 +138,12 @@ struct ChangeReport {
     std::vector<SkippedPath> skipped;     // changed files not measured
     std::vector<ChangeWarning> warnings;  // parser warnings on either side
     unsigned measured_files = 0;          // changed C/C++ files measured
-    std::vector<UnmeasuredLines> unmeasured; // per changed C/C++ file with changed lines outside
-                                             // every measured function, by path
-    unsigned unmeasured_lines = 0;           // the sum of their counts
+    bool compile_database = false;        // a compile_commands.json was given or found
+    unsigned files_without_compile_flags = 0; // measured files no compile_commands.json entry
+                                              // covers (every one when there is none)
+    std::vector<UnmeasuredLines> unmeasured;  // per changed C/C++ file with changed lines outside
+                                              // every measured function, by path
+    unsigned unmeasured_lines = 0;            // the sum of their counts
 };
 
 // Sort `functions` for reports: largest effort growth first, then by path, line and name, so

@@ -3,10 +3,12 @@
 #include "gate/delta/measure_change.hpp"
 
 #include "gate/delta/compare.hpp"
+#include "gate/delta/snapshot_check.hpp"
 #include "gate/delta/unmeasured_lines.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
-#include "gate/lexer/missing_headers.hpp"
+#include "gate/lexer/lexical_fallback.hpp"
 
 #include <algorithm>
 #include <fmt/format.h>
@@ -38,13 +40,15 @@ SideSources read_side_sources(const walker::Repository& repository,
     bool any = false;
     for (const auto& file : changes.files) {
         sources.changed.push_back(walker::read_side(repository, changes, file, side));
-        any = any || sources.changed.back().has_value();
+        // Only C/C++ files need the side's headers; a Java file stands alone.
+        any = any || (sources.changed.back() && !is_java_path(sources.changed.back()->path));
     }
     if (any) {
         sources.tree = walker::read_side_tree(repository, changes, side);
     }
-    sources.context = lexer::make_parse_context(sources.tree, settings.compile_commands_json,
-                                                settings.compile_commands_root);
+    sources.context =
+        lexer::make_parse_context(sources.tree, settings.compile_commands_json,
+                                  settings.compile_commands_root, settings.compile_commands_origin);
     lexer::add_include_dirs(sources.context, sources.tree, settings.include_dirs);
     sources.context.convention = settings.convention;
     sources.context.cache_dir = settings.cache_dir;
@@ -73,10 +77,121 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
         parsed = lexer::lex_jobs(missing, settings.jobs);
     }
     for (std::size_t k = 0; k < parsed.size(); ++k) {
-        settings.lex_cache->store(*missing[k].file, *missing[k].context, parsed[k]);
+        // A time limit depends on this run's limits and load, not only on the file: not kept.
+        if (parsed[k].parser_stop == lexer::ParserStop::timed_out) {
+            settings.lex_cache->abandon(*missing[k].file, *missing[k].context);
+        } else {
+            settings.lex_cache->store(*missing[k].file, *missing[k].context, parsed[k]);
+        }
         lexed[missing_index[k]] = std::move(parsed[k]);
     }
     return lexed;
+}
+
+// Every file side lexed for one change, and where each changed file's sides are.
+struct LexedChange {
+    std::vector<lexer::LexJob> jobs;                  // one per file and side
+    std::vector<std::pair<std::size_t, Side>> owner;  // per job: changed file and side
+    std::vector<lexer::FileFunctions> lexed;          // per job
+    std::vector<std::optional<std::size_t>> base_job; // per changed file
+    std::vector<std::optional<std::size_t>> head_job; // per changed file
+};
+
+// Lex both sides of every changed file through one pool.
+LexedChange lex_change(const walker::ChangeSet& changes, const SideSources& base,
+                       const SideSources& head, const MeasureChangeSettings& settings) {
+    LexedChange change;
+    const std::size_t files = changes.files.size();
+    for (std::size_t i = 0; i < files; ++i) {
+        if (base.changed[i]) {
+            change.jobs.push_back({&*base.changed[i], &base.context});
+            change.owner.emplace_back(i, Side::base);
+        }
+        if (head.changed[i]) {
+            change.jobs.push_back({&*head.changed[i], &head.context});
+            change.owner.emplace_back(i, Side::head);
+        }
+    }
+    spdlog::debug("lexing {} file sides of {} changed files", change.jobs.size(), files);
+    change.lexed = lex_with_cache(change.jobs, settings);
+    change.base_job.resize(files);
+    change.head_job.resize(files);
+    for (std::size_t j = 0; j < change.lexed.size(); ++j) {
+        const auto [index, side] = change.owner[j];
+        (side == Side::base ? change.base_job : change.head_job)[index] = j;
+    }
+    return change;
+}
+
+bool stopped(const LexedChange& change, const std::optional<std::size_t>& job) {
+    return job && change.lexed[*job].parser_stop != lexer::ParserStop::none;
+}
+
+// Where the parser stopped on one side of a file, measure the other side lexically too, so that
+// base and head are counted by the same rules. Return, per changed file, whether either side
+// was measured lexically for that reason.
+std::vector<bool> measure_sides_alike(LexedChange& change, const walker::ChangeSet& changes) {
+    std::vector<bool> lexical(changes.files.size(), false);
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const bool head_stopped = stopped(change, change.head_job[i]);
+        const bool base_stopped = stopped(change, change.base_job[i]);
+        lexical[i] = head_stopped || base_stopped;
+        if (head_stopped == base_stopped) {
+            continue;
+        }
+        const auto& other = head_stopped ? change.base_job[i] : change.head_job[i];
+        if (other) {
+            const std::string note = std::string("the parser stopped on the ") +
+                                     (head_stopped ? "head" : "base") +
+                                     " side of this file: this side is measured lexically too";
+            const lexer::LexJob& job = change.jobs[*other];
+            change.lexed[*other] =
+                lexer::lex_lexically(*job.file, *job.context, lexer::ParserStop::none, note);
+        }
+    }
+    return lexical;
+}
+
+// The two sides of every changed file, for compare_functions; warnings go to `report`.
+std::vector<FileSides> assemble_sides(const LexedChange& change, const walker::ChangeSet& changes,
+                                      ChangeReport& report) {
+    std::vector<FileSides> sides(changes.files.size());
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        sides[i].base_path = file.base_path;
+        sides[i].head_path = file.head_path;
+        sides[i].base_lines = &file.base_lines;
+        sides[i].head_lines = &file.head_lines;
+    }
+    for (std::size_t j = 0; j < change.lexed.size(); ++j) {
+        const auto [index, side] = change.owner[j];
+        (side == Side::base ? sides[index].base : sides[index].head) =
+            side_functions(&change.lexed[j]);
+        for (const auto& w : change.lexed[j].warnings) {
+            report.warnings.push_back(
+                {side == Side::base ? "base" : "head", w.path, w.line, w.message});
+        }
+    }
+    return sides;
+}
+
+// Compare `parsed`, the touched functions measured from `sides`, with the same change measured
+// with `snapshot`'s base functions in place of the parsed ones. Files measured lexically because
+// the parser stopped on a side keep their parsed base: the snapshot holds what the parser saw.
+SnapshotCheck compare_with_snapshot(const std::vector<FileSides>& sides,
+                                    const walker::ChangeSet& changes,
+                                    const baseline::Snapshot& snapshot,
+                                    const std::vector<bool>& measured_lexically,
+                                    const std::vector<FunctionDelta>& parsed,
+                                    const core::MeasureSettings& measures) {
+    std::vector<FileSides> recorded = sides;
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const std::string& path = changes.files[i].base_path;
+        if (!path.empty() && !measured_lexically[i]) {
+            recorded[i].base = side_functions(snapshot, path);
+        }
+    }
+    return check_base_snapshot(parsed, compare_functions(recorded, measures));
 }
 
 } // namespace
@@ -90,7 +205,7 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
                             : label_for(changes.range.head_name, changes.range.head);
     report.base_commit = changes.range.base.hex;
     report.head_commit = changes.range.head.hex;
-    report.convention = core::fingerprint(settings.convention);
+    report.convention = java::build_fingerprint(settings.convention);
     if (!changes.range.note.empty()) {
         report.notes.push_back(changes.range.note);
     }
@@ -104,76 +219,42 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         return report;
     }
 
-    const bool base_from_snapshot = settings.base_snapshot != nullptr &&
-                                    settings.base_snapshot->commit == changes.range.base.hex;
-    if (base_from_snapshot) {
-        report.notes.push_back("base-side measures come from the baseline snapshot " +
-                               settings.base_snapshot_path + " of " +
-                               changes.range.base.short_hex() + " (the base was not re-parsed)");
-    }
-    const SideSources base = base_from_snapshot
-                                 ? SideSources{}
-                                 : read_side_sources(repository, changes, Side::base, settings);
+    // The base is always parsed: a snapshot of it is only compared (see check_base_snapshot).
+    const SideSources base = read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
 
-    // One job per file and side; both sides go through one pool.
-    std::vector<lexer::LexJob> jobs;
-    std::vector<std::pair<std::size_t, Side>> job_owner;
+    // A file takes its flags from the side it is read on (head, else base): say how many had
+    // none, so that the reports can tell how to give a compile database.
+    report.compile_database = !settings.compile_commands_json.empty();
     for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        if (!base_from_snapshot && base.changed[i]) {
-            jobs.push_back({&*base.changed[i], &base.context});
-            job_owner.emplace_back(i, Side::base);
-        }
-        if (head.changed[i]) {
-            jobs.push_back({&*head.changed[i], &head.context});
-            job_owner.emplace_back(i, Side::head);
+        const SideSources& side = head.changed[i] ? head : base;
+        const auto& file = head.changed[i] ? head.changed[i] : base.changed[i];
+        if (file && side.context.file_flags.count(file->path) == 0) {
+            ++report.files_without_compile_flags;
         }
     }
-    spdlog::debug("lexing {} file sides of {} changed files", jobs.size(), changes.files.size());
-    const std::vector<lexer::FileFunctions> lexed = lex_with_cache(jobs, settings);
-
-    std::vector<FileSides> sides(changes.files.size());
-    for (std::size_t i = 0; i < changes.files.size(); ++i) {
-        const auto& file = changes.files[i];
-        sides[i].base_path = file.base_path;
-        sides[i].head_path = file.head_path;
-        sides[i].base_lines = &file.base_lines;
-        sides[i].head_lines = &file.head_lines;
-        if (base_from_snapshot && !file.base_path.empty()) {
-            sides[i].base = side_functions(*settings.base_snapshot, file.base_path);
-        }
-    }
-    std::vector<lexer::LexWarning> base_warnings, head_warnings;
-    for (std::size_t j = 0; j < lexed.size(); ++j) {
-        const auto [index, side] = job_owner[j];
-        (side == Side::base ? sides[index].base : sides[index].head) = side_functions(&lexed[j]);
-        auto& warnings = side == Side::base ? base_warnings : head_warnings;
-        warnings.insert(warnings.end(), lexed[j].warnings.begin(), lexed[j].warnings.end());
-    }
-    bool headers_missing = false;
-    for (const auto side : {Side::base, Side::head}) {
-        const auto summary =
-            lexer::summarise_missing_headers(side == Side::base ? base_warnings : head_warnings);
-        headers_missing = headers_missing || summary.headers_missing;
-        for (const auto& w : summary.warnings) {
-            report.warnings.push_back(
-                {side == Side::base ? "base" : "head", w.path, w.line, w.message});
-        }
-    }
-    if (headers_missing) {
-        report.notes.push_back(lexer::include_folder_hint());
-    }
+    LexedChange lexed = lex_change(changes, base, head, settings);
+    const std::vector<bool> measured_lexically = measure_sides_alike(lexed, changes);
+    const std::vector<FileSides> sides = assemble_sides(lexed, changes, report);
     report.functions = compare_functions(sides, settings.measures);
+    if (settings.base_snapshot != nullptr && settings.snapshot_check != nullptr &&
+        settings.base_snapshot->commit == changes.range.base.hex) {
+        *settings.snapshot_check =
+            compare_with_snapshot(sides, changes, *settings.base_snapshot, measured_lexically,
+                                  report.functions, settings.measures);
+    }
     compute_totals(report);
     for (std::size_t i = 0; i < changes.files.size(); ++i) {
         const auto& file = changes.files[i];
-        const std::optional<SourceFile> base_file =
-            base_from_snapshot ? walker::read_side(repository, changes, file, Side::base)
-                               : base.changed[i];
+        const std::string& path = file.head_path.empty() ? file.base_path : file.head_path;
+        if (is_java_path(path)) {
+            continue; // the lines outside functions are counted for C and C++ files
+        }
+        const auto& base_file = base.changed[i];
         const auto& head_file = head.changed[i];
-        UnmeasuredLines lines = unmeasured_lines(
-            file.head_path.empty() ? file.base_path : file.head_path, sides[i],
-            base_file ? &base_file->content : nullptr, head_file ? &head_file->content : nullptr);
+        UnmeasuredLines lines =
+            unmeasured_lines(path, sides[i], base_file ? &base_file->content : nullptr,
+                             head_file ? &head_file->content : nullptr);
         if (lines.count > 0) {
             report.unmeasured_lines += lines.count;
             report.unmeasured.push_back(std::move(lines));

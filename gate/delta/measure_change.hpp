@@ -5,7 +5,9 @@
 
 #include "gate/baseline/snapshot.hpp"
 #include "gate/delta/function_delta.hpp"
+#include "gate/delta/snapshot_check.hpp"
 #include "gate/lexer/lex_cache.hpp"
+#include "gate/lexer/lexer.hpp"
 #include "gate/walker/change_set.hpp"
 #include "gate/walker/repository.hpp"
 #include "tollgate/core/convention.hpp"
@@ -19,25 +21,30 @@ namespace tollgate::delta {
 
 // Settings of the measuring pipeline.
 struct MeasureChangeSettings {
-    core::MeasureSettings measures;        // Stroud number
-    core::Convention convention;           // counting convention switches
-    std::string compile_commands_json;     // text of a compile_commands.json, or empty
-    std::string compile_commands_root;     // absolute folder its paths are relative to
+    core::MeasureSettings measures;    // Stroud number
+    core::Convention convention;       // counting convention switches
+    std::string compile_commands_json; // text of a compile_commands.json, or empty
+    std::string compile_commands_root; // absolute folder its paths are relative to
+    lexer::DatabaseOrigin compile_commands_origin =
+        lexer::DatabaseOrigin::found;      // given by the pipeline (trusted) or found
     std::string cache_dir;                 // precompiled-header cache; empty disables it
     std::vector<std::string> include_dirs; // -I folders for files without compile-database
                                            // flags, as lexer::add_include_dirs takes them
     unsigned jobs = 0;                     // parser threads, 0 = all cores
     lexer::LexCache* lex_cache = nullptr;  // lexed files to reuse and to keep (not owned);
                                            // null parses every file
-    const baseline::Snapshot* base_snapshot = nullptr; // a snapshot of the base commit: its
-                                                       // measures replace parsing the base side;
-                                                       // ignored when its commit is not the base
-    std::string base_snapshot_path;                    // where it was read, for the report's note
+    const baseline::Snapshot* base_snapshot = nullptr; // a trusted snapshot to compare with the
+                                                       // parsed base when it is of the base
+                                                       // commit (not owned); may be null
+    SnapshotCheck* snapshot_check = nullptr;           // receives that comparison (not owned); the
+                                                       // comparison is made only when this is set
 };
 
 // Measure the change `changes` in `repository`: each changed C/C++ file is parsed once per side
 // (headers of the same revision supplied from memory), and only touched functions are measured.
-// With a snapshot of the base commit in `settings`, the base side is read from it instead.
+// With a snapshot of the base commit and a `snapshot_check` in `settings`, every touched base
+// function of the snapshot is compared with the parsed one (see check_base_snapshot); the
+// report's base sides are always the parsed ones.
 // Throws Failure when a blob cannot be read or libclang fails.
 ChangeReport measure_change(const walker::Repository& repository, const walker::ChangeSet& changes,
                             const MeasureChangeSettings& settings);

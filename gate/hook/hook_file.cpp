@@ -91,13 +91,13 @@ std::string hook_script(const std::string& binary, bool chained) {
     script += "tollgate=" + quote_for_sh(binary) + "\n";
     script += "if [ ! -x \"$tollgate\" ]; then tollgate=tollgate; fi\n";
     if (!chained) {
-        script += "exec \"$tollgate\" hook run \"$@\"\n";
+        script += "exec \"$tollgate\" hook run -- \"$@\"\n";
         return script;
     }
     // git writes the refs once on standard input: keep them for both hooks.
     script += std::string("refs=$(mktemp) || exit 1\n") + "trap 'rm -f \"$refs\"' EXIT\n" +
               "cat >\"$refs\"\n" + "\"$(dirname \"$0\")/" + k_chained_name +
-              "\" \"$@\" <\"$refs\" || exit $?\n" + "\"$tollgate\" hook run \"$@\" <\"$refs\"\n";
+              "\" \"$@\" <\"$refs\" || exit $?\n" + "\"$tollgate\" hook run -- \"$@\" <\"$refs\"\n";
     return script;
 }
 

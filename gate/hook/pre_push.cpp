@@ -31,7 +31,13 @@ bool ask_git(const std::vector<std::string>& args, std::string& out) {
 
 bool has_commit(const std::string& sha) {
     std::string ignored;
-    return ask_git({"cat-file", "-e", sha + "^{commit}"}, ignored);
+    return ask_git({"cat-file", "-e", "--end-of-options", sha + "^{commit}"}, ignored);
+}
+
+// Return whether `sha` is a full object id: 40 (SHA-1) or 64 (SHA-256) lowercase hex digits.
+bool is_object_id(const std::string& sha) {
+    return (sha.size() == 40 || sha.size() == 64) &&
+           sha.find_first_not_of("0123456789abcdef") == std::string::npos;
 }
 
 // Return the remote's default branch as a remote-tracking ref, or empty when none is known.
@@ -43,7 +49,8 @@ std::string remote_default_branch(const std::string& remote) {
     }
     for (const char* name : {"main", "master"}) {
         const std::string ref = "refs/remotes/" + remote + "/" + name;
-        if (ask_git({"rev-parse", "--verify", "--quiet", ref + "^{commit}"}, target)) {
+        if (ask_git({"rev-parse", "--verify", "--quiet", "--end-of-options", ref + "^{commit}"},
+                    target)) {
             return ref;
         }
     }
@@ -59,7 +66,8 @@ RefPlan plan_new_history(RefPlan plan, const std::string& remote) {
     const std::string& head = plan.ref.local_sha;
     const std::string default_ref = remote_default_branch(remote);
     std::string base;
-    if (!default_ref.empty() && ask_git({"merge-base", head, default_ref}, base) && !base.empty()) {
+    if (!default_ref.empty() &&
+        ask_git({"merge-base", "--end-of-options", head, default_ref}, base) && !base.empty()) {
         plan.reason = "merge base with " + default_ref.substr(std::string("refs/remotes/").size());
     } else {
         std::string listed;
@@ -70,7 +78,9 @@ RefPlan plan_new_history(RefPlan plan, const std::string& remote) {
             plan.reason = "every commit is on a remote-tracking ref already";
             return plan;
         }
-        if (!ask_git({"rev-parse", "--verify", "--quiet", first + "^1"}, base) || base.empty()) {
+        if (!ask_git({"rev-parse", "--verify", "--quiet", "--end-of-options", first + "^1"},
+                     base) ||
+            base.empty()) {
             plan.action = RefAction::skip;
             plan.reason = "its history has no commit on a remote to compare with";
             return plan;
@@ -86,6 +96,17 @@ RefPlan plan_new_history(RefPlan plan, const std::string& remote) {
     plan.base = base;
     plan.head = head;
     return plan;
+}
+
+// The ids reach git's command line: only full hexadecimal object ids pass.
+void check_object_ids(const PushedRef& ref, int number) {
+    for (const std::string* sha : {&ref.local_sha, &ref.remote_sha}) {
+        if (!is_object_id(*sha)) {
+            throw UsageError("pre-push input line " + std::to_string(number) +
+                             ": expected a full hexadecimal object id, got \"" + *sha +
+                             "\" (is the hook called by git?)");
+        }
+    }
 }
 
 } // namespace
@@ -111,6 +132,7 @@ std::vector<PushedRef> parse_pushed_refs(const std::string& text) {
                              "LOCAL-REF LOCAL-SHA REMOTE-REF REMOTE-SHA\", got \"" + trim(line) +
                              "\" (is the hook called by git?)");
         }
+        check_object_ids(ref, number);
         refs.push_back(ref);
     }
     return refs;

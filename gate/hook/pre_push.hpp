@@ -21,7 +21,8 @@ struct PushedRef {
 
 // Parse the pre-push standard input `text` (one ref per line, four fields separated by spaces).
 // Blank lines are skipped; an empty input yields none. Throws UsageError naming the line when a
-// line does not have four fields.
+// line does not have four fields or an object id is not 40 or 64 lowercase hex digits (ids are
+// passed to git, so nothing that could read as an option gets through).
 std::vector<PushedRef> parse_pushed_refs(const std::string& text);
 
 // Return true when `sha` is an all-zero object id (git's "no such ref").

@@ -12,8 +12,22 @@ namespace tollgate::lexer {
 
 // How a function's extent was found.
 enum class ExtentMode {
-    syntax_tree, // libclang's AST gave the definition and its extent
-    lexical,     // libclang lost it; balanced braces after a parameter list gave the extent
+    syntax_tree,    // libclang's AST gave the definition and its extent
+    lexical,        // libclang lost it; balanced braces after a parameter list gave the extent
+    parser_stopped, // the parser stopped on the whole file (crash, memory, time): the lexical
+                    // scanner found the extent and neighbouring tokens classified every token
+};
+
+// Return the name reports use for `mode`: "syntax-tree", "lexical" or "parser-stopped".
+const char* extent_name(ExtentMode mode);
+
+// Why the parser gave up on a whole file, which was then measured by the lexical scanner alone.
+enum class ParserStop {
+    none,          // the parser finished the file
+    crashed,       // the parser process died on a signal (stack exhaustion, a bug)
+    out_of_memory, // it reached its address-space limit
+    timed_out,     // it passed its processor-time or wall-clock limit
+    failed,        // libclang reported that it could not parse the file
 };
 
 // One function definition of one file, with its counted tokens.
@@ -53,10 +67,11 @@ struct LexWarning {
 
 // The functions of one file.
 struct FileFunctions {
-    std::string path;                    // repository-relative path
-    std::vector<FunctionSpan> functions; // ordered by start line, then fallback key
-    std::vector<LexWarning> warnings;    // parse errors and recovered regions
-    unsigned lexically_recovered = 0;    // functions whose extent came from the lexical check
+    std::string path;                          // repository-relative path
+    std::vector<FunctionSpan> functions;       // ordered by start line, then fallback key
+    std::vector<LexWarning> warnings;          // parse errors and recovered regions
+    unsigned lexically_recovered = 0;          // functions whose extent came from the lexical check
+    ParserStop parser_stop = ParserStop::none; // set when the whole file was measured lexically
 };
 
 } // namespace tollgate::lexer

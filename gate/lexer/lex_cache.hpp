@@ -24,6 +24,12 @@ public:
     // error: the next run parses again.
     virtual void store(const SourceFile& file, const ParseContext& context,
                        const FileFunctions& functions) = 0;
+    // Keep nothing for `file` with `context` after a find that missed: its result depends on
+    // more than the key (the parser passed a time limit). The default does nothing.
+    virtual void abandon(const SourceFile& file, const ParseContext& context) {
+        (void)file;
+        (void)context;
+    }
 };
 
 } // namespace tollgate::lexer

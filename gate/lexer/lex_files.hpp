@@ -1,5 +1,6 @@
 // SPDX-License-Identifier: MIT
-// Lex many files in parallel, one libclang index per thread, with deterministic results.
+// Lex many files in parallel, in parser processes with limits (see isolation.hpp), with
+// deterministic results.
 #pragma once
 
 #include "gate/common/source.hpp"
@@ -16,8 +17,11 @@ struct LexJob {
     const ParseContext* context = nullptr; // its revision's headers and flags (not owned)
 };
 
-// Lex every job of `jobs_list` on `jobs` threads (0 = all cores) and return one FileFunctions
-// per job, in the order of `jobs_list`: the same result for any `jobs`.
+// Lex every job of `jobs_list` on `jobs` parser processes (0 = all cores) and return one
+// FileFunctions per job, in the order of `jobs_list`: the same result for any `jobs`. A file the
+// parser stops on (crash, memory, time) is measured lexically with a warning (see lex_pool.hpp).
+// With isolation switched off (current_isolation().in_process) the files are parsed on threads
+// of this process instead. Throws Failure when no parser process can be started.
 std::vector<FileFunctions> lex_jobs(const std::vector<LexJob>& jobs_list, unsigned jobs = 0,
                                     const std::function<void(const FileFunctions&)>& on_done = {});
 

@@ -5,11 +5,14 @@
 #include "gate/common/errors.hpp"
 #include "gate/lexer/clang_handles.hpp"
 #include "gate/lexer/extent_check.hpp"
+#include "gate/lexer/function_finish.hpp"
 #include "gate/lexer/inactive_code.hpp"
 #include "gate/lexer/leading_macros.hpp"
 #include "gate/lexer/lexical_scan.hpp"
 #include "gate/lexer/macro_names.hpp"
+#include "gate/lexer/parse_diagnostics.hpp"
 #include "gate/lexer/pch_cache.hpp"
+#include "gate/lexer/source_lines.hpp"
 #include "gate/lexer/source_token.hpp"
 #include "gate/lexer/token_classifier.hpp"
 
@@ -23,9 +26,6 @@ namespace tollgate::lexer {
 namespace {
 
 constexpr std::size_t k_npos = static_cast<std::size_t>(-1);
-
-// Parse errors reported per file; the rest are summed up in one more warning.
-constexpr std::size_t k_max_error_warnings = 20;
 
 // The unsaved-file list and include flags of one ParseContext, built once.
 struct PreparedContext {
@@ -47,30 +47,6 @@ struct FoundFunction {
 std::string folder_of(const std::string& path) {
     const auto slash = path.find_last_of('/');
     return slash == std::string::npos ? std::string() : path.substr(0, slash);
-}
-
-std::string hex64(std::uint64_t value) {
-    char text[17];
-    std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(value));
-    return text;
-}
-
-// Return the digest of the tokens' keys and roles, in order (lines left out).
-std::string hash_tokens(const core::TokenList& tokens) {
-    std::uint64_t hash = 1469598103934665603ULL;
-    auto mix = [&hash](unsigned char c) {
-        hash ^= c;
-        hash *= 1099511628211ULL;
-    };
-    for (const core::Token& token : tokens) {
-        for (unsigned char c : token.key) {
-            mix(c);
-        }
-        mix(0x1f);
-        mix(token.role == core::Role::operator_token ? 'o' : 'd');
-        mix(0x1e);
-    }
-    return hex64(hash);
 }
 
 bool is_function_cursor(CXCursorKind kind) {
@@ -145,19 +121,6 @@ bool has_result(CXCursor cursor) {
     return result.kind != CXType_Void && result.kind != CXType_Invalid;
 }
 
-DirectiveKind directive_kind(const std::string& word) {
-    if (word == "if" || word == "ifdef" || word == "ifndef") {
-        return DirectiveKind::open_condition;
-    }
-    if (word == "elif" || word == "else" || word == "elifdef" || word == "elifndef") {
-        return DirectiveKind::alternative;
-    }
-    if (word == "endif") {
-        return DirectiveKind::close_condition;
-    }
-    return DirectiveKind::other;
-}
-
 core::LexKind lex_kind(CXTokenKind kind) {
     switch (kind) {
     case CXToken_Keyword:
@@ -171,34 +134,6 @@ core::LexKind lex_kind(CXTokenKind kind) {
         break;
     }
     return core::LexKind::punctuation;
-}
-
-// Line starts of `content`, for offset -> line.
-std::vector<unsigned> line_starts(const std::string& content) {
-    std::vector<unsigned> starts = {0};
-    for (std::size_t i = 0; i < content.size(); ++i) {
-        if (content[i] == '\n') {
-            starts.push_back(static_cast<unsigned>(i + 1));
-        }
-    }
-    return starts;
-}
-
-unsigned line_of(const std::vector<unsigned>& starts, unsigned offset) {
-    return static_cast<unsigned>(std::upper_bound(starts.begin(), starts.end(), offset) -
-                                 starts.begin());
-}
-
-// Return true when line `line` (1-based) ends with a backslash continuation.
-bool continues(const std::string& content, const std::vector<unsigned>& starts, unsigned line) {
-    if (line >= starts.size()) {
-        return false;
-    }
-    std::size_t end = starts[line] - 1; // the '\n'
-    while (end > starts[line - 1] && (content[end - 1] == '\r')) {
-        --end;
-    }
-    return end > starts[line - 1] && content[end - 1] == '\\';
 }
 
 // Everything one parse of one file produced.
@@ -373,30 +308,6 @@ bool from_macro(CXCursor cursor) {
     return spelling != expansion || spelling_file != expansion_file;
 }
 
-// Return the `{` that opens the body ending at `last`, or `first` when braces do not match.
-std::size_t body_open(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t last) {
-    if (!is_punct(tokens[last], "}")) {
-        return first;
-    }
-    int depth = 0;
-    for (std::size_t i = last + 1; i-- > first;) {
-        if (is_punct(tokens[i], "}")) {
-            ++depth;
-        } else if (is_punct(tokens[i], "{") && --depth == 0) {
-            return i;
-        }
-    }
-    return first;
-}
-
-std::string strip_virtual_root(std::string text) {
-    const std::string root = k_virtual_root;
-    for (auto at = text.find(root); at != std::string::npos; at = text.find(root, at)) {
-        text.erase(at, root.size());
-    }
-    return text;
-}
-
 } // namespace
 
 struct Lexer::Impl {
@@ -439,6 +350,10 @@ Lexer::Lexer() : m_impl(std::make_unique<Impl>()) {
 }
 
 Lexer::~Lexer() = default;
+
+void Lexer::forget(const ParseContext& context) {
+    m_impl->prepared.erase(&context);
+}
 
 FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& context) {
     FileFunctions result;
@@ -543,35 +458,9 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
                       "\" (run with --verbose for details)");
     }
 
-    // Parse errors become warnings.
+    // Parse errors become warnings, in words that never quote a header outside the revision.
     CXFile main_file = clang_getFile(unit.get(), main_path.c_str());
-    std::size_t errors = 0;
-    const unsigned diagnostic_count = clang_getNumDiagnostics(unit.get());
-    for (unsigned i = 0; i < diagnostic_count; ++i) {
-        DiagnosticHandle diagnostic(clang_getDiagnostic(unit.get(), i));
-        if (clang_getDiagnosticSeverity(diagnostic.get()) < CXDiagnostic_Error) {
-            continue;
-        }
-        if (++errors > k_max_error_warnings) {
-            continue;
-        }
-        CXFile where = nullptr;
-        unsigned line = 0;
-        clang_getExpansionLocation(clang_getDiagnosticLocation(diagnostic.get()), &where, &line,
-                                   nullptr, nullptr);
-        std::string message =
-            strip_virtual_root(take_string(clang_getDiagnosticSpelling(diagnostic.get())));
-        if (where != main_file) {
-            const std::string header = strip_virtual_root(take_string(clang_getFileName(where)));
-            message = "in \"" + header + "\": " + message;
-            line = 0;
-        }
-        result.warnings.push_back({file.path, line, message});
-    }
-    if (errors > k_max_error_warnings) {
-        result.warnings.push_back(
-            {file.path, 0, std::to_string(errors - k_max_error_warnings) + " more errors"});
-    }
+    result.warnings = diagnostics_as_warnings(unit.get(), main_file, file.path);
 
     const ParsedFile parsed = tokenize_file(unit.get(), main_file, file.content);
     const std::vector<SourceToken>& tokens = parsed.tokens;
@@ -580,13 +469,7 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     collector.main_file = main_file;
     clang_visitChildren(clang_getTranslationUnitCursor(unit.get()), collect_functions, &collector);
 
-    struct Pending {
-        FunctionSpan span;
-        ClassifyRange range;
-        bool lexical = false;
-        std::size_t first = 0;
-    };
-    std::vector<Pending> pending;
+    std::vector<PendingFunction> pending;
     std::vector<std::pair<std::size_t, std::size_t>> taken; // token ranges of parsed functions
     std::vector<FoundFunction> located;
     for (const CXCursor& cursor : collector.functions) {
@@ -641,7 +524,7 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
             continue;
         }
         taken.emplace_back(found->first, found->last);
-        Pending item;
+        PendingFunction item;
         item.first = found->first;
         item.span.usr = take_string(clang_getCursorUSR(cursor));
         const ReadableName readable = readable_name(cursor, qualified_name(cursor), tokens,
@@ -681,7 +564,7 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         }
         const bool inactive = inside_skipped(skipped, tokens[definition.first].offset,
                                              tokens[definition.body_close].offset);
-        Pending item;
+        PendingFunction item;
         item.lexical = true;
         item.first = definition.first;
         item.span.qualified_name = definition.qualified_name;
@@ -709,29 +592,8 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         pending.push_back(std::move(item));
     }
 
-    // Fallback keys number same-named functions in source order.
-    std::sort(pending.begin(), pending.end(),
-              [](const Pending& a, const Pending& b) { return a.first < b.first; });
-    std::map<std::string, unsigned> ordinals;
-    for (Pending& item : pending) {
-        FunctionSpan& span = item.span;
-        span.path = file.path;
-        const std::string base = span.qualified_name + "(" + span.signature + ")";
-        span.fallback_key = base + "#" + std::to_string(ordinals[base]++);
-        ClassifyRange range = item.range;
-        if (context.convention.body_only) {
-            range.begin = body_open(tokens, range.begin, range.end);
-        }
-        span.tokens = classify_tokens(tokens, item.lexical ? nullptr : &parsed.cursors, range,
-                                      context.convention);
-        span.token_hash = hash_tokens(span.tokens);
-        result.functions.push_back(std::move(span));
-    }
-    std::stable_sort(result.functions.begin(), result.functions.end(),
-                     [](const FunctionSpan& a, const FunctionSpan& b) {
-                         return a.start_line != b.start_line ? a.start_line < b.start_line
-                                                             : a.fallback_key < b.fallback_key;
-                     });
+    result.functions = finish_functions(std::move(pending), file.path, tokens, &parsed.cursors,
+                                        context.convention);
     return result;
 }
 

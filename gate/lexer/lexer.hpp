@@ -38,16 +38,30 @@ struct ParseContext {
     core::Convention convention;            // counting convention switches
     std::string cache_dir;                  // where precompiled standard headers are kept;
                                             // empty disables the cache
+    std::vector<std::string> trusted_dirs;  // folders outside the repository the parser may read
+                                            // (-I, -isystem, -iquote and -include of a compile
+                                            // database the pipeline gave with --compile-commands)
+};
+
+// Where a compile database came from, which decides whether its folders outside the repository
+// may be read.
+enum class DatabaseOrigin {
+    given, // named by the pipeline (--compile-commands): trusted, its folders may be read
+    found, // found in the working tree (it may come with the change): its folders outside the
+           // repository are left out unless they are system include folders
 };
 
 // Build the shared parse context of one revision: keep the headers of `files`, and derive include
 // folders (the repository root "" and every folder named include/). `compile_commands_json`, when
 // non-empty, is the text of a compile_commands.json; its file paths and path flags are made
 // relative to `repository_root` (an absolute path in the user's checkout); entries outside it are
-// left out. Throws UsageError when `compile_commands_json` is not a JSON list.
+// left out. Path flags outside the repository are kept (and their folders become trusted_dirs)
+// when `origin` is given; when it is found, only those under a system include folder are kept.
+// Throws UsageError when `compile_commands_json` is not a JSON list.
 ParseContext make_parse_context(const std::vector<SourceFile>& files,
                                 const std::string& compile_commands_json = {},
-                                const std::string& repository_root = {});
+                                const std::string& repository_root = {},
+                                DatabaseOrigin origin = DatabaseOrigin::found);
 
 // Return the compile-database flags for `path`: its own entry, else (a header, or a source the
 // build does not list) the entry of the same language whose folder shares the longest leading
@@ -74,6 +88,10 @@ public:
     // definition in it with classified tokens. Never throws for bad source: syntax errors become
     // warnings and what can be measured is measured. Throws Failure when libclang itself fails.
     FileFunctions lex_functions(const SourceFile& file, const ParseContext& context);
+
+    // Drop what was prepared for `context` (its in-memory file list); call it before `context`
+    // is destroyed if another context may later live at the same address.
+    void forget(const ParseContext& context);
 
 private:
     struct Impl;

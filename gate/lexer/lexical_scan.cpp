@@ -5,6 +5,7 @@
 #include "gate/lexer/lexical_signature.hpp"
 #include "gate/lexer/macro_names.hpp"
 
+#include <algorithm>
 #include <array>
 #include <optional>
 #include <string_view>
@@ -371,40 +372,77 @@ bool declares_type_at(const std::vector<SourceToken>& tokens, std::size_t first,
     return body != k_npos && declares_type(tokens, first, name, body);
 }
 
+// The scan state at an open #if, restored by its #else / #elif, and how many definitions had
+// been found before it.
+struct SavedCondition {
+    ScanState state;
+    std::size_t found_before = 0;
+    std::size_t opened_at = 0; // the first token after the #if
+};
+
+// Apply the conditional directive `mark` to the scan: an #if saves the state, an #else / #elif
+// restores it, an #endif forgets it. `found_count` is the number of definitions found so far.
+void apply_directive(const DirectiveMark& mark, std::size_t found_count, ScanState& state,
+                     std::vector<SavedCondition>& saved) {
+    switch (mark.kind) {
+    case DirectiveKind::open_condition:
+        saved.push_back({state, found_count, mark.before});
+        break;
+    case DirectiveKind::alternative:
+        if (!saved.empty()) {
+            state = saved.back().state;
+            // A branch that opened at a statement boundary starts its own statement: a
+            // declaration of the #else branch does not begin in the #if branch.
+            if (state.statement_start == saved.back().opened_at) {
+                state.statement_start = mark.before;
+            }
+            // A branch that completed a definition ended a statement inside itself: the next
+            // branch's statement starts after the directive, not before the #if (else
+            // `#if A f(){} #else f(){} #endif` would measure both as one).
+            const bool outside_function =
+                state.stack.empty() || state.stack.back().kind == ScopeKind::container;
+            if (outside_function && found_count > saved.back().found_before) {
+                state.statement_start = std::max(state.statement_start, mark.before);
+                state.pending_body = k_npos;
+                state.paren_depth = 0;
+            }
+        }
+        break;
+    case DirectiveKind::close_condition:
+        if (!saved.empty()) {
+            saved.pop_back();
+        }
+        break;
+    case DirectiveKind::other:
+        break;
+    }
+}
+
+// Add `definition` to `found`, keeping definitions apart. An #else restores the brace count of
+// its #if, so one header can be seen to close twice (`f() { #if X } #else } #endif`), or an
+// unbalanced #else can reopen a body that closed: a definition that starts no later than the
+// ones it overlaps replaces them (its extent holds both endings); one that starts inside an
+// earlier definition is a repeat of it and is dropped.
+void add_definition(std::vector<LexicalDefinition>& found, LexicalDefinition definition) {
+    while (!found.empty() && found.back().body_close >= definition.first &&
+           found.back().first >= definition.first) {
+        found.pop_back();
+    }
+    if (found.empty() || found.back().body_close < definition.first) {
+        found.push_back(std::move(definition));
+    }
+}
+
 std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& tokens,
                                                 const std::vector<DirectiveMark>& directives) {
     std::vector<LexicalDefinition> found;
     ScanState state;
-    std::vector<ScanState> saved;      // the state at each open #if, restored by #else / #elif
-    std::vector<std::size_t> saved_at; // the first token after each open #if
+    std::vector<SavedCondition> saved;
     std::size_t next_directive = 0;
     for (std::size_t i = 0; i < tokens.size(); ++i) {
-        while (next_directive < directives.size() && directives[next_directive].before <= i) {
-            switch (directives[next_directive].kind) {
-            case DirectiveKind::open_condition:
-                saved.push_back(state);
-                saved_at.push_back(directives[next_directive].before);
-                break;
-            case DirectiveKind::alternative:
-                if (!saved.empty()) {
-                    state = saved.back();
-                    // A branch that opened at a statement boundary starts its own statement: a
-                    // declaration of the #else branch does not begin in the #if branch.
-                    if (state.statement_start == saved_at.back()) {
-                        state.statement_start = directives[next_directive].before;
-                    }
-                }
-                break;
-            case DirectiveKind::close_condition:
-                if (!saved.empty()) {
-                    saved.pop_back();
-                    saved_at.pop_back();
-                }
-                break;
-            case DirectiveKind::other:
-                break;
-            }
-            ++next_directive;
+        for (; next_directive < directives.size() && directives[next_directive].before <= i;
+             ++next_directive) {
+            apply_directive(directives[next_directive], found.size(), state, saved);
         }
         const SourceToken& token = tokens[i];
         const bool in_function =
@@ -418,7 +456,7 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                 if (kind == ScopeKind::function) {
                     LexicalDefinition definition = state.open_function;
                     definition.body_close = i;
-                    found.push_back(std::move(definition));
+                    add_definition(found, std::move(definition));
                     state.statement_start = i + 1;
                 }
             }

@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // The shared parse context of one revision: headers, include folders, compile database flags.
 #include "gate/common/errors.hpp"
+#include "gate/isolate/path_guard.hpp"
 #include "gate/lexer/include_aliases.hpp"
 #include "gate/lexer/lexer.hpp"
 
@@ -9,6 +10,7 @@
 #include <filesystem>
 #include <nlohmann/json.hpp>
 #include <set>
+#include <spdlog/spdlog.h>
 
 namespace tollgate::lexer {
 
@@ -68,8 +70,26 @@ std::optional<std::string> inside(const fs::path& path, const fs::path& root) {
     return text == "." ? std::string() : text;
 }
 
-// Map a path flag's value: inside the repository it moves to the virtual root.
-std::string map_path(const std::string& value, const fs::path& directory, const fs::path& root) {
+// What the flags of one compile command may name outside the repository.
+struct HostPaths {
+    DatabaseOrigin origin = DatabaseOrigin::found;
+    std::vector<std::string> system_roots;         // system include folders (always allowed)
+    std::set<std::string>* trusted_dirs = nullptr; // collects the host paths a given database names
+};
+
+bool under_root(const std::string& path, const std::vector<std::string>& roots) {
+    for (const std::string& root : roots) {
+        if (path == root || path.rfind(root + "/", 0) == 0) {
+            return true;
+        }
+    }
+    return false;
+}
+
+// Map a path flag's value: inside the repository it moves to the virtual root; outside it stays a
+// host path when the database is trusted or the path is a system folder, else it is dropped.
+std::optional<std::string> map_path(const std::string& value, const fs::path& directory,
+                                    const fs::path& root, const HostPaths& host) {
     fs::path path(value);
     if (path.is_relative()) {
         path = directory / path;
@@ -77,11 +97,23 @@ std::string map_path(const std::string& value, const fs::path& directory, const 
     if (auto relative = inside(path, root)) {
         return std::string(k_virtual_root) + *relative;
     }
-    return path.lexically_normal().string();
+    const std::string host_path = path.lexically_normal().string();
+    if (under_root(host_path, host.system_roots)) {
+        return host_path;
+    }
+    if (host.origin == DatabaseOrigin::given) {
+        host.trusted_dirs->insert(host_path);
+        return host_path;
+    }
+    spdlog::debug("compile database found in the working tree names \"{}\" outside the "
+                  "repository: left out (pass it with --compile-commands to trust it)",
+                  host_path);
+    return std::nullopt;
 }
 
 std::vector<std::string> kept_flags(const std::vector<std::string>& words,
-                                    const fs::path& directory, const fs::path& root) {
+                                    const fs::path& directory, const fs::path& root,
+                                    const HostPaths& host) {
     std::vector<std::string> flags;
     static const std::vector<std::string> k_path_flags = {"-I", "-isystem", "-include", "-iquote"};
     for (std::size_t i = 0; i < words.size(); ++i) {
@@ -100,23 +132,23 @@ std::vector<std::string> kept_flags(const std::vector<std::string>& words,
             flags.push_back(word);
             continue;
         }
-        bool matched = false;
         for (const std::string& flag : k_path_flags) {
             if (word == flag) {
                 if (i + 1 < words.size()) {
-                    flags.push_back(flag);
-                    flags.push_back(map_path(words[++i], directory, root));
+                    if (auto mapped = map_path(words[++i], directory, root, host)) {
+                        flags.push_back(flag);
+                        flags.push_back(*mapped);
+                    }
                 }
-                matched = true;
                 break;
             }
             if (flag == "-I" && word.rfind(flag, 0) == 0) {
-                flags.push_back("-I" + map_path(word.substr(2), directory, root));
-                matched = true;
+                if (auto mapped = map_path(word.substr(2), directory, root, host)) {
+                    flags.push_back("-I" + *mapped);
+                }
                 break;
             }
         }
-        (void)matched;
     }
     return flags;
 }
@@ -139,7 +171,7 @@ std::optional<Language> language_for_path(const std::string& path, std::optional
 
 ParseContext make_parse_context(const std::vector<SourceFile>& files,
                                 const std::string& compile_commands_json,
-                                const std::string& repository_root) {
+                                const std::string& repository_root, DatabaseOrigin origin) {
     ParseContext context;
     std::set<std::string> include_dirs = {""};
     for (const SourceFile& file : files) {
@@ -177,6 +209,11 @@ ParseContext make_parse_context(const std::vector<SourceFile>& files,
                          "your build tool)");
     }
     const fs::path root(repository_root);
+    std::set<std::string> trusted;
+    HostPaths host;
+    host.origin = origin;
+    host.system_roots = isolate::system_include_roots();
+    host.trusted_dirs = &trusted;
     for (const auto& entry : database) {
         if (!entry.is_object() || !entry.contains("file") || !entry["file"].is_string()) {
             continue;
@@ -200,8 +237,9 @@ ParseContext make_parse_context(const std::vector<SourceFile>& files,
         } else if (entry.contains("command") && entry["command"].is_string()) {
             words = split_command(entry["command"].get<std::string>());
         }
-        context.file_flags[*relative] = kept_flags(words, directory, root);
+        context.file_flags[*relative] = kept_flags(words, directory, root, host);
     }
+    context.trusted_dirs.assign(trusted.begin(), trusted.end());
     return context;
 }
 
@@ -262,6 +300,13 @@ void add_include_dirs(ParseContext& context, const std::vector<SourceFile>& file
     std::vector<std::string> flags;
     for (const std::string& folder : folders) {
         flags.push_back("-I" + folder);
+        // A folder on disk was named by whoever runs Tollgate, never by the change: the parser
+        // process may read it.
+        if (folder.rfind(k_virtual_root, 0) != 0 &&
+            std::find(context.trusted_dirs.begin(), context.trusted_dirs.end(), folder) ==
+                context.trusted_dirs.end()) {
+            context.trusted_dirs.push_back(folder);
+        }
     }
     // Decide for every file first: an entry added here must not lend its flags to another file.
     std::vector<std::string> uncovered;

@@ -5,14 +5,17 @@
 #include "gate/lexer/clang_handles.hpp"
 
 #include <atomic>
+#include <cerrno>
 #include <cstdint>
 #include <cstdio>
+#include <fcntl.h>
 #include <filesystem>
 #include <fstream>
 #include <map>
 #include <mutex>
 #include <spdlog/spdlog.h>
 #include <sstream>
+#include <sys/file.h>
 #include <thread>
 #include <unistd.h>
 
@@ -37,6 +40,26 @@ constexpr const char* k_cxx_headers[] = {
 std::mutex g_mutex;
 std::map<std::string, std::string> g_known; // key -> path, empty when it could not be built
 std::atomic<unsigned> g_builds{0};
+
+// An exclusive flock on a file, held for the object's life (no lock when the file cannot be made).
+class FolderLock {
+public:
+    explicit FolderLock(const std::string& path)
+        : m_fd(::open(path.c_str(), O_RDWR | O_CREAT | O_CLOEXEC, 0644)) {
+        while (m_fd >= 0 && ::flock(m_fd, LOCK_EX) != 0 && errno == EINTR) {
+        }
+    }
+    ~FolderLock() {
+        if (m_fd >= 0) {
+            ::close(m_fd); // releases the lock
+        }
+    }
+    FolderLock(const FolderLock&) = delete;
+    FolderLock& operator=(const FolderLock&) = delete;
+
+private:
+    int m_fd;
+};
 
 std::uint64_t fnv1a(const std::string& text) {
     std::uint64_t hash = 1469598103934665603ULL;
@@ -160,6 +183,12 @@ std::string precompiled_header(const std::vector<std::string>& language_flags,
     }
     const std::string base = (fs::path(cache_dir) / (std::string("tollgate-std-") + name)).string();
     const std::string path = base + ".pch";
+    if (fs::exists(path, error)) {
+        result = path;
+        return result;
+    }
+    // Parser processes share the folder: one builds, the others wait and then reuse its file.
+    const FolderLock folder_lock(base + ".lock");
     if (fs::exists(path, error)) {
         result = path;
         return result;

@@ -9,8 +9,9 @@ namespace tollgate::lexer {
 
 // Return the path of a precompiled header of the common standard headers for `language_flags`
 // (e.g. {"-x", "c++", "-std=c++17"}) in `cache_dir`, building it on first use in this process
-// (thread-safe) or reusing a file an earlier run left there. Return an empty string when
-// `cache_dir` is empty or the header cannot be built; the reason is logged at debug level.
+// (thread-safe; parser processes sharing `cache_dir` take turns through a lock file) or reusing
+// a file an earlier run left there. Return an empty string when `cache_dir` is empty or the
+// header cannot be built; the reason is logged at debug level.
 std::string precompiled_header(const std::vector<std::string>& language_flags,
                                const std::string& cache_dir);
 

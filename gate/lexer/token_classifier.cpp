@@ -2,6 +2,7 @@
 // From annotated source tokens to counted tokens under the counting convention.
 #include "gate/lexer/token_classifier.hpp"
 
+#include "gate/lexer/angle_lists.hpp"
 #include "gate/lexer/lexical_scan.hpp"
 
 #include <array>
@@ -100,7 +101,8 @@ public:
                const ClassifyRange& range)
         : m_tokens(tokens), m_cursors(cursors), m_range(range),
           m_fallback(cursors != nullptr ? Basis::previous_token : Basis::lexical),
-          m_name_fallback(cursors != nullptr ? Basis::next_token : Basis::lexical) {}
+          m_name_fallback(cursors != nullptr ? Basis::next_token : Basis::lexical),
+          m_angles(tokens, range.begin, range.end) {}
 
     std::vector<RawToken> run() {
         std::vector<RawToken> result;
@@ -123,6 +125,7 @@ private:
     int m_depth = 0;                       // ( [ { nesting inside the function
     std::vector<int> m_template_depths;    // depth of each open template argument list
     std::vector<int> m_conditional_depths; // depth of each `?` waiting for its `:`
+    AngleLists m_angles;                   // which `<` open template argument lists
 
     const SourceToken* token_at(std::size_t i) const {
         return i < m_tokens.size() ? &m_tokens[i] : nullptr;
@@ -271,18 +274,7 @@ private:
     // Return true when the `<` at `open` has a matching `>` before anything that cannot be
     // inside a template argument list.
     bool looks_like_template_list(std::size_t open) const {
-        const std::size_t close = match_bracket(m_tokens, open);
-        if (close >= m_tokens.size() || close > m_range.end) {
-            return false;
-        }
-        for (std::size_t k = open + 1; k < close; ++k) {
-            const SourceToken& t = m_tokens[k];
-            if (is_punct(t, "&&") || is_punct(t, "||") || is_punct(t, "=") || is_punct(t, "?") ||
-                is_punct(t, "<=") || is_punct(t, ">=")) {
-                return false;
-            }
-        }
-        return true;
+        return m_angles.looks_like_template_list(open);
     }
 
     void form_of(std::size_t i, RawToken& raw, const std::vector<RawToken>& done) {

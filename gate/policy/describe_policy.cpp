@@ -50,6 +50,9 @@ void emit_globs(YAML::Emitter& out, const char* key, const std::vector<std::stri
 std::string describe_policy(const Policy& policy) {
     YAML::Emitter out;
     out.SetIndent(2);
+    // Control characters are escaped by the emitter; escaping every non-ASCII character too
+    // keeps invisible ones (a right-to-left override in a glob) visible, and stays valid YAML.
+    out.SetOutputCharset(YAML::EscapeNonAscii);
     out << YAML::BeginMap;
     out << YAML::Key << "tollgate-policy" << YAML::Value << policy.schema_version;
     out << YAML::Key << "judge-with" << YAML::Value << judge_with_name(policy.judge_with);

@@ -131,7 +131,8 @@ bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::Funct
     }
     for (const auto& floor : floors) {
         for (const auto* side : {&f.base, &f.head}) {
-            if (*side && core::measure_value((*side)->measures, floor.measure) >= floor.below) {
+            // Written so that a value that is not a number is judged rather than skipped.
+            if (*side && !(core::measure_value((*side)->measures, floor.measure) < floor.below)) {
                 return false;
             }
         }
@@ -218,44 +219,71 @@ Finding start_finding(const Rule& rule, const delta::FunctionDelta& f) {
     return finding;
 }
 
+// How a growth breaks a rule's percent limit.
+enum class PercentBreach {
+    none,      // it does not
+    percent,   // its percentage is above the limit
+    from_zero, // it grows from a zero base, where the limit allows no growth
+};
+
+PercentBreach percent_breach(const Rule& rule, const core::Delta& change) {
+    if (!rule.max_increase_percent) {
+        return PercentBreach::none;
+    }
+    if (change.percent) {
+        return *change.percent > *rule.max_increase_percent ? PercentBreach::percent
+                                                            : PercentBreach::none;
+    }
+    // A percent limit allows base * percent / 100 of growth; from a zero base that is nothing,
+    // so any growth breaks it, judged by its absolute value (the percentage is undefined).
+    return change.base == 0.0 && change.absolute > 0.0 ? PercentBreach::from_zero
+                                                       : PercentBreach::none;
+}
+
+// "+18,400 (+61%)", or "+937,250 (from 0)" when the percentage is undefined.
+std::string growth_text(const Rule& rule, const core::Delta& change) {
+    std::string text = rule.max_increase
+                           ? amount_beside(change.absolute, *rule.max_increase, Sign::always)
+                           : format_amount(change.absolute, Sign::always);
+    if (change.percent) {
+        return text + " (" +
+               percent_text(*change.percent, Sign::always, rule.max_increase_percent) + ")";
+    }
+    return change.base == 0.0 ? text + " (from 0)" : text;
+}
+
 std::optional<Finding> judge_growth(const Rule& rule, const delta::FunctionDelta& f) {
     const core::Delta change = f.delta(rule.measure);
     const bool over_absolute = rule.max_increase && change.absolute > *rule.max_increase;
-    const bool over_percent =
-        rule.max_increase_percent && change.percent && *change.percent > *rule.max_increase_percent;
-    if (!over_absolute && !over_percent) {
+    const PercentBreach breach = percent_breach(rule, change);
+    if (!over_absolute && breach == PercentBreach::none) {
         return std::nullopt;
     }
     Finding finding = start_finding(rule, f);
+    // The absolute limit gives the finding's value when both are broken.
+    finding.value = change.absolute;
+    finding.limit = over_absolute ? *rule.max_increase : 0.0;
+    finding.excess = change.absolute - finding.limit;
+    if (!over_absolute && breach == PercentBreach::percent) {
+        finding.value = *change.percent;
+        finding.limit = *rule.max_increase_percent;
+        finding.excess = *change.percent - *rule.max_increase_percent;
+        finding.percent = true;
+    }
     std::string limits;
     if (over_absolute) {
-        finding.value = change.absolute;
-        finding.limit = *rule.max_increase;
-        finding.excess = change.absolute - *rule.max_increase;
         limits = "the limit " + format_amount(*rule.max_increase, Sign::always) + " by " +
-                 amount_beside(finding.excess, 0, Sign::as_is);
+                 amount_beside(change.absolute - *rule.max_increase, 0, Sign::as_is);
     }
-    if (over_percent) {
-        const double excess = *change.percent - *rule.max_increase_percent;
-        if (!over_absolute) {
-            finding.value = *change.percent;
-            finding.limit = *rule.max_increase_percent;
-            finding.excess = excess;
-            finding.percent = true;
-        }
-        limits += (limits.empty() ? "" : " and ") + std::string("the limit ") +
-                  percent_text(*rule.max_increase_percent, Sign::always) + " by " +
-                  points_text(excess);
+    if (breach != PercentBreach::none) {
+        limits += (limits.empty() ? "the limit " : " and the limit ") +
+                  percent_text(*rule.max_increase_percent, Sign::always) +
+                  (breach == PercentBreach::from_zero
+                       ? std::string(", which allows no growth from a zero base")
+                       : " by " + points_text(*change.percent - *rule.max_increase_percent));
     }
-    const std::string percent =
-        change.percent
-            ? " (" + percent_text(*change.percent, Sign::always, rule.max_increase_percent) + ")"
-            : "";
-    finding.message =
-        location_text(f) + ": " + std::string(core::measure_name(rule.measure)) + " " +
-        (rule.max_increase ? amount_beside(change.absolute, *rule.max_increase, Sign::always)
-                           : format_amount(change.absolute, Sign::always)) +
-        percent + " exceeds " + limits + rule_tail(rule);
+    finding.message = location_text(f) + ": " + std::string(core::measure_name(rule.measure)) +
+                      " " + growth_text(rule, change) + " exceeds " + limits + rule_tail(rule);
     return finding;
 }
 
@@ -290,7 +318,8 @@ std::optional<Finding> judge_ceiling(const Rule& rule, const delta::FunctionDelt
     if (grandfather == Grandfathering::on && options.baseline_lookup) {
         if (const auto recorded = options.baseline_lookup(f.identity)) {
             const double before = core::measure_value(*recorded, rule.measure);
-            if (before > *rule.ceiling && value <= before) {
+            // Only a finite recorded value can grandfather: an infinite one would cover anything.
+            if (std::isfinite(before) && before > *rule.ceiling && value <= before) {
                 finding.grandfathered = true;
                 extra = ", grandfathered: the baseline has " + format_amount(before, Sign::as_is);
             }

@@ -211,7 +211,8 @@ Policy load_policy(const std::string& text, const std::string& origin);
 Policy load_policy_file(const std::string& path);
 
 // Return `policy` as canonical YAML with every effective value written out; load_policy reads
-// it back to an equal Policy.
+// it back to an equal Policy. Control and non-ASCII characters are written as YAML escapes
+// ("\x1b", "\u202e") inside double quotes, so printing it shows them instead of obeying them.
 std::string describe_policy(const Policy& policy);
 
 // Return one readable line per setting that differs between `base` and `head`, e.g.

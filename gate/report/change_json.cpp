@@ -1,7 +1,9 @@
 // SPDX-License-Identifier: MIT
 // The change report as JSON, schema "tollgate.check/1".
+#include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
 #include "gate/report/marks.hpp"
+#include "gate/report/reading_order.hpp"
 
 #include <nlohmann/json.hpp>
 
@@ -22,7 +24,9 @@ json side_json(const std::optional<delta::FunctionSide>& side) {
     return {{"file", side->path},
             {"line", side->start_line},
             {"end_line", side->end_line},
-            {"extent", side->lexical ? "lexical" : "syntax-tree"},
+            {"extent", side->parser_stopped ? "parser-stopped"
+                       : side->lexical      ? "lexical"
+                                            : "syntax-tree"},
             {"marks", mark_words(marks_of(*side))},
             {"token_hash", side->token_hash},
             {"measures", measures}};
@@ -75,6 +79,25 @@ json verdict_json(const policy::Verdict& verdict) {
             {"policy_differences", verdict.policy_changes},
             {"findings", findings},
             {"notes", verdict.notes}};
+}
+
+// The warnings summed up: every one stays in "warnings"; here they are counted and grouped by
+// the header they could not find.
+json diagnostics_json(const delta::ChangeReport& report) {
+    const auto summary = summarise_diagnostics(report.warnings);
+    json groups = json::array();
+    for (const auto& group : summary.missing_headers) {
+        groups.push_back(
+            {{"header", group.header}, {"warnings", group.warnings}, {"files", group.files}});
+    }
+    const std::string hint = compile_database_hint(report, summary);
+    return {{"warnings", summary.warnings},
+            {"files", summary.files},
+            {"missing_headers", groups},
+            {"other_warnings", summary.rest.size()},
+            {"compile_database", report.compile_database},
+            {"files_without_compile_flags", report.files_without_compile_flags},
+            {"hint", hint.empty() ? json(nullptr) : json(hint)}};
 }
 
 } // namespace
@@ -131,8 +154,9 @@ void write_change_json(std::ostream& out, const delta::ChangeReport& report,
         {"unmeasured", unmeasured},
         {"skipped", skipped},
         {"warnings", warnings},
+        {"diagnostics", diagnostics_json(report)},
     };
-    out << document.dump(2) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 } // namespace tollgate::report

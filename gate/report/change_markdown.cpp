@@ -1,212 +1,183 @@
 // SPDX-License-Identifier: MIT
-// The Markdown delta table a reviewer reads in the merge request.
+// The Markdown report a reviewer reads in the merge request, kept under a size limit.
 #include "gate/report/change_report.hpp"
-#include "gate/report/marks.hpp"
-#include "gate/report/measure_table.hpp"
+#include "gate/report/markdown_parts.hpp"
+#include "gate/report/reading_order.hpp"
 
+#include <algorithm>
 #include <fmt/format.h>
+#include <iterator>
 
 namespace tollgate::report {
 
+namespace markdown {
+
 namespace {
 
-using core::MeasureId;
-using delta::ChangeReport;
-using delta::FunctionDelta;
+using Kept = std::size_t[k_lists];
 
-// Escape text for a table cell: pipes split cells, backslashes and angle brackets need care.
-std::string cell_text(const std::string& text) {
-    std::string escaped;
-    for (char c : text) {
-        switch (c) {
-        case '|':
-            escaped += "\\|";
-            break;
-        case '<':
-            escaped += "&lt;";
-            break;
-        case '>':
-            escaped += "&gt;";
-            break;
-        case '\\':
-            escaped += "\\\\";
-            break;
-        case '*':
-        case '_':
-        case '`':
-        case '[':
-        case ']':
-            escaped += '\\';
-            escaped += c;
-            break;
-        default:
-            escaped += c;
-        }
-    }
-    return escaped;
+const std::vector<std::string>& items(const Parts& parts, List which) {
+    return parts.lists[static_cast<std::size_t>(which)];
 }
 
-// Put a function name in a code span; only the pipe needs escaping there inside a table.
-std::string code_cell(const std::string& text) {
-    std::string escaped;
-    for (char c : text) {
-        if (c == '|') {
-            escaped += "\\|";
-        } else {
-            escaped += c;
-        }
-    }
-    return "`" + escaped + "`";
+std::size_t kept_of(const Kept& kept, List which) {
+    return kept[static_cast<std::size_t>(which)];
 }
 
-// The function's name in a code span, its base identity when that changed, then its marks.
-std::string function_cell(const FunctionDelta& f) {
-    const std::string base = base_identity(f);
-    return code_cell(head_identity(f)) + (base.empty() ? "" : " (base: " + code_cell(base) + ")") +
-           cell_text(marks_text(f));
-}
-
-std::string pair_cell(const FunctionDelta& f, MeasureId id, int decimals) {
-    const auto value = [&](const std::optional<delta::FunctionSide>& side) {
-        if (!side) {
-            return std::string("–");
-        }
-        const double v = core::measure_value(side->measures, id);
-        return decimals == 0 ? group_thousands(v) : format_number(v, decimals);
+std::string cut_note(const Parts& parts, const Kept& kept, std::size_t limit) {
+    struct Named {
+        List list;
+        const char* one;
+        const char* many;
     };
-    return value(f.base) + " → " + value(f.head);
-}
-
-std::string growth_cell(const FunctionDelta& f) {
-    const auto d = f.delta(MeasureId::effort);
-    if (f.label == delta::DeltaLabel::unchanged || d.absolute == 0.0) {
-        return "0";
+    static const Named k_names[] = {
+        {List::other_rows, "row of other functions", "rows of other functions"},
+        {List::diagnostics, "parse warning line", "parse warning lines"},
+        {List::notes, "note or skipped file", "notes and skipped files"},
+        {List::policy_notes, "policy note", "policy notes"},
+        {List::warning, "function with warnings", "functions with warnings"},
+        {List::policy_lines, "policy difference", "policy differences"},
+        {List::blocking, "blocked function", "blocked functions"},
+    };
+    std::vector<std::string> cuts;
+    for (const auto& name : k_names) {
+        const std::size_t all = items(parts, name.list).size();
+        const std::size_t left_out = all - kept_of(kept, name.list);
+        if (left_out > 0) {
+            cuts.push_back(group_thousands(static_cast<double>(left_out)) + " of " +
+                           count_text(all, name.one, name.many));
+        }
     }
-    return fmt::format("{}{} ({})", d.absolute > 0 ? "+" : "", group_thousands(d.absolute),
-                       format_percent(d.percent));
-}
-
-std::string location_cell(const FunctionDelta& f, const ChangeReport& report,
-                          const RenderOptions& options) {
-    const auto& side = f.shown_side();
-    const std::string text = fmt::format("{}:{}", side.path, side.start_line);
-    const std::string commit = f.head ? report.head_commit : report.base_commit;
-    const std::string link = make_link(options.link_template, commit.empty() ? "HEAD" : commit,
-                                       side.path, side.start_line);
-    if (link.empty()) {
-        return cell_text(text);
+    if (cuts.empty()) {
+        return {};
     }
-    return "[" + cell_text(text) + "](" + link + ")";
+    std::string list;
+    for (std::size_t i = 0; i < cuts.size(); ++i) {
+        list += (i == 0 ? "" : i + 1 == cuts.size() ? " and " : ", ") + cuts[i];
+    }
+    return fmt::format("> [!NOTE]\n> This report is cut to stay under {} bytes: it leaves out {} "
+                       "(the least important and the last listed go first). The JSON report "
+                       "(`--report json:PATH`) has everything.\n\n",
+                       group_thousands(static_cast<double>(limit)), list);
 }
 
-void write_table(std::ostream& out, const ChangeReport& report, const policy::Verdict& verdict,
-                 const RenderOptions& options, std::size_t first, std::size_t last) {
-    out << "| | function | location | volume | difficulty | effort | effort change | rules |\n";
-    out << "|---|---|---|---:|---:|---:|---:|---|\n";
-    for (std::size_t i = first; i < last; ++i) {
-        const FunctionDelta& f = report.functions[i];
-        const std::string rules = rules_broken_by(verdict, f);
-        out << fmt::format(
-            "| {} | {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
-            function_cell(f), location_cell(f, report, options), pair_cell(f, MeasureId::volume, 1),
-            pair_cell(f, MeasureId::difficulty, 2), pair_cell(f, MeasureId::effort, 0),
-            growth_cell(f), rules.empty() ? std::string() : cell_text(rules));
+void append(std::string& out, const Parts& parts, const Kept& kept, List which, std::size_t from,
+            std::size_t to) {
+    const auto& list = items(parts, which);
+    for (std::size_t i = from; i < std::min(to, kept_of(kept, which)); ++i) {
+        out += list[i];
     }
 }
 
 } // namespace
 
-void write_change_markdown(std::ostream& out, const ChangeReport& report,
+std::string assemble(const Parts& parts, const Kept& kept, std::size_t limit) {
+    std::string out = parts.heading + cut_note(parts, kept, limit);
+    const auto all = static_cast<std::size_t>(-1);
+    if (!parts.policy_head.empty()) {
+        out += parts.policy_head;
+        append(out, parts, kept, List::policy_lines, 0, all);
+        out += "\n";
+    }
+    if (kept_of(kept, List::blocking) > 0) {
+        out += "#### Blocks the merge\n\n";
+        append(out, parts, kept, List::blocking, 0, all);
+        out += "\n";
+    }
+    if (kept_of(kept, List::warning) > 0) {
+        out += "#### Warnings (they do not block)\n\n";
+        append(out, parts, kept, List::warning, 0, all);
+        out += "\n";
+    }
+    append(out, parts, kept, List::policy_notes, 0, all);
+    const std::size_t rows = kept_of(kept, List::other_rows);
+    const std::size_t shown = std::min(parts.shown_rows, rows);
+    if (rows > 0) {
+        out += "#### Other touched functions\n\n";
+    }
+    if (shown > 0) {
+        out += parts.table_head;
+        append(out, parts, kept, List::other_rows, 0, shown);
+        out += "\n";
+    }
+    if (rows > shown) {
+        out += fmt::format("<details><summary>{} more function{}</summary>\n\n",
+                           group_thousands(static_cast<double>(rows - shown)),
+                           rows - shown == 1 ? "" : "s");
+        out += parts.table_head;
+        append(out, parts, kept, List::other_rows, shown, all);
+        out += "\n</details>\n\n";
+    }
+    // Details a reviewer opens when needed: diagnostics (counted even when cut), then notes.
+    if (!parts.diagnostics_head.empty()) {
+        out += parts.diagnostics_head;
+        append(out, parts, kept, List::diagnostics, 0, all);
+        out += "\n</details>\n\n";
+    }
+    if (kept_of(kept, List::notes) > 0) {
+        out += fmt::format("<details><summary>{}</summary>\n\n",
+                           count_text(items(parts, List::notes).size(), "note or skipped file",
+                                      "notes and skipped files"));
+        append(out, parts, kept, List::notes, 0, all);
+        out += "\n</details>\n\n";
+    }
+    while (out.size() >= 2 && out[out.size() - 1] == '\n' && out[out.size() - 2] == '\n') {
+        out.pop_back();
+    }
+    return out;
+}
+
+namespace {
+
+// Return the largest count in [0, `all`] for which `size_with(count)` stays within `limit`
+// (the size grows with the count), or 0 when none does.
+template <typename SizeWith>
+std::size_t most_that_fit(std::size_t all, std::size_t limit, SizeWith size_with) {
+    std::size_t low = 0, high = all;
+    while (low < high) {
+        const std::size_t middle = low + (high - low + 1) / 2;
+        if (size_with(middle) <= limit) {
+            low = middle;
+        } else {
+            high = middle - 1;
+        }
+    }
+    return low;
+}
+
+// Assemble the document within `limit` bytes, leaving out items from the end of the least
+// important list first (List's order: blocking entries last). The heading, the policy
+// warning's first lines and the diagnostics' count always stay.
+std::string fit(const Parts& parts, std::size_t limit) {
+    Kept kept{};
+    for (std::size_t i = 0; i < k_lists; ++i) {
+        kept[i] = parts.lists[i].size();
+    }
+    std::string document = assemble(parts, kept, limit);
+    for (std::size_t list = 0; list < k_lists && document.size() > limit; ++list) {
+        kept[list] = most_that_fit(kept[list], limit, [&](std::size_t count) {
+            Kept trial;
+            std::copy(std::begin(kept), std::end(kept), std::begin(trial));
+            trial[list] = count;
+            return assemble(parts, trial, limit).size();
+        });
+        document = assemble(parts, kept, limit);
+        // The note's counts change its length a little: step back until it fits.
+        while (document.size() > limit && kept[list] > 0) {
+            --kept[list];
+            document = assemble(parts, kept, limit);
+        }
+    }
+    return document;
+}
+
+} // namespace
+
+} // namespace markdown
+
+void write_change_markdown(std::ostream& out, const delta::ChangeReport& report,
                            const policy::Verdict& verdict, const RenderOptions& options) {
-    const auto& t = report.totals;
-    const std::size_t blocking = policy::count_blocking(verdict);
-    const std::size_t warnings = verdict.findings.size() - blocking;
-    const bool blocked = verdict.outcome == policy::Outcome::blocked;
-    std::string summary = blocked ? fmt::format("**Tollgate: blocked** by {} finding{}", blocking,
-                                                blocking == 1 ? "" : "s")
-                                  : std::string("**Tollgate: pass**");
-    if (warnings > 0) {
-        summary += fmt::format("{} {} warning{}", blocked ? "," : " with", warnings,
-                               warnings == 1 ? "" : "s");
-    }
-    if (report.functions.empty()) {
-        summary += report.measured_files == 0
-                       ? ": no C/C++ file changed, nothing to measure."
-                       : ": C/C++ files changed, but no function definition was touched.";
-    } else {
-        const auto effort = core::compute_delta(t.base_effort, t.head_effort);
-        summary += fmt::format(": {} function{} touched in {} file{}, effort {}{} ({})",
-                               t.functions, t.functions == 1 ? "" : "s", report.files.size(),
-                               report.files.size() == 1 ? "" : "s", effort.absolute >= 0 ? "+" : "",
-                               group_thousands(effort.absolute), format_percent(effort.percent));
-        const FunctionDelta& top = report.functions.front();
-        const auto top_growth = top.delta(MeasureId::effort);
-        if (top_growth.absolute > 0) {
-            summary += fmt::format(", largest growth `{}` +{}", top.name,
-                                   group_thousands(top_growth.absolute));
-        }
-        summary += ".";
-    }
-    if (report.unmeasured_lines > 0) {
-        summary +=
-            fmt::format(" {} changed C/C++ line{} outside functions.", report.unmeasured_lines,
-                        report.unmeasured_lines == 1 ? " lies" : "s lie");
-    }
-    out << summary << "\n\n";
-    if (!verdict.policy_change_summary.empty()) {
-        out << "> [!WARNING]\n> " << cell_text(verdict.policy_change_summary) << ":\n";
-        for (const auto& change : verdict.policy_changes) {
-            out << "> - " << cell_text(change) << "\n";
-        }
-        out << "\n";
-    }
-    for (const auto& f : verdict.findings) {
-        const bool blocks = f.blocks();
-        out << "- " << (blocks ? "**blocking**" : "warning") << ": " << cell_text(f.message)
-            << "\n";
-    }
-    if (!verdict.findings.empty()) {
-        out << "\n";
-    }
-    if (!report.functions.empty()) {
-        const std::size_t shown = std::min(options.markdown_rows, report.functions.size());
-        write_table(out, report, verdict, options, 0, shown);
-        if (shown < report.functions.size()) {
-            const std::size_t rest = report.functions.size() - shown;
-            out << fmt::format("\n<details><summary>{} more function{}</summary>\n\n", rest,
-                               rest == 1 ? "" : "s");
-            write_table(out, report, verdict, options, shown, report.functions.size());
-            out << "\n</details>\n";
-        }
-    }
-    out << fmt::format("\n<sub>base {} → head {} · convention {} · policy {}</sub>\n",
-                       cell_text(report.base_label), cell_text(report.head_label),
-                       report.convention, cell_text(verdict.policy_origin));
-    std::vector<std::string> bullets;
-    for (const auto& note : verdict.notes) {
-        bullets.push_back("policy note: " + cell_text(note));
-    }
-    for (const auto& note : report.notes) {
-        bullets.push_back("note: " + cell_text(note));
-    }
-    for (const auto& lines : report.unmeasured) {
-        bullets.push_back(
-            fmt::format("unmeasured `{}`: {}", lines.path, cell_text(unmeasured_text(lines))));
-    }
-    for (const auto& s : report.skipped) {
-        bullets.push_back(fmt::format("skipped `{}` ({})", s.path, s.reason));
-    }
-    for (const auto& w : report.warnings) {
-        bullets.push_back(fmt::format("warning ({}) `{}{}`: {}", w.side, w.path,
-                                      w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
-                                      cell_text(w.message)));
-    }
-    if (!bullets.empty()) {
-        out << "\n";
-        for (const auto& bullet : bullets) {
-            out << "- " << bullet << "\n";
-        }
-    }
+    out << markdown::fit(markdown::make_parts(report, verdict, options), options.markdown_bytes);
 }
 
 } // namespace tollgate::report

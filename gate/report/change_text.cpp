@@ -1,11 +1,11 @@
 // SPDX-License-Identifier: MIT
-// The terminal table of a change report.
+// The terminal report of a change: the table first, the verdict last, fitted to the width.
+#include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
 #include "gate/report/marks.hpp"
 #include "gate/report/measure_table.hpp"
+#include "gate/report/reading_order.hpp"
 
-#include <algorithm>
-#include <cmath>
 #include <fmt/format.h>
 #include <functional>
 #include <vector>
@@ -14,78 +14,211 @@ namespace tollgate::report {
 
 namespace {
 
+// The function's marks in brackets after its name, or nothing.
+std::string marks_text(const delta::FunctionDelta& f) {
+    const std::string marks = function_marks(f);
+    return marks.empty() ? std::string() : " [" + marks + "]";
+}
+
+// The function's name (with its signature when that changed), its base identity when its name or
+// signature changed, then its marks.
+std::string name_cell(const delta::FunctionDelta& f) {
+    const std::string base = base_identity(f);
+    return text::terminal_text(head_identity(f)) +
+           (base.empty() ? std::string() : " (base: " + text::terminal_text(base) + ")") +
+           marks_text(f);
+}
+
 using core::MeasureId;
 using delta::ChangeReport;
 using delta::FunctionDelta;
+using text::terminal_text;
 
-constexpr const char* k_red = "\x1b[31m";
-constexpr const char* k_green = "\x1b[32m";
-constexpr const char* k_dim = "\x1b[2m";
-constexpr const char* k_yellow = "\x1b[33m";
+// Colours follow the verdict, never the sign of a change. The palette is Okabe and Ito's
+// ("Color Universal Design", 2008; hex values from memory), safe for red-green colour
+// blindness, as the nearest xterm 256-colour codes: vermillion #D55E00 ~ 166 (#d75f00),
+// orange #E69F00 ~ 178 (#d7af00), sky blue #56B4E9 ~ 74 (#5fafd7). Each has a word beside it.
+constexpr const char* k_blocking = "\x1b[38;5;166m";
+constexpr const char* k_warning = "\x1b[38;5;178m";
+constexpr const char* k_passing = "\x1b[38;5;74m";
 constexpr const char* k_bold = "\x1b[1m";
 constexpr const char* k_reset = "\x1b[0m";
+
+// The words that stand beside the colours (and for them, without colour).
+constexpr const char* k_block_word = "block";
+constexpr const char* k_warn_word = "warn";
 
 std::string side_value(const std::optional<delta::FunctionSide>& side, MeasureId id, int decimals) {
     return side ? format_number(core::measure_value(side->measures, id), decimals) : "-";
 }
 
-// "base -> head (+pct)" for one measure of one function.
-std::string change_cell(const FunctionDelta& f, MeasureId id, int decimals) {
-    const auto d = f.delta(id);
-    std::string cell = side_value(f.base, id, decimals) + " -> " + side_value(f.head, id, decimals);
-    if (f.base && f.head && d.absolute != 0.0) {
-        cell += " (" + format_percent(d.percent) + ")";
+// "base -> head" for one measure of one function.
+std::string pair_cell(const FunctionDelta& f, MeasureId id, int decimals) {
+    return side_value(f.base, id, decimals) + " -> " + side_value(f.head, id, decimals);
+}
+
+// "+6,949 (+278%)", "+344 (new)" or "0".
+std::string change_cell(const FunctionDelta& f) {
+    const auto d = f.delta(MeasureId::effort);
+    if (f.label == delta::DeltaLabel::unchanged || d.absolute == 0.0) {
+        return "0";
     }
-    return cell;
+    return fmt::format("{}{} ({})", d.absolute > 0 ? "+" : "", group_thousands(d.absolute),
+                       format_percent(d.percent));
 }
 
-std::string location_of(const FunctionDelta& f) {
-    const auto& side = f.shown_side();
-    return fmt::format("{}:{}", side.path, side.start_line);
+std::string location_of(const std::string& path, unsigned line) {
+    return terminal_text(path) + ":" + std::to_string(line);
 }
 
-} // namespace
-
-std::string rules_broken_by(const policy::Verdict& verdict, const FunctionDelta& f) {
-    const auto& side = f.shown_side();
-    std::string blocking, warning;
-    for (const auto& finding : verdict.findings) {
-        if (finding.function != f.name || finding.path != side.path ||
-            finding.start_line != side.start_line) {
-            continue;
+// The rule ids of a group, blocking ones first (the verdict's order), each once.
+std::string rules_of(const FunctionFindings& group) {
+    std::string rules;
+    for (const auto* finding : group.findings) {
+        const std::string id = terminal_text(finding->rule_id);
+        if ((", " + rules + ",").find(", " + id + ",") == std::string::npos) {
+            rules += (rules.empty() ? "" : ", ") + id;
         }
-        std::string& list = finding.blocks() ? blocking : warning;
-        list += (list.empty() ? "" : ", ") + finding.rule_id;
     }
-    if (blocking.empty() || warning.empty()) {
-        return blocking + warning;
-    }
-    return blocking + ", " + warning;
+    return rules;
 }
 
-namespace {
+// Writes lines fitted to the width, painted when colour is on.
+class Lines {
+public:
+    Lines(std::ostream& out, const RenderOptions& options)
+        : m_out(out), m_options(options), m_colour(options.colour == Colour::on) {}
 
-void write_verdict_text(std::ostream& out, const policy::Verdict& verdict,
-                        const std::function<std::string(const char*, const std::string&)>& paint) {
+    // Write `line` (already safe) wrapped to the width, continuation lines indented by `indent`.
+    void write(const std::string& line, std::size_t indent = 2, const char* colour = nullptr) {
+        for (const auto& piece : wrap_text(line, m_options.width, indent, m_options.fit)) {
+            m_out << paint(colour, piece) << "\n";
+        }
+    }
+    std::string paint(const char* colour, const std::string& text) const {
+        return m_colour && colour != nullptr ? std::string(colour) + text + k_reset : text;
+    }
+    std::ostream& out() { return m_out; }
+
+private:
+    std::ostream& m_out;
+    const RenderOptions& m_options;
+    bool m_colour;
+};
+
+void write_table(Lines& lines, const ChangeReport& report, const ReadingOrder& order,
+                 const RenderOptions& options) {
+    // Drop ranks document the order columns go when the terminal is narrow.
+    const std::vector<TableColumn> columns = {
+        {"", false, Shorten::none, 0},
+        {"label", false, Shorten::none, 4},
+        {"function", false, Shorten::name, 0},
+        {"location", false, Shorten::location, 0},
+        {"effort change", true, Shorten::none, 0},
+        {"effort", true, Shorten::none, 5},
+        {"volume", true, Shorten::none, 1},
+        {"difficulty", true, Shorten::none, 2},
+        {"rules", false, Shorten::text, 3},
+    };
+    std::vector<std::vector<std::string>> rows;
+    std::vector<const char*> colours;
+    const auto add = [&](const FunctionDelta& f, const FunctionFindings* group) {
+        const Standing standing = standing_of(group);
+        const auto& side = f.shown_side();
+        rows.push_back({standing == Standing::blocks  ? k_block_word
+                        : standing == Standing::warns ? k_warn_word
+                                                      : "",
+                        delta::label_name(f.label), name_cell(f),
+                        location_of(side.path, side.start_line), change_cell(f),
+                        pair_cell(f, MeasureId::effort, 0), pair_cell(f, MeasureId::volume, 1),
+                        pair_cell(f, MeasureId::difficulty, 2),
+                        group != nullptr ? rules_of(*group) : std::string()});
+        colours.push_back(standing == Standing::blocks  ? k_blocking
+                          : standing == Standing::warns ? k_warning
+                                                        : nullptr);
+    };
+    for (const auto* list : {&order.blocking, &order.warning}) {
+        for (const auto& group : *list) {
+            if (group.delta != nullptr) {
+                add(*group.delta, &group);
+            }
+        }
+    }
+    for (const auto* f : order.others) {
+        add(*f, nullptr);
+    }
+    const auto table = layout_table(columns, rows, options.width, options.fit);
+    lines.out() << lines.paint(k_bold, table.front()) << "\n";
+    for (std::size_t r = 1; r < table.size(); ++r) {
+        lines.out() << lines.paint(colours[r - 1], table[r]) << "\n";
+    }
+    const auto& t = report.totals;
+    const auto effort = core::compute_delta(t.base_effort, t.head_effort);
+    lines.write(fmt::format("total: {} touched in {} ({} added, {} changed, {} removed); effort "
+                            "{} -> {} ({}{}, {})",
+                            count_text(t.functions, "function", "functions"),
+                            count_text(report.files.size(), "file", "files"),
+                            group_thousands(t.added), group_thousands(t.changed),
+                            group_thousands(t.removed), group_thousands(t.base_effort),
+                            group_thousands(t.head_effort), effort.absolute >= 0 ? "+" : "",
+                            group_thousands(effort.absolute), format_percent(effort.percent)));
+}
+
+// One function's findings under the verdict: its name and place, each finding, the command.
+void write_group(Lines& lines, const FunctionFindings& group, const RenderOptions& options) {
+    const bool blocks = group.standing == Standing::blocks;
+    const char* colour = blocks ? k_blocking : k_warning;
+    const std::string word = fmt::format("  {:<5}  ", blocks ? k_block_word : k_warn_word);
+    const std::string margin(11, ' ');
+    const bool fit = options.fit == Fit::to_width;
+    if (group.function.empty() && group.path.empty()) {
+        lines.write(word + "the whole change", 11, colour);
+    } else {
+        const std::string name = terminal_text(group.function);
+        const std::string place = location_of(group.path, group.start_line);
+        const std::string line = word + name + "  " + place;
+        if (!fit || text::display_width(line) <= options.width) {
+            lines.write(line, 11, colour);
+        } else {
+            // Too long for one line: the name (last scopes kept) above its place.
+            const std::size_t room = options.width > 20 ? options.width - 11 : 9;
+            lines.write(word + shorten_name(name, room + 2, 2), 11, colour);
+            lines.write(margin + shorten_location(place, room), 11, colour);
+        }
+    }
+    for (const auto* finding : group.findings) {
+        lines.write(margin + terminal_text(finding_detail(*finding)), 13);
+    }
+    if (blocks && !group.function.empty()) {
+        // A command is copied whole: when the name form does not fit, the PATH:LINE form.
+        std::string command = explain_command(group.path, group.function);
+        if (fit && text::display_width(margin + "why: " + terminal_text(command)) > options.width) {
+            command = explain_command(group.path, std::to_string(group.start_line));
+        }
+        lines.write(margin + "why: " + terminal_text(command), 13);
+    }
+}
+
+void write_verdict(Lines& lines, const policy::Verdict& verdict, const ReadingOrder& order,
+                   const RenderOptions& options) {
     const std::size_t blocking = policy::count_blocking(verdict);
     const std::size_t warnings = verdict.findings.size() - blocking;
     const bool blocked = verdict.outcome == policy::Outcome::blocked;
-    std::string line = blocked ? fmt::format("verdict: BLOCKED by {} blocking finding{}", blocking,
-                                             blocking == 1 ? "" : "s")
+    std::string line = blocked ? "verdict: BLOCKED by " +
+                                     count_text(blocking, "blocking finding", "blocking findings")
                                : std::string("verdict: pass");
     if (warnings > 0) {
-        line += fmt::format("{} {} warning{}", blocked ? "," : " with", warnings,
-                            warnings == 1 ? "" : "s");
+        line += (blocked ? ", " : " with ") + count_text(warnings, "warning", "warnings");
     }
     line += " (policy: " + verdict.policy_origin + ")";
-    out << paint(blocked ? k_red : k_green, line) << "\n";
-    for (const auto& f : verdict.findings) {
-        const bool blocks = f.blocks();
-        out << "  " << paint(blocks ? k_red : k_yellow, blocks ? "blocking" : "warning ") << "  "
-            << f.message << "\n";
+    lines.write(terminal_text(line), 2, blocked ? k_blocking : k_passing);
+    for (const auto* list : {&order.blocking, &order.warning}) {
+        for (const auto& group : *list) {
+            write_group(lines, group, options);
+        }
     }
     for (const auto& note : verdict.notes) {
-        out << "  note: " << note << "\n";
+        lines.write("  note: " + terminal_text(note), 8);
     }
 }
 
@@ -93,134 +226,55 @@ void write_verdict_text(std::ostream& out, const policy::Verdict& verdict,
 
 void write_change_text(std::ostream& out, const ChangeReport& report,
                        const policy::Verdict& verdict, const RenderOptions& options) {
-    const bool colour = options.colour == Colour::on;
-    const std::function<std::string(const char*, const std::string&)> paint =
-        [colour](const char* code, const std::string& text) {
-            return colour ? std::string(code) + text + k_reset : text;
-        };
-    out << paint(k_bold, fmt::format("tollgate: {} -> {}", report.base_label, report.head_label))
-        << "\n";
+    Lines lines(out, options);
+    lines.write(
+        terminal_text(fmt::format("tollgate: {} -> {}", report.base_label, report.head_label)), 2,
+        k_bold);
     if (!verdict.policy_change_summary.empty()) {
-        out << paint(k_yellow, "policy: " + verdict.policy_change_summary) << "\n";
+        lines.write(terminal_text("policy: " + verdict.policy_change_summary), 2, k_warning);
         for (const auto& change : verdict.policy_changes) {
-            out << paint(k_yellow, "  " + change) << "\n";
+            lines.write(terminal_text("  " + change), 4, k_warning);
         }
     }
     for (const auto& note : report.notes) {
-        out << "note: " << note << "\n";
+        lines.write("note: " + terminal_text(note), 6);
     }
+    const ReadingOrder order = order_for_reading(report, verdict);
     if (report.functions.empty()) {
-        if (report.measured_files == 0) {
-            out << "no C/C++ file changed: nothing to measure\n";
-        } else {
-            out << fmt::format("{} C/C++ file{} changed, but no function definition was touched\n",
-                               report.measured_files, report.measured_files == 1 ? "" : "s");
-        }
+        lines.write(report.measured_files == 0
+                        ? std::string("no C, C++ or Java file changed: nothing to measure")
+                        : count_text(report.measured_files, "source file", "source files") +
+                              " changed, but no function definition was touched");
     } else {
-        std::vector<std::vector<std::string>> rows;
-        rows.push_back({"label", "location", "function", "V", "D", "E", "rules"});
-        for (const auto& f : report.functions) {
-            rows.push_back({delta::label_name(f.label), location_of(f), function_title(f),
-                            change_cell(f, MeasureId::volume, 1),
-                            change_cell(f, MeasureId::difficulty, 2),
-                            change_cell(f, MeasureId::effort, 0), rules_broken_by(verdict, f)});
-        }
-        std::vector<std::size_t> widths(rows.front().size(), 0);
-        for (const auto& row : rows) {
-            for (std::size_t c = 0; c < row.size(); ++c) {
-                widths[c] = std::max(widths[c], row[c].size());
-            }
-        }
-        for (std::size_t r = 0; r < rows.size(); ++r) {
-            std::string line;
-            for (std::size_t c = 0; c < rows[r].size(); ++c) {
-                const bool numeric = c >= 3 && c <= 5;
-                line += c == 0 ? "" : "  ";
-                line += numeric ? fmt::format("{:>{}}", rows[r][c], widths[c])
-                                : fmt::format("{:<{}}", rows[r][c], widths[c]);
-            }
-            while (!line.empty() && line.back() == ' ') {
-                line.pop_back();
-            }
-            if (r == 0) {
-                line = paint(k_bold, line);
-            } else {
-                const FunctionDelta& f = report.functions[r - 1];
-                const double growth = f.delta(MeasureId::effort).absolute;
-                if (f.label == delta::DeltaLabel::unchanged) {
-                    line = paint(k_dim, line);
-                } else if (growth > 0) {
-                    line = paint(k_red, line);
-                } else if (growth < 0) {
-                    line = paint(k_green, line);
-                }
-            }
-            out << line << "\n";
-        }
-        const auto& t = report.totals;
-        const auto effort = core::compute_delta(t.base_effort, t.head_effort);
-        out << fmt::format("total: {} function{} touched in {} file{} ({} added, {} changed, {} "
-                           "removed); effort {} -> {} ({}{}, {})\n",
-                           t.functions, t.functions == 1 ? "" : "s", report.files.size(),
-                           report.files.size() == 1 ? "" : "s", t.added, t.changed, t.removed,
-                           group_thousands(t.base_effort), group_thousands(t.head_effort),
-                           effort.absolute >= 0 ? "+" : "", group_thousands(effort.absolute),
-                           format_percent(effort.percent));
+        write_table(lines, report, order, options);
     }
-    for (const auto& lines : report.unmeasured) {
-        out << fmt::format("unmeasured: {}: {}\n", lines.path, unmeasured_text(lines));
+    for (const auto& unmeasured : report.unmeasured) {
+        lines.write(terminal_text(fmt::format("unmeasured: {}: {}", unmeasured.path,
+                                              unmeasured_text(unmeasured))),
+                    4);
     }
-    write_verdict_text(out, verdict, paint);
     for (const auto& s : report.skipped) {
-        out << fmt::format("skipped: {} ({})\n", s.path, s.reason);
+        lines.write(terminal_text(fmt::format("skipped: {} ({})", s.path, s.reason)), 4);
     }
+    // Compiler diagnostics are counted here, before the verdict; -v and JSON list them.
+    if (!report.warnings.empty()) {
+        const auto summary = summarise_diagnostics(report.warnings);
+        lines.write(diagnostics_count_text(summary) + "; see --report json or -v");
+        const std::string hint = compile_database_hint(report, summary);
+        if (!hint.empty()) {
+            lines.write("  " + hint, 4);
+        }
+    }
+    write_verdict(lines, verdict, order, options);
+}
+
+void write_diagnostics_text(std::ostream& out, const ChangeReport& report) {
     for (const auto& w : report.warnings) {
-        out << fmt::format("warning: {} {}{}: {}\n", w.side, w.path,
-                           w.line > 0 ? ":" + std::to_string(w.line) : std::string(), w.message);
+        out << terminal_text(fmt::format("warning: {} {}{}: {}", w.side, w.path,
+                                         w.line > 0 ? ":" + std::to_string(w.line) : std::string(),
+                                         w.message))
+            << "\n";
     }
-}
-
-std::string group_thousands(double value) {
-    const double rounded = std::round(value);
-    const bool negative = rounded < 0;
-    std::string digits = fmt::format("{:.0f}", std::fabs(rounded));
-    std::string grouped;
-    for (std::size_t i = 0; i < digits.size(); ++i) {
-        if (i > 0 && (digits.size() - i) % 3 == 0) {
-            grouped += ',';
-        }
-        grouped += digits[i];
-    }
-    return (negative && grouped != "0" ? "-" : "") + grouped;
-}
-
-std::string format_percent(const std::optional<double>& percent) {
-    if (!percent) {
-        return "new";
-    }
-    const double rounded = std::round(*percent);
-    if (rounded == 0.0) {
-        return *percent > 0 ? "+0%" : (*percent < 0 ? "-0%" : "0%");
-    }
-    return fmt::format("{}{:.0f}%", rounded > 0 ? "+" : "", rounded);
-}
-
-std::string make_link(const std::string& link_template, const std::string& commit,
-                      const std::string& path, unsigned line) {
-    if (link_template.empty()) {
-        return {};
-    }
-    std::string link = link_template;
-    const auto replace_all = [&link](const std::string& from, const std::string& to) {
-        for (auto pos = link.find(from); pos != std::string::npos;
-             pos = link.find(from, pos + to.size())) {
-            link.replace(pos, from.size(), to);
-        }
-    };
-    replace_all("{commit}", commit);
-    replace_all("{path}", path);
-    replace_all("{line}", std::to_string(line));
-    return link;
 }
 
 } // namespace tollgate::report

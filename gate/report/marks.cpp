@@ -59,20 +59,6 @@ std::string base_identity(const delta::FunctionDelta& f) {
     return f.base_name.value_or(f.name) + "(" + f.base_signature.value_or(f.signature) + ")";
 }
 
-std::string marks_text(const delta::FunctionDelta& f) {
-    std::string text = mark_suffix(marks_of(f.shown_side()));
-    for (std::string word : base_only_marks(f)) {
-        std::replace(word.begin(), word.end(), '-', ' ');
-        text += " [base: " + word + "]";
-    }
-    return text;
-}
-
-std::string function_title(const delta::FunctionDelta& f) {
-    const std::string base = base_identity(f);
-    return head_identity(f) + (base.empty() ? "" : " (base: " + base + ")") + marks_text(f);
-}
-
 namespace {
 
 std::string ranges_text(const char* side, const std::vector<std::pair<unsigned, unsigned>>& list) {

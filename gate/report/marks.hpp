@@ -35,14 +35,6 @@ std::string head_identity(const delta::FunctionDelta& f);
 // Return the base side's "NAME(SIGNATURE)" when `f`'s name or signature changed, else empty.
 std::string base_identity(const delta::FunctionDelta& f);
 
-// Return the marks text after a function: those of the side shown (head, or base when removed),
-// then " [base: WORD]" for each mark only the base side has; empty when none.
-std::string marks_text(const delta::FunctionDelta& f);
-
-// Return what a reviewer reads for `f` in a table: head_identity, " (base: " base_identity ")"
-// when the identity changed, then marks_text.
-std::string function_title(const delta::FunctionDelta& f);
-
 // Return the base side's marks that the head side lacks, as JSON words (empty when none or when
 // a side is missing).
 std::vector<std::string> base_only_marks(const delta::FunctionDelta& f);

@@ -2,6 +2,7 @@
 // Text and JSON renderers for per-function measures.
 #include "gate/report/measure_table.hpp"
 
+#include "gate/common/text_safety.hpp"
 #include "gate/report/marks.hpp"
 
 #include <algorithm>
@@ -49,12 +50,21 @@ const std::vector<Column>& columns_for(Columns columns) {
     return columns == Columns::all ? all : essential;
 }
 
+using text::terminal_text;
+
 std::string location(const MeasuredFunction& f) {
-    return fmt::format("{}:{}", f.path, f.start_line);
+    return fmt::format("{}:{}", terminal_text(f.path), f.start_line);
 }
 
+// The marks after a function's name that say how it was found (none for the parser's ordinary
+// result): " [parser stopped]", " [inactive]", " [lexical]", " [brace extent]".
 std::string display_name(const MeasuredFunction& f) {
-    return f.name + mark_suffix({f.lexical, f.inactive, f.brace_extent});
+    return terminal_text(f.name + (f.parser_stopped ? " [parser stopped]" : "") +
+                         mark_suffix({f.lexical, f.inactive, f.brace_extent}));
+}
+
+const char* extent_of(const MeasuredFunction& f) {
+    return f.parser_stopped ? "parser-stopped" : f.lexical ? "lexical" : "syntax-tree";
 }
 
 nlohmann::json measures_json(const core::Measures& m) {
@@ -73,7 +83,7 @@ nlohmann::json function_json(const MeasuredFunction& f) {
         {"end_line", f.end_line},
         {"function", f.name},
         {"signature", f.signature},
-        {"extent", f.lexical ? "lexical" : "syntax-tree"},
+        {"extent", extent_of(f)},
         {"marks", mark_words({f.lexical, f.inactive, f.brace_extent})},
         {"measures", measures_json(f.measures)},
     };
@@ -90,75 +100,68 @@ nlohmann::json warnings_json(const std::vector<SourceWarning>& warnings) {
 } // namespace
 
 std::string format_number(double value, int decimals) {
-    if (decimals == 0) {
-        return fmt::format("{:.0f}", value);
+    const std::string plain = fmt::format("{:.{}f}", value, decimals);
+    const std::size_t digits_start = plain.find_first_of("0123456789");
+    if (digits_start == std::string::npos) {
+        return plain; // inf, nan
     }
-    return fmt::format("{:.{}f}", value, decimals);
+    const std::size_t digits_end = std::min(plain.find('.'), plain.size());
+    std::string grouped = plain.substr(0, digits_start);
+    for (std::size_t i = digits_start; i < digits_end; ++i) {
+        if (i > digits_start && (digits_end - i) % 3 == 0) {
+            grouped += ',';
+        }
+        grouped += plain[i];
+    }
+    return grouped + plain.substr(digits_end);
 }
 
 void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& functions,
                         const std::vector<SourceWarning>& warnings, Columns columns,
-                        const std::string& source_label) {
+                        const std::string& source_label, std::size_t width, Fit fit) {
     if (functions.empty()) {
-        out << "no function definitions found in " << source_label << "\n";
+        out << "no function definitions found in " << terminal_text(source_label) << "\n";
     } else {
         const auto& cols = columns_for(columns);
-        std::size_t where_width = std::string("location").size();
-        std::size_t name_width = std::string("function").size();
-        for (const auto& f : functions) {
-            where_width = std::max(where_width, location(f).size());
-            name_width = std::max(name_width, display_name(f).size());
+        // Measure columns go from the end of the list first; effort stays.
+        std::vector<TableColumn> layout = {{"location", false, Shorten::location, 0},
+                                           {"function", false, Shorten::name, 0}};
+        for (std::size_t c = 0; c < cols.size(); ++c) {
+            const int rank =
+                cols[c].id == MeasureId::effort ? 0 : static_cast<int>(cols.size() - c);
+            layout.push_back({cols[c].title, true, Shorten::none, rank});
         }
-        std::vector<std::vector<std::string>> cells;
+        std::vector<std::vector<std::string>> rows;
         std::vector<double> totals(cols.size(), 0.0);
         for (const auto& f : functions) {
-            std::vector<std::string> row;
+            std::vector<std::string> row = {location(f), display_name(f)};
             for (std::size_t c = 0; c < cols.size(); ++c) {
                 const double value = core::measure_value(f.measures, cols[c].id);
                 totals[c] += value;
                 row.push_back(format_number(value, cols[c].decimals));
             }
-            cells.push_back(std::move(row));
+            rows.push_back(std::move(row));
         }
-        std::vector<std::size_t> widths;
-        std::vector<std::string> total_row;
+        std::vector<std::string> total_row = {
+            fmt::format("total ({} functions)",
+                        format_number(static_cast<double>(functions.size()), 0)),
+            ""};
         for (std::size_t c = 0; c < cols.size(); ++c) {
-            std::string total = cols[c].summed ? format_number(totals[c], cols[c].decimals) : "";
-            std::size_t width = std::max(std::string(cols[c].title).size(), total.size());
-            for (const auto& row : cells) {
-                width = std::max(width, row[c].size());
-            }
-            widths.push_back(width);
-            total_row.push_back(std::move(total));
+            total_row.push_back(cols[c].summed ? format_number(totals[c], cols[c].decimals) : "");
         }
-        auto write_row = [&](const std::string& where, const std::string& name,
-                             const std::vector<std::string>& values) {
-            std::string line = fmt::format("{:<{}}  {:<{}}", where, where_width, name, name_width);
-            for (std::size_t c = 0; c < values.size(); ++c) {
-                line += fmt::format("  {:>{}}", values[c], widths[c]);
-            }
-            while (!line.empty() && line.back() == ' ') {
-                line.pop_back();
-            }
+        rows.push_back(std::move(total_row));
+        for (const auto& line : layout_table(layout, rows, width, fit)) {
             out << line << "\n";
-        };
-        std::vector<std::string> titles;
-        for (const auto& col : cols) {
-            titles.emplace_back(col.title);
         }
-        write_row("location", "function", titles);
-        for (std::size_t i = 0; i < functions.size(); ++i) {
-            write_row(location(functions[i]), display_name(functions[i]), cells[i]);
-        }
-        write_row(fmt::format("total ({} functions)", functions.size()), "", total_row);
     }
     for (const auto& w : warnings) {
         if (w.path.empty()) {
-            out << "note: " << w.message << "\n";
+            out << terminal_text("note: " + w.message) << "\n";
         } else if (w.line > 0) {
-            out << fmt::format("warning: {}:{}: {}\n", w.path, w.line, w.message);
+            out << terminal_text(fmt::format("warning: {}:{}: {}", w.path, w.line, w.message))
+                << "\n";
         } else {
-            out << fmt::format("warning: {}: {}\n", w.path, w.message);
+            out << terminal_text(fmt::format("warning: {}: {}", w.path, w.message)) << "\n";
         }
     }
 }
@@ -189,23 +192,33 @@ void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& 
           {"effort", effort}}},
         {"warnings", warnings_json(warnings)},
     };
-    out << document.dump(2) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         const std::string& source_label, const std::string& convention,
                         double stroud) {
     std::string how;
-    for (const auto& word : mark_words({f.lexical, f.inactive, f.brace_extent})) {
+    if (f.parser_stopped) {
+        how = ", measured lexically: the parser stopped on this file";
+    }
+    for (const auto& word :
+         mark_words({f.lexical && !f.parser_stopped, f.inactive, f.brace_extent})) {
         how += word == "inactive"       ? ", inactive #if branch (lexical extent)"
                : word == "brace-extent" ? ", extent from brace matching"
                                         : ", lexical extent";
     }
-    out << fmt::format("{}:{}-{}  {}({})  [{}, {}{}]\n\n", f.path, f.start_line, f.end_line, f.name,
-                       f.signature, source_label, convention, how);
+    out << terminal_text(fmt::format("{}:{}-{}  {}({})  [{}, {}{}]", f.path, f.start_line,
+                                     f.end_line, f.name, f.signature, source_label, convention,
+                                     how))
+        << "\n\n";
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {
-        std::vector<std::pair<std::string, core::TableEntry>> rows(table.begin(), table.end());
+        // Tokens are the function's own text (string literals and all): made visible.
+        std::vector<std::pair<std::string, core::TableEntry>> rows;
+        for (const auto& [key, entry] : table) {
+            rows.emplace_back(terminal_text(key), entry);
+        }
         // Most frequent first; ties by token so the order is deterministic.
         std::stable_sort(rows.begin(), rows.end(), [](const auto& a, const auto& b) {
             return a.second.count > b.second.count;
@@ -274,7 +287,7 @@ void write_explain_json(std::ostream& out, const MeasuredFunction& f,
     document["source"] = source_label;
     document["operators"] = table_json(f.counts.operators);
     document["operands"] = table_json(f.counts.operands);
-    out << document.dump(2) << "\n";
+    out << text::dump_json(document, 2) << "\n";
 }
 
 } // namespace tollgate::report

@@ -2,6 +2,7 @@
 // Renderers for `tollgate measure` and `tollgate explain`: text tables and JSON.
 #pragma once
 
+#include "gate/report/terminal_layout.hpp"
 #include "tollgate/core/counts.hpp"
 #include "tollgate/core/measures.hpp"
 
@@ -13,16 +14,17 @@ namespace tollgate::report {
 
 // One measured function, as the reports show it.
 struct MeasuredFunction {
-    std::string path;          // repository-relative path
-    unsigned start_line = 0;   // first line of the definition
-    unsigned end_line = 0;     // last line of the definition
-    std::string name;          // qualified name
-    std::string signature;     // parameter types
-    bool lexical = false;      // extent came from the lexical cross-check
-    bool inactive = false;     // defined in an #if branch the preprocessor skipped
-    bool brace_extent = false; // extent taken from brace matching (the parse disagreed)
-    core::Counts counts;       // per-token tables and n1, n2, N1, N2
-    core::Measures measures;   // every measure
+    std::string path;            // repository-relative path
+    unsigned start_line = 0;     // first line of the definition
+    unsigned end_line = 0;       // last line of the definition
+    std::string name;            // qualified name
+    std::string signature;       // parameter types
+    bool lexical = false;        // extent came from the lexical cross-check
+    bool parser_stopped = false; // the parser stopped on its file: measured lexically
+    bool inactive = false;       // defined in an #if branch the preprocessor skipped
+    bool brace_extent = false;   // extent taken from brace matching (the parse disagreed)
+    core::Counts counts;         // per-token tables and n1, n2, N1, N2
+    core::Measures measures;     // every measure
 };
 
 // A warning shown under the table.
@@ -35,11 +37,14 @@ struct SourceWarning {
 // Which columns the measure table shows.
 enum class Columns { essential, all };
 
-// Write the per-function table with a total line to `out`. An empty list writes a one-line
-// "no functions" message instead of an empty table.
+// Write the per-function table with a total line to `out`, fitted to `width` columns unless
+// `fit` is Fit::wide (see layout_table: locations and names shortened from the left, then
+// measure columns dropped from the right of the list, E last of all and never). An empty list
+// writes a one-line "no functions" message instead of an empty table.
 void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& functions,
                         const std::vector<SourceWarning>& warnings, Columns columns,
-                        const std::string& source_label);
+                        const std::string& source_label, std::size_t width = 100,
+                        Fit fit = Fit::to_width);
 
 // Write the functions as JSON (schema "tollgate.measure/1") to `out`.
 void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& functions,
@@ -55,7 +60,8 @@ void write_explain_text(std::ostream& out, const MeasuredFunction& function,
 void write_explain_json(std::ostream& out, const MeasuredFunction& function,
                         const std::string& source_label, const std::string& convention);
 
-// Return `value` formatted for a table: integers plainly, others with `decimals` places.
+// Return `value` with `decimals` places and thousands separators ("12,400", "1,234.5"): the one
+// way the terminal and Markdown reports write a measure.
 std::string format_number(double value, int decimals);
 
 } // namespace tollgate::report

@@ -2,11 +2,10 @@
 // The SARIF 2.1.0 writer: rules from the policy, results from the verdict's findings.
 #include "gate/report/sarif.hpp"
 
+#include "gate/common/text_safety.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/report/marks.hpp"
 
-#include <cctype>
-#include <cstdio>
 #include <nlohmann/json.hpp>
 
 namespace tollgate::report {
@@ -138,21 +137,38 @@ const delta::FunctionDelta* largest_growth(const delta::ChangeReport& report,
     return best;
 }
 
+// Return true when the function `finding` is about was measured lexically because the parser
+// stopped on its file.
+bool finding_parser_stopped(const delta::ChangeReport& report, const policy::Finding& finding) {
+    for (const auto& f : report.functions) {
+        const auto& side = f.shown_side();
+        if (f.name == finding.function && side.path == finding.path &&
+            side.start_line == finding.start_line) {
+            return f.parser_stopped();
+        }
+    }
+    return false;
+}
+
+// The report's warnings (parse errors, files the parser stopped on) as tool notifications.
+json notifications(const delta::ChangeReport& report) {
+    json list = json::array();
+    for (const auto& w : report.warnings) {
+        json notification = {{"level", "warning"},
+                             {"message", {{"text", w.message}}},
+                             {"properties", {{"side", w.side}}}};
+        if (!w.path.empty()) {
+            notification["locations"] = json::array({physical_location(w.path, w.line, 0)});
+        }
+        list.push_back(std::move(notification));
+    }
+    return list;
+}
+
 } // namespace
 
 std::string path_to_uri(const std::string& path) {
-    std::string uri;
-    for (const char c : path) {
-        const auto byte = static_cast<unsigned char>(c);
-        if (std::isalnum(byte) || c == '-' || c == '.' || c == '_' || c == '~' || c == '/') {
-            uri += c;
-        } else {
-            char escaped[4];
-            std::snprintf(escaped, sizeof escaped, "%%%02X", byte);
-            uri += escaped;
-        }
-    }
-    return uri;
+    return text::percent_encode(path, "/");
 }
 
 void write_sarif(std::ostream& out, const delta::ChangeReport& report,
@@ -201,6 +217,11 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
         if (finding.grandfathered) {
             result["baselineState"] = "unchanged";
         }
+        if (finding_parser_stopped(report, finding)) {
+            result["message"]["text"] =
+                finding.message + " (measured lexically: the parser stopped on this file)";
+            result["properties"]["extent"] = "parser-stopped";
+        }
         if (const auto* f = finding_function(report, finding)) {
             add_function_properties(result["properties"], *f);
         }
@@ -245,6 +266,8 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
         {"originalUriBaseIds",
          {{"SRCROOT", {{"description", {{"text", "The root of the repository."}}}}}}},
         {"results", results},
+        {"invocations", json::array({{{"executionSuccessful", true},
+                                      {"toolExecutionNotifications", notifications(report)}}})},
         {"properties",
          {{"outcome", policy::outcome_name(verdict.outcome)},
           {"policyOrigin", verdict.policy_origin},
@@ -255,7 +278,7 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
     };
     const json log = {
         {"$schema", k_sarif_schema}, {"version", "2.1.0"}, {"runs", json::array({run})}};
-    out << log.dump(2) << "\n";
+    out << text::dump_json(log, 2) << "\n";
 }
 
 } // namespace tollgate::report

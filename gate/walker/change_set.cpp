@@ -2,6 +2,7 @@
 // Collect the changed C/C++ files between a base and a head with libgit2's diff, and read them.
 #include "gate/walker/change_set.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/walker/libgit2_api.hpp"
 #include "gate/walker/rename_similarity.hpp"
@@ -61,18 +62,13 @@ LineSet whole_file(const std::string& content) {
     return set;
 }
 
+// Read a working-tree file only when it is a regular file (never a symlink, FIFO or device).
 std::optional<std::string> read_disk_file(const std::string& path) {
-    std::error_code error;
-    if (!std::filesystem::is_regular_file(std::filesystem::symlink_status(path, error))) {
+    DiskFile file = read_regular_file(path);
+    if (file.entry != DiskEntry::regular) {
         return std::nullopt;
     }
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        return std::nullopt;
-    }
-    std::ostringstream buffer;
-    buffer << in.rdbuf();
-    return buffer.str();
+    return std::move(file.content);
 }
 
 bool working_tree_head(const ChangeSet& changes) {
@@ -193,11 +189,11 @@ const char* skip_reason_text(SkipReason reason) {
     case SkipReason::type_change:
         return "type change (deleted and re-added as another kind of entry)";
     case SkipReason::not_c_family:
-        return "not C/C++";
+        return "not C, C++ or Java";
     case SkipReason::unreadable:
         return "unreadable";
     }
-    return "not C/C++";
+    return "not C, C++ or Java";
 }
 
 ChangeSet collect_changes(const Repository& repository, const ResolvedRange& range,
@@ -226,8 +222,8 @@ ChangeSet collect_changes(const Repository& repository, const ResolvedRange& ran
         if (status != ChangeStatus::deleted) {
             file.head_path = delta.new_file.path;
         }
-        const bool base_c = !file.base_path.empty() && is_c_family_path(file.base_path);
-        const bool head_c = !file.head_path.empty() && is_c_family_path(file.head_path);
+        const bool base_c = !file.base_path.empty() && is_measured_path(file.base_path);
+        const bool head_c = !file.head_path.empty() && is_measured_path(file.head_path);
         std::optional<SkipReason> skip = skip_by_kind(delta);
         if (!skip && !base_c && !head_c) {
             skip = SkipReason::not_c_family;

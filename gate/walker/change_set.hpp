@@ -29,7 +29,7 @@ enum class SkipReason {
     submodule,    // a gitlink: another repository's commit
     symlink,      // a symbolic link: its blob is a path, not source
     type_change,  // deleted and re-added as another kind of entry (file <-> symlink or submodule)
-    not_c_family, // neither side has a C/C++ extension
+    not_c_family, // neither side has a C/C++ or Java extension
     unreadable,   // the working-tree file could not be read
 };
 
@@ -42,7 +42,7 @@ enum class RenameDetection {
 // Return the lowercase name of `status` ("added", "modified", "deleted", "renamed").
 const char* status_name(ChangeStatus status);
 
-// Return the lowercase wording of `reason` for reports, e.g. "binary", "not C/C++".
+// Return the lowercase wording of `reason` for reports, e.g. "binary", "not C, C++ or Java".
 const char* skip_reason_text(SkipReason reason);
 
 // Options of collect_changes.

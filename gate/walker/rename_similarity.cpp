@@ -2,6 +2,8 @@
 // A rename similarity metric for libgit2 that follows git's own estimate, so renames match git's.
 #include "gate/walker/rename_similarity.hpp"
 
+#include "gate/common/disk_file.hpp"
+
 #include <algorithm>
 #include <fstream>
 #include <functional>
@@ -65,14 +67,13 @@ unsigned score(const ChunkSignature& base, const ChunkSignature& head, unsigned 
 
 int sign_file(void** out, const git_diff_file*, const char* fullpath, void*) {
     try {
-        std::ifstream in(fullpath, std::ios::binary);
-        if (!in) {
+        // A working-tree file: read only when it is a regular file (never a FIFO or symlink).
+        const DiskFile file = read_regular_file(fullpath);
+        if (file.entry != DiskEntry::regular) {
             *out = nullptr;
             return 0; // unreadable: no signature, so no rename
         }
-        std::ostringstream buffer;
-        buffer << in.rdbuf();
-        *out = new ChunkSignature(sign(buffer.str()));
+        *out = new ChunkSignature(sign(file.content));
         return 0;
     } catch (...) {
         return -1;

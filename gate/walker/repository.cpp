@@ -2,6 +2,7 @@
 // libgit2 access: open a repository, resolve revisions, list trees and read blobs.
 #include "gate/walker/repository.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/walker/libgit2_api.hpp"
 
@@ -10,6 +11,7 @@
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <spdlog/spdlog.h>
 #include <sstream>
 
 namespace tollgate::walker {
@@ -76,16 +78,6 @@ std::string quoted(const std::string& text) {
     return "\"" + text + "\"";
 }
 
-std::string read_disk_file(const std::filesystem::path& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw Failure("cannot read " + quoted(path.string()));
-    }
-    std::ostringstream buffer;
-    buffer << in.rdbuf();
-    return buffer.str();
-}
-
 // Collects the C/C++ blobs of a tree walk.
 int collect_c_family_entry(const char* root, const git_tree_entry* entry, void* payload) {
     if (git_tree_entry_type(entry) != GIT_OBJECT_BLOB ||
@@ -93,7 +85,7 @@ int collect_c_family_entry(const char* root, const git_tree_entry* entry, void* 
         return 0;
     }
     std::string path = std::string(root) + git_tree_entry_name(entry);
-    if (is_c_family_path(path)) {
+    if (is_measured_path(path)) {
         auto* files = static_cast<std::vector<TreeFile>*>(payload);
         files->push_back(TreeFile{std::move(path), git::to_object_id(*git_tree_entry_id(entry))});
     }
@@ -238,7 +230,7 @@ std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
     for (std::size_t i = 0; i < count; ++i) {
         const git_index_entry* entry = git_index_get_byindex(raw_index, i);
         if (entry->mode != GIT_FILEMODE_COMMIT && entry->mode != GIT_FILEMODE_LINK &&
-            is_c_family_path(entry->path)) {
+            is_measured_path(entry->path)) {
             paths[entry->path] = true;
         }
     }
@@ -253,18 +245,25 @@ std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
     for (std::size_t i = 0; i < status_count; ++i) {
         const git_status_entry* entry = git_status_byindex(raw_status, i);
         if ((entry->status & GIT_STATUS_WT_NEW) != 0 && entry->index_to_workdir != nullptr &&
-            is_c_family_path(entry->index_to_workdir->new_file.path)) {
+            is_measured_path(entry->index_to_workdir->new_file.path)) {
             paths[entry->index_to_workdir->new_file.path] = true;
         }
     }
     std::vector<SourceFile> files;
     for (const auto& item : paths) {
         const std::filesystem::path on_disk = std::filesystem::path(root) / item.first;
-        std::error_code error;
-        if (!std::filesystem::is_regular_file(std::filesystem::symlink_status(on_disk, error))) {
-            continue; // deleted from disk, or a symlink: not measured
+        DiskFile file = read_regular_file(on_disk.string());
+        if (file.entry == DiskEntry::unreadable) {
+            throw Failure("cannot read " + quoted(on_disk.string()));
         }
-        files.push_back(SourceFile{item.first, read_disk_file(on_disk)});
+        if (file.entry != DiskEntry::regular) {
+            // Deleted from disk, a symlink (never followed), a FIFO or device (never opened).
+            if (file.entry != DiskEntry::missing) {
+                spdlog::warn("skipped \"{}\": {}", item.first, disk_entry_text(file.entry));
+            }
+            continue;
+        }
+        files.push_back(SourceFile{item.first, std::move(file.content)});
     }
     return files;
 }

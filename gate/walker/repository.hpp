@@ -55,8 +55,8 @@ public:
     // "base") is left out of the message when empty.
     ObjectId resolve_commit(const std::string& revision, const std::string& role = {}) const;
 
-    // Return the C/C++ files (by is_c_family_path) of `commit`'s tree, sorted by path; symlinks
-    // and submodules are left out. Throws Failure when the commit is missing.
+    // Return the C/C++ and Java files (by is_measured_path) of `commit`'s tree, sorted by path;
+    // symlinks and submodules are left out. Throws Failure when the commit is missing.
     std::vector<TreeFile> list_c_family_files(const ObjectId& commit) const;
 
     // Return the bytes of blob `blob`. Throws Failure when it is missing.
@@ -66,13 +66,14 @@ public:
     // (absent, a folder, a symlink or a submodule). Throws Failure when the commit is missing.
     std::optional<SourceFile> read_file(const ObjectId& commit, const std::string& path) const;
 
-    // Return every C/C++ file of `commit` with its content, sorted by path. Throws Failure when
-    // the commit or a blob is missing.
+    // Return every C/C++ and Java file of `commit` with its content, sorted by path. Throws Failure
+    // when the commit or a blob is missing.
     std::vector<SourceFile> read_c_family_files(const ObjectId& commit) const;
 
-    // Return every C/C++ file of the working tree (tracked or untracked, not ignored), with its
-    // content read from disk, sorted by path; files deleted from disk, symlinks and submodules are
-    // left out. Throws UsageError for a bare repository, Failure when a file cannot be read.
+    // Return every C/C++ and Java file of the working tree (tracked or untracked, not ignored),
+    // with its content read from disk, sorted by path; files deleted from disk, symlinks and
+    // submodules are left out. Throws UsageError for a bare repository, Failure when a file cannot
+    // be read.
     std::vector<SourceFile> read_worktree_c_family_files() const;
 
     // Return the short names of local branches, remote branches and tags, sorted; empty for a

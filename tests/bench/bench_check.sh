@@ -31,7 +31,7 @@ measure() { # $1 label, rest: command
     start=$(date +%s.%N)
     /usr/bin/time -f "%M" -o "$work/mem" "$@" >/dev/null
     end=$(date +%s.%N)
-    python3 -c "print(f'{\"$label\":<44} {($end - $start):7.3f} s   peak {int(open(\"$work/mem\").read().split()[-1])/1024:6.1f} MiB')"
+    python3 -c "print(f'{\"$label\":<52} {($end - $start):7.3f} s   peak {int(open(\"$work/mem\").read().split()[-1])/1024:6.1f} MiB')"
     python3 -c "print($end - $start)" >"$work/last"
 }
 measure "check, cold PCH cache, all cores" "$tollgate" check --base HEAD~1 --cache-dir "$cache"
@@ -40,6 +40,46 @@ warm=$(cat "$work/last")
 measure "check, warm PCH cache, 1 thread" "$tollgate" check --base HEAD~1 --cache-dir "$cache" -j 1
 measure "check, no PCH, all cores" "$tollgate" check --base HEAD~1 --no-pch-cache
 "$tollgate" snapshot --rev HEAD~1 --out "$work/base-snapshot.json" --cache-dir "$cache" 2>/dev/null
-measure "check, warm PCH, base from a snapshot" "$tollgate" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/base-snapshot.json"
-printf '%-44s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
+"$tollgate" snapshot --rev HEAD --out "$work/head-snapshot.json" --cache-dir "$cache" 2>/dev/null
+# The base is always parsed; a snapshot of the base is compared on every touched function (the
+# spot-check), one of another commit only grandfathers. The difference between the two is the
+# comparison, the difference to "warm PCH cache, all cores" the snapshot's loading.
+measure "check, warm PCH, snapshot of the base (checked)" "$tollgate" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/base-snapshot.json"
+checked=$(cat "$work/last")
+measure "check, warm PCH, snapshot of another commit" "$tollgate" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/head-snapshot.json"
+other=$(cat "$work/last")
+# For comparison, an older tollgate that took the base from the snapshot unchecked (set
+# TOLLGATE_UNCHECKED to its binary, e.g. a build of the commit before the spot-check).
+if [ -n "${TOLLGATE_UNCHECKED:-}" ]; then
+    measure "older tollgate, base from the snapshot unchecked" "$TOLLGATE_UNCHECKED" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/base-snapshot.json"
+fi
+printf '%-52s %7.3f s\n' "floor: bare libclang, 20 blobs, naive" "$floor"
 python3 -c "print(f'ratio check (warm, all cores) / floor: {$warm / $floor:.3f}  (goal <= 0.25)')"
+python3 -c "print(f'ratio check with a checked snapshot of the base / without a snapshot: {$checked / $warm:.3f}')"
+python3 -c "print(f'ratio check with a checked snapshot of the base / with one of another commit: {$checked / $other:.3f}')"
+
+# The cost of isolation: the same warm check with parser processes (the default) and with the
+# unsafe in-process switch, interleaved so both see the same load; the median of 7 runs each.
+seconds() { # rest: command; prints its wall-clock seconds
+    local start end
+    start=$(date +%s.%N)
+    "$@" >/dev/null 2>&1 || true
+    end=$(date +%s.%N)
+    python3 -c "print($end - $start)"
+}
+isolated=()
+in_process=()
+for _ in 1 2 3 4 5 6 7; do
+    isolated+=("$(seconds "$tollgate" check --base HEAD~1 --cache-dir "$cache")")
+    in_process+=("$(TOLLGATE_UNSAFE_PARSE_IN_PROCESS=1 seconds "$tollgate" check --base HEAD~1 --cache-dir "$cache")")
+done
+python3 - "${isolated[*]}" "${in_process[*]}" <<'PY'
+import statistics, sys
+isolated = [float(x) for x in sys.argv[1].split()]
+in_process = [float(x) for x in sys.argv[2].split()]
+a, b = statistics.median(isolated), statistics.median(in_process)
+print(f"{'check, warm, parser processes (median of 7)':<44} {a:7.3f} s")
+print(f"{'check, warm, in-process, unsafe (median of 7)':<44} {b:7.3f} s")
+print(f"ratio parser processes / in-process: {a / b:.3f}  (goal < 1.10)")
+PY
+echo "load average: $(cut -d' ' -f1-3 /proc/loadavg)"

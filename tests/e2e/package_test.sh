@@ -33,9 +33,14 @@ cleanup() {
 trap cleanup EXIT
 DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$deb" >/dev/null
 
-version=$(/usr/bin/tollgate --version)
+version=$(/usr/bin/tollgate --version | head -n 1)
 expected="tollgate $(sed -n 's/^project(tollgate VERSION \([0-9.]*\).*/\1/p' "$root/CMakeLists.txt")"
 [ "$version" = "$expected" ] || fail "tollgate --version printed \"$version\", expected \"$expected\""
+java_line=$(/usr/bin/tollgate --version | sed -n 2p)
+case "$java_line" in
+"java: on ("*) ;;
+*) fail "tollgate --version says \"$java_line\", expected the Java front end on" ;;
+esac
 for file in /usr/share/man/man1/tollgate.1 \
     /usr/share/tollgate/policies/starter.yaml /usr/share/tollgate/policies/strict.yaml \
     /usr/share/tollgate/policies/legacy.yaml /usr/share/tollgate/policies/README.md \

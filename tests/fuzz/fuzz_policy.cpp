@@ -1,12 +1,56 @@
 // SPDX-License-Identifier: MIT
-// libFuzzer target for the policy loader: any input must load or throw PolicyError, and a loaded
-// policy must describe itself as YAML that loads back equal, with no difference reported.
+// libFuzzer target for the policy loader: any input must load or throw PolicyError, a loaded
+// policy must hold only finite numbers of zero or more, and it must describe itself as YAML that
+// loads back equal, with no difference reported.
 #include "gate/policy/policy.hpp"
 
+#include <cmath>
 #include <cstddef>
 #include <cstdint>
 #include <cstdlib>
+#include <optional>
 #include <string>
+
+namespace {
+
+bool sound(double value) {
+    return std::isfinite(value) && value >= 0;
+}
+
+bool sound(const std::optional<double>& value) {
+    return !value || sound(*value);
+}
+
+bool sound(const tollgate::policy::LimitOverride& limit) {
+    return limit.setting != tollgate::policy::LimitSetting::set || sound(limit.value);
+}
+
+// Return whether every number of `policy` is finite and not negative (the judge divides and
+// compares with them: a NaN would silently pass every comparison).
+bool numbers_are_sound(const tollgate::policy::Policy& policy) {
+    for (const auto& floor : policy.noise_floor) {
+        if (!sound(floor.below)) {
+            return false;
+        }
+    }
+    for (const auto& rule : policy.rules) {
+        if (!sound(rule.max_increase) || !sound(rule.max_increase_percent) ||
+            !sound(rule.ceiling) || !sound(rule.max_total_increase)) {
+            return false;
+        }
+    }
+    for (const auto& path_override : policy.paths.overrides) {
+        for (const auto& change : path_override.rules) {
+            if (!sound(change.max_increase) || !sound(change.max_increase_percent) ||
+                !sound(change.ceiling)) {
+                return false;
+            }
+        }
+    }
+    return true;
+}
+
+} // namespace
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
     using namespace tollgate::policy;
@@ -19,6 +63,9 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
             std::abort(); // a PolicyError must say what is wrong
         }
         return 0;
+    }
+    if (!numbers_are_sound(policy)) {
+        std::abort();
     }
     // A policy that loaded must round-trip; a PolicyError escaping here is a bug too.
     const Policy again = load_policy(describe_policy(policy), "described");

@@ -98,8 +98,15 @@ std::string commit_all(const std::string& dir, const std::string& message) {
     return id;
 }
 
+std::string tollgate_binary() {
+    // TOLLGATE_TEST_BINARY runs the integration tests against another build (an older binary,
+    // to see a regression test fail there).
+    const char* other = std::getenv("TOLLGATE_TEST_BINARY");
+    return other != nullptr && *other != '\0' ? other : TOLLGATE_BINARY;
+}
+
 RunResult run_tollgate(const std::string& args, const std::string& cwd) {
-    return run_command(std::string(TOLLGATE_BINARY) + " " + args, cwd);
+    return run_command(shell_quote(tollgate_binary()) + " " + args, cwd);
 }
 
 } // namespace tollgate::test

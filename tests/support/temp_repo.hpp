@@ -41,7 +41,11 @@ void init_repo(const std::string& dir);
 // Stage everything in `dir` and commit with `message`; return the new commit id.
 std::string commit_all(const std::string& dir, const std::string& message);
 
-// Run the built tollgate binary with `args` in `cwd`.
+// Return the tollgate binary the integration tests run: the one built with them, or
+// $TOLLGATE_TEST_BINARY when set.
+std::string tollgate_binary();
+
+// Run tollgate_binary() with `args` in `cwd`.
 RunResult run_tollgate(const std::string& args, const std::string& cwd);
 
 // Return the content of the file at `path`.

@@ -20,6 +20,7 @@ using tollgate::baseline::save_snapshot;
 using tollgate::baseline::Snapshot;
 using tollgate::baseline::snapshot_to_json;
 using tollgate::baseline::SnapshotExpectations;
+using tollgate::test::halstead_effort;
 using tollgate::test::read_text;
 using tollgate::test::snapshot_function;
 using tollgate::test::TempDir;
@@ -143,6 +144,19 @@ TEST_CASE("parse_snapshot", "[baseline]") {
               "--rev 3f2a91c --out baselines/snapshot.json)");
     }
 
+    SECTION("a measure that does not follow from its counts is refused, digest or not") {
+        // The digest is no signature: whoever edits a measure can recompute it.
+        Snapshot edited = snapshot;
+        edited.functions[1].measures.effort = 1e9;
+        CHECK(refusal(snapshot_to_json(edited)) ==
+              "baselines/snapshot.json: corrupted snapshot: /functions/1/measures/effort: "
+              "1000000000 does not follow from the function's counts (n1 6 n2 1 N1 7 N2 2 give "
+              "151.59716579111063) (rebuild it: tollgate snapshot --rev 3f2a91c --out "
+              "baselines/snapshot.json)");
+        // Halstead 1977: E = (n1/2)(N2/n2)(N1+N2) log2(n1+n2) = (6/2)(2/1)(7+2) log2 7.
+        CHECK(halstead_effort(6, 1, 7, 2) == Approx(151.59716579111063));
+    }
+
     SECTION("a missing key is refused by its JSON pointer") {
         auto document = nlohmann::ordered_json::parse(text);
         document["functions"][2].erase("end_line");
@@ -217,6 +231,9 @@ TEST_CASE("parse_snapshot", "[baseline]") {
         Snapshot other = snapshot;
         other.convention = "c-family/1+merged-forms";
         other.stroud = 10;
+        for (auto& f : other.functions) {
+            f.measures.time = f.measures.effort / 10; // T = E / S (Halstead 1977, from memory)
+        }
         CHECK(parse_snapshot(snapshot_to_json(other), k_path) == other);
     }
 }

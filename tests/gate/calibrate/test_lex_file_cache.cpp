@@ -109,3 +109,42 @@ TEST_CASE("LexFileCache", "[calibrate]") {
         CHECK(cache.counts().parses == 1);
     }
 }
+
+TEST_CASE("LexFileCache keeps text that is not UTF-8 byte for byte", "[calibrate]") {
+    tollgate::test::TempDir dir;
+    LexFileCache cache(dir.path() + "/cache");
+    const auto context = context_with({});
+    // A Latin-1 file whose string literals differ only in a Latin-1 byte: replacing either
+    // with U+FFFD would merge two distinct operands and change n2.
+    const SourceFile latin1{"src/caf\xE9.c", "char* s() { return \"\xE9\" \"\xE8\"; }\n"};
+    tollgate::lexer::FileFunctions bytes;
+    bytes.path = latin1.path;
+    tollgate::lexer::FunctionSpan span;
+    span.path = latin1.path;
+    span.usr = "c:caf\xE9.c@F@s";
+    span.qualified_name = "s\x1b[2J";
+    span.fallback_key = "s\x1b[2J()#0";
+    span.start_line = 1;
+    span.end_line = 1;
+    span.token_hash = "abc";
+    span.tokens = {
+        {"\"\xE9\"", "\"\xE9\"", tollgate::core::Role::operand_token, "",
+         tollgate::core::Basis::spelling, 1},
+        {"\"\xE8\"", "\"\xE8\"", tollgate::core::Role::operand_token, "",
+         tollgate::core::Basis::spelling, 1},
+        {"%d", "%d", tollgate::core::Role::operand_token, "", tollgate::core::Basis::spelling, 1}};
+    bytes.functions.push_back(span);
+    bytes.warnings = {{latin1.path, 1, "caf\xE9 \xFF"}};
+    // Before: nlohmann's dump threw type_error 316 in store() and ended the run.
+    REQUIRE_NOTHROW(cache.store(latin1, context, bytes));
+    CHECK(cache.counts().write_failures == 0);
+    LexFileCache again(dir.path() + "/cache");
+    const auto found = again.find(latin1, context);
+    REQUIRE(found);
+    CHECK(found->path == latin1.path);
+    CHECK(found->functions == bytes.functions);
+    REQUIRE(found->warnings.size() == 1);
+    CHECK(found->warnings[0].path == latin1.path);
+    CHECK(found->warnings[0].message == "caf\xE9 \xFF");
+    CHECK(again.counts().damaged == 0);
+}

@@ -226,7 +226,7 @@ TEST_CASE("check does not touch functions that use a changed macro", "[check]") 
     CHECK(report["measured_files"] == 1);
 }
 
-TEST_CASE("check on a change without C/C++ files writes one line and passes", "[check]") {
+TEST_CASE("check on a change without C, C++ or Java files writes one line and passes", "[check]") {
     TempDir dir;
     init_repo(dir.path());
     dir.write("main.c", "int main(void) {\n    return 0;\n}\n");
@@ -237,7 +237,8 @@ TEST_CASE("check on a change without C/C++ files writes one line and passes", "[
     const auto result =
         run_tollgate("check --no-pch-cache --base " + base + " --head " + head, dir.path());
     CHECK(result.exit_code == 0);
-    CHECK(result.out.find("no C/C++ file changed: nothing to measure") != std::string::npos);
+    CHECK(result.out.find("no C, C++ or Java file changed: nothing to measure") !=
+          std::string::npos);
     CHECK(result.out.find("label") == std::string::npos);
 }
 
@@ -294,7 +295,8 @@ TEST_CASE("check writes a Markdown table that a GFM renderer renders as a table"
                                      dir.path());
     REQUIRE(result.exit_code == 0);
     const std::string markdown = tollgate::test::read_text(dir.path() + "/delta.md");
-    CHECK(markdown.rfind("**Tollgate: pass**: 15 functions touched in 1 file", 0) == 0);
+    CHECK(markdown.rfind("### \xE2\x9C\x93 Tollgate passes this change\n\n", 0) == 0);
+    CHECK(markdown.find("15 functions touched in 1 file") != std::string::npos);
     CHECK(markdown.find("<details><summary>5 more functions</summary>") != std::string::npos);
     CHECK(markdown.find("(https://git.example/r/blob/" + head + "/many.cpp#L") !=
           std::string::npos);
@@ -442,8 +444,10 @@ TEST_CASE("check blocks a change that breaks the base commit's policy", "[check]
     CHECK(result.out.find("verdict: BLOCKED by 1 blocking finding (policy: .tollgate.yaml at "
                           "base " +
                           base.substr(0, 7) + ")") != std::string::npos);
-    CHECK(result.out.find("grow.c:1: grow(int): effort +") != std::string::npos);
+    // The finding under its function, then the command that explains it.
+    CHECK(result.out.find("  block  grow  grow.c:1\n           effort +") != std::string::npos);
     CHECK(result.out.find("exceeds the limit +20% by") != std::string::npos);
+    CHECK(result.out.find("           why: tollgate explain grow.c:grow\n") != std::string::npos);
 }
 
 TEST_CASE("check judges with the base's policy when the change loosens it", "[check][policy]") {

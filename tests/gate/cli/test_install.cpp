@@ -1,6 +1,7 @@
 // SPDX-License-Identifier: MIT
 // `cmake --install` of the build the tests run from: the binary, the manual, the ready policies and
 // the CI templates land where gate/install.cmake says, and the installed binary runs.
+#include "gate/java/java_front_end.hpp"
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -27,7 +28,8 @@ TEST_CASE("cmake --install puts the binary, manual, policies and templates in pl
     const auto version =
         run_command(shell_quote(prefix.path() + "/bin/tollgate") + " --version", prefix.path());
     CHECK(version.exit_code == 0);
-    CHECK(version.out == std::string("tollgate ") + TOLLGATE_VERSION + "\n");
+    CHECK(version.out == std::string("tollgate ") + TOLLGATE_VERSION + "\n" +
+                             tollgate::java::java_status() + "\n");
     CHECK(read_text(prefix.path() + "/share/man/man1/tollgate.1") ==
           read_text(source + "/gate/cli/tollgate.1"));
     for (const char* policy : {"starter.yaml", "strict.yaml", "legacy.yaml", "README.md"}) {

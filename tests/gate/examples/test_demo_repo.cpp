@@ -1,6 +1,6 @@
 // SPDX-License-Identifier: MIT
 // The demo scenario: examples/make_demo_repo.sh builds the invented skyline-sensors history, and
-// the real binary blocks its first pull request and passes its second.
+// the real binary blocks its first pull request, passes its second and blocks its third (Java).
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -28,6 +28,7 @@ TEST_CASE("make_demo_repo.sh builds a history the gate blocks once and passes on
     // main, and one branch per pull request, each one commit ahead of main.
     CHECK(run_command("git rev-list --count main..filter-outliers", repo).out == "1\n");
     CHECK(run_command("git rev-list --count main..crc-simplify", repo).out == "1\n");
+    CHECK(run_command("git rev-list --count main..decoder-resync", repo).out == "1\n");
 
     SECTION("the filter's bloated update step is blocked by the repository's policy") {
         const auto result = run_tollgate(
@@ -46,6 +47,17 @@ TEST_CASE("make_demo_repo.sh builds a history the gate blocks once and passes on
         CHECK(result.exit_code == 0);
         CHECK(result.out.find("skyline_crc16") != std::string::npos);
         CHECK(result.out.find("verdict: pass") != std::string::npos);
+    }
+    SECTION("the Java ground station's bloated decoder is blocked by the same policy") {
+        const auto result = run_tollgate(
+            "check --base main --head decoder-resync --report json:- --no-color", repo);
+        INFO(result.err);
+        REQUIRE(result.exit_code == 1);
+        const auto report = nlohmann::json::parse(result.out);
+        REQUIRE(report["functions"].size() == 1);
+        CHECK(report["functions"][0]["function"] == "com.skyline.ground.FrameDecoder.decode");
+        CHECK(report["functions"][0]["label"] == "changed");
+        CHECK(report["convention"] == "c-family/1, java/1");
     }
     SECTION("the builder refuses a folder that is not empty") {
         const auto again =

@@ -45,7 +45,8 @@ TEST_CASE("make_parse_context", "[lexer]") {
            "command": "cc -U NDEBUG -I include -include \"include/top.h\" -c tools/main.c"},
           {"directory": "/elsewhere", "file": "/elsewhere/x.c", "command": "cc -DX -c x.c"}
         ])";
-        const auto context = lexer::make_parse_context(files, database, "/home/dev/repo");
+        const auto context = lexer::make_parse_context(files, database, "/home/dev/repo",
+                                                       lexer::DatabaseOrigin::given);
         REQUIRE(context.file_flags.size() == 2);
         const std::vector<std::string> api = {"-DFAST=1", "-I/tollgate-src/lib/core/include",
                                               "-isystem", "/opt/x/include", "-std=gnu++17"};
@@ -53,6 +54,23 @@ TEST_CASE("make_parse_context", "[lexer]") {
         const std::vector<std::string> main_flags = {"-UNDEBUG", "-I", "/tollgate-src/include",
                                                      "-include", "/tollgate-src/include/top.h"};
         CHECK(context.file_flags.at("tools/main.c") == main_flags);
+        // A database the pipeline names is trusted: its folders outside the repository may be read.
+        CHECK(context.trusted_dirs == std::vector<std::string>{"/opt/x/include"});
+    }
+    SECTION("a database found in the working tree names no host folder but system ones") {
+        // It may come with the change under review: "-I/etc" must not make /etc readable.
+        const std::string database = R"([
+          {"directory": "/home/dev/repo",
+           "file": "src/api.cpp",
+           "arguments": ["c++", "-I/etc", "-isystem", "/opt/x/include", "-I/usr/include/libxml2",
+                         "-I", "../../../../etc", "-include", "/etc/passwd", "-Iinclude",
+                         "-c", "src/api.cpp"]}
+        ])";
+        const auto context = lexer::make_parse_context(files, database, "/home/dev/repo",
+                                                       lexer::DatabaseOrigin::found);
+        const std::vector<std::string> api = {"-I/usr/include/libxml2", "-I/tollgate-src/include"};
+        CHECK(context.file_flags.at("src/api.cpp") == api);
+        CHECK(context.trusted_dirs.empty());
     }
     SECTION("a file without an entry borrows the nearest entry of its language") {
         // common practice, no source: editors infer a header's flags from a nearby source.

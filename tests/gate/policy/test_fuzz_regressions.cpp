@@ -1,6 +1,6 @@
 // SPDX-License-Identifier: MIT
-// Replays every input the policy-loader fuzzer kept (tests/fuzz/regressions/): each must load or
-// throw PolicyError, and a loaded policy must survive describe_policy and load back equal.
+// Replays every input the policy-loader fuzzer kept (tests/fuzz/regressions/policy/): each must
+// load or throw PolicyError, and a loaded policy must survive describe_policy and load back equal.
 #include "gate/policy/policy.hpp"
 #include "support/temp_repo.hpp"
 
@@ -11,7 +11,8 @@ using namespace tollgate::policy;
 
 TEST_CASE("load_policy survives the fuzzer's regression inputs", "[policy]") {
     namespace fs = std::filesystem;
-    const fs::path folder = fs::path(TOLLGATE_SOURCE_DIR) / "tests" / "fuzz" / "regressions";
+    const fs::path folder =
+        fs::path(TOLLGATE_SOURCE_DIR) / "tests" / "fuzz" / "regressions" / "policy";
     REQUIRE(fs::is_directory(folder));
     std::size_t replayed = 0;
     for (const auto& entry : fs::directory_iterator(folder)) {

@@ -311,3 +311,37 @@ TEST_CASE("load_policy rejects text that is not UTF-8", "[policy]") {
     CHECK_THROWS_AS(load_policy("tollgate-policy: 1\n# \xED\xA0\x80\n", "p"),
                     PolicyError); // surrogate
 }
+
+TEST_CASE("load_policy refuses numbers that are not finite or are negative", "[policy]") {
+    // YAML 1.2 spells infinity and not-a-number ".inf", "-.inf" and ".nan" (YAML 1.2, 2009,
+    // section 10.2.1.4); 1e400 overflows a double (IEEE 754 binary64 ends near 1.8e308).
+    const std::string odd = GENERATE(as<std::string>{}, ".nan", ".NaN", "nan", ".inf", "-.inf",
+                                     "inf", "1e400", "-1", "-0.5", "-1e400");
+    const std::string column_text = "\" must be a number of zero or more, not \"" + odd + "\"";
+    SECTION("as a rule's limit") {
+        CHECK(
+            problems("tollgate-policy: 1\nrules:\n  - id: g\n    kind: growth\n"
+                     "    measure: effort\n    max-increase-percent: " +
+                     odd + "\n") ==
+            std::vector<std::string>{".tollgate.yaml:6:27: \"max-increase-percent" + column_text});
+    }
+    SECTION("as a ceiling, a budget and an override's limit") {
+        CHECK(problems("tollgate-policy: 1\nrules:\n  - {id: c, kind: ceiling, measure: volume, "
+                       "ceiling: " +
+                       odd + "}\n")
+                  .size() == 1);
+        CHECK(problems("tollgate-policy: 1\nrules:\n  - {id: b, kind: budget, measure: effort, "
+                       "max-total-increase: " +
+                       odd + "}\n")
+                  .size() == 1);
+        CHECK(problems("tollgate-policy: 1\nrules:\n  - {id: g, kind: growth, measure: effort, "
+                       "max-increase: 5}\npaths:\n  overrides:\n    - match: \"a/**\"\n"
+                       "      rules: {g: {max-increase: " +
+                       odd + "}}\n") ==
+              std::vector<std::string>{".tollgate.yaml:7:33: \"max-increase" + column_text});
+    }
+    SECTION("as a noise floor") {
+        CHECK(problems("tollgate-policy: 1\nnoise-floor:\n  volume: " + odd + "\n") ==
+              std::vector<std::string>{".tollgate.yaml:3:11: \"noise-floor.volume" + column_text});
+    }
+}

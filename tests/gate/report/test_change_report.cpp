@@ -151,3 +151,58 @@ TEST_CASE("group_thousands and format_percent format numbers for reviewers", "[r
     CHECK(report::format_percent(-12.6) == "-13%");
     CHECK(report::format_percent(0.2) == "+0%");
 }
+
+namespace {
+
+// Return the lines of `text` that hold `needle`.
+std::vector<std::string> lines_with(const std::string& text, const std::string& needle) {
+    std::vector<std::string> found;
+    std::istringstream in(text);
+    for (std::string line; std::getline(in, line);) {
+        if (line.find(needle) != std::string::npos) {
+            found.push_back(line);
+        }
+    }
+    return found;
+}
+
+} // namespace
+
+TEST_CASE("write_change_text colours by the verdict, not by the sign of a change", "[report]") {
+    // Okabe and Ito's palette as 256-colour codes: vermillion 166, orange 178, sky blue 74.
+    const std::string vermillion = "\x1b[38;5;166m", orange = "\x1b[38;5;178m",
+                      sky_blue = "\x1b[38;5;74m";
+    report::RenderOptions options;
+    options.colour = report::Colour::on;
+    options.fit = report::Fit::wide;
+    const auto report = sample_report();
+    SECTION("a blocked change: rows a finding touches carry colour and a word; others none") {
+        std::ostringstream out;
+        report::write_change_text(out, report, sample_verdict(report), options);
+        const std::string text = out.str();
+        INFO(text);
+        const auto update = lines_with(text, "changed  skyline::FusionFilter::update");
+        REQUIRE(update.size() == 1);
+        CHECK(update[0].rfind(vermillion + "block  changed", 0) == 0);
+        const auto crc = lines_with(text, "changed  skyline_crc16");
+        REQUIRE(crc.size() == 1);
+        CHECK(crc[0].rfind(orange + "warn   changed", 0) == 0); // shrank, yet warned
+        const auto flags = lines_with(text, "added    operator|");
+        REQUIRE(flags.size() == 1);
+        CHECK(flags[0].find('\x1b') == std::string::npos); // grew, but no finding: no colour
+        CHECK(lines_with(text, vermillion + "verdict: BLOCKED").size() == 1);
+    }
+    SECTION("a passing change is sky blue, never vermillion, whatever grew") {
+        auto verdict = sample_verdict(report);
+        verdict.findings.clear();
+        verdict.outcome = policy::Outcome::pass;
+        verdict.policy_change_summary.clear();
+        verdict.policy_changes.clear();
+        std::ostringstream out;
+        report::write_change_text(out, report, verdict, options);
+        INFO(out.str());
+        CHECK(out.str().find(vermillion) == std::string::npos);
+        CHECK(out.str().find(orange) == std::string::npos);
+        CHECK(lines_with(out.str(), sky_blue + "verdict: pass").size() == 1);
+    }
+}

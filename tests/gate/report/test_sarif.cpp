@@ -4,6 +4,7 @@
 #include "../policy/policy_test_support.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/report/sarif.hpp"
+#include "hostile_report.hpp"
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -144,4 +145,38 @@ TEST_CASE("write_sarif output validates against the OASIS SARIF 2.1.0 schema", "
 TEST_CASE("path_to_uri percent-encodes a path", "[sarif]") {
     CHECK(report::path_to_uri("src/my file#1.c") == "src/my%20file%231.c");
     CHECK(report::path_to_uri("a-b_c.~/d.cpp") == "a-b_c.~/d.cpp");
+}
+
+TEST_CASE("write_sarif writes hostile text as a valid log", "[sarif]") {
+    const auto hostile = hostile_change();
+    Judged j{hostile.report, hostile.policy, hostile.verdict};
+    REQUIRE(j.verdict.findings.size() > 3);
+    std::ostringstream out;
+    // Before: nlohmann's dump threw type_error 316 at the first Latin-1 byte.
+    REQUIRE_NOTHROW(report::write_sarif(out, j.report, j.verdict, j.policy));
+    const auto log = nlohmann::json::parse(out.str());
+    // Locations stay exact: the URI keeps every byte, percent-encoded.
+    bool latin1 = false;
+    for (const auto& result : log["runs"][0]["results"]) {
+        for (const auto& location : result["locations"]) {
+            latin1 =
+                latin1 || location["physicalLocation"]["artifactLocation"]["uri"] == "src/caf%E9.c";
+        }
+    }
+    CHECK(latin1);
+    const std::string schema = schema_path();
+    if (schema.empty() || run_command("python3 -c 'import jsonschema'", ".").exit_code != 0) {
+        WARN("the SARIF schema or python3-jsonschema is missing: validation skipped");
+        return;
+    }
+    TempDir dir;
+    dir.write("hostile.sarif", out.str());
+    const auto result =
+        run_command("python3 -c 'import json,sys,jsonschema; "
+                    "jsonschema.Draft4Validator(json.load(open(sys.argv[1]))).validate("
+                    "json.load(open(sys.argv[2])))' " +
+                        shell_quote(schema) + " hostile.sarif",
+                    dir.path());
+    INFO(result.err);
+    CHECK(result.exit_code == 0);
 }

@@ -94,15 +94,23 @@ TEST_CASE("github-actions.yml parses and wires the gate", "[templates]") {
         "gate = [s for s in steps if 'tollgate check' in s.get('run', '')]\n"
         "assert len(gate) == 1, gate\n"
         "run = gate[0]['run']\n"
-        "assert '${{ github.event.pull_request.base.sha }}' in run\n"
-        "assert '${{ github.event.pull_request.head.sha }}' in run\n"
+        "env = gate[0]['env']\n"
+        "assert env['BASE_SHA'] == '${{ github.event.pull_request.base.sha }}', env\n"
+        "assert env['HEAD_SHA'] == '${{ github.event.pull_request.head.sha }}', env\n"
+        "assert '--base=\"$BASE_SHA\"' in run and '--head=\"$HEAD_SHA\"' in run\n"
+        "# No event value is pasted into a script: each comes through the environment.\n"
+        "assert all('${{' not in s.get('run', '') for s in steps), steps_text(steps)\n"
         "assert 'GITHUB_STEP_SUMMARY' in run and 'markdown:' in run and 'sarif:' in run\n"
         "sarif = [s for s in steps if s.get('uses', '').startswith("
         "'github/codeql-action/upload-sarif')]\n"
         "assert sarif and sarif[0]['with']['sarif_file'].endswith('.sarif')\n"
         "caches = [s for s in steps if s.get('uses', '').startswith('actions/cache')]\n"
         "assert all(c['with']['path'] == 'baselines/' for c in caches) and len(caches) == 2\n"
-        "assert any('tollgate snapshot' in s.get('run', '') for s in steps)\n");
+        "assert any('tollgate snapshot' in s.get('run', '') for s in steps)\n"
+        "assert doc['permissions']['pull-requests'] == 'write'\n"
+        "note = [s for s in steps if 'tollgate annotate' in s.get('run', '')]\n"
+        "assert len(note) == 1 and 'always()' in note[0]['if'], note\n"
+        "assert note[0]['env']['TOLLGATE_ANNOTATE_TOKEN'] == '${{ secrets.GITHUB_TOKEN }}'\n");
     INFO(result.err);
     CHECK(result.exit_code == 0);
     CHECK(result.out == "ok\n");
@@ -116,7 +124,8 @@ TEST_CASE("gitlab-ci.yml parses and wires the gate", "[templates]") {
         "script = '\\n'.join(job['script'])\n"
         "assert 'tollgate check' in script\n"
         "assert '$CI_MERGE_REQUEST_DIFF_BASE_SHA' in script and '$CI_COMMIT_SHA' in script\n"
-        "assert 'TOLLGATE_NOTE_TOKEN' in script and '/notes' in script\n"
+        "assert 'tollgate annotate --token-env TOLLGATE_NOTE_TOKEN' in script, script\n"
+        "assert 'curl' not in script and 'PRIVATE-TOKEN' not in script, script\n"
         "assert job['artifacts']['when'] == 'always'\n"
         "paths = job['artifacts']['paths']\n"
         "assert any(p.endswith('.md') for p in paths) and any(p.endswith('.sarif') for p in "
@@ -145,6 +154,8 @@ TEST_CASE("Jenkinsfile is a balanced declarative pipeline that gates change requ
     CHECK(text.find("git fetch --unshallow") != std::string::npos);
     CHECK(text.find("archiveArtifacts") != std::string::npos);
     CHECK(text.find("tollgate snapshot") != std::string::npos);
+    CHECK(text.find("variable: 'TOLLGATE_ANNOTATE_TOKEN'") != std::string::npos);
+    CHECK(text.find("tollgate annotate --from tollgate-report/tollgate.json") != std::string::npos);
 
     SECTION("the structural check itself catches a missing brace") {
         CHECK(bracket_mismatch("pipeline { stages { stage('x') { steps { sh 'a' } }") ==
@@ -227,5 +238,66 @@ TEST_CASE("tollgate-gate.sh gates a real repository", "[templates]") {
         const auto result = run_command(env + "bash " + script + " --bogus", repo);
         CHECK(result.exit_code == 2);
         CHECK(result.err == "tollgate-gate: error: unknown option \"--bogus\" (see --help)\n");
+    }
+}
+
+TEST_CASE("tollgate-gate.sh never lets a revision act as a git option", "[templates]") {
+    // git fetch reads "--upload-pack=COMMAND" as the program to run on the remote side (git-fetch
+    // manual, OPTIONS); with a local remote it runs on this machine. A base value is outside
+    // input (a CI variable, a pull request's branch name).
+    TempDir dir;
+    const std::string upstream = dir.path() + "/upstream";
+    const std::string repo = dir.path() + "/repo";
+    init_repo(upstream);
+    dir.write("upstream/gain.c", "int gain(int x, int k) {\n    return x * k;\n}\n");
+    commit_all(upstream, "base");
+    git("clone -q " + shell_quote(upstream) + " " + shell_quote(repo), dir.path());
+    const std::string marker = dir.path() + "/ran";
+    const std::string script = shell_quote(k_templates + "/tollgate-gate.sh");
+    const std::string env = "TOLLGATE=" + shell_quote(TOLLGATE_BINARY) +
+                            " TOLLGATE_OUT=" + shell_quote(dir.path() + "/out") + " ";
+
+    SECTION("a base beginning with \"-\" is refused before git sees it") {
+        const std::string hostile = "--upload-pack=touch " + marker;
+        for (const std::string& way : {"TOLLGATE_BASE=" + shell_quote(hostile) + " bash " + script,
+                                       "bash " + script + " --base " + shell_quote(hostile)}) {
+            const auto result = run_command(env + way, repo);
+            INFO(way << "\n" << result.err);
+            CHECK(result.exit_code == 2);
+            CHECK(result.err.find("begins with \"-\"") != std::string::npos);
+            CHECK_FALSE(std::filesystem::exists(marker));
+        }
+    }
+    SECTION("a head beginning with \"-\" is refused too") {
+        const auto result = run_command(
+            env + "TOLLGATE_HEAD=" + shell_quote("--output=" + marker) + " bash " + script, repo);
+        CHECK(result.exit_code == 2);
+        CHECK_FALSE(std::filesystem::exists(marker));
+    }
+}
+
+TEST_CASE("the templates end git's options before a value from outside", "[templates]") {
+    // Every git call of a template that names a revision, ref or URL taken from a variable must
+    // end its options first ("--end-of-options" or "--"), or take a value that cannot begin with
+    // "-" (a refspec starting with "+").
+    for (const char* file :
+         {"tollgate-gate.sh", "pre-push", "github-actions.yml", "gitlab-ci.yml", "Jenkinsfile"}) {
+        const std::string text = read_text(k_templates + "/" + file);
+        std::size_t from = 0;
+        while ((from = text.find("git ", from)) != std::string::npos) {
+            const std::size_t end = text.find('\n', from);
+            const std::string line = text.substr(from, end - from);
+            from = end;
+            const bool takes_variable = line.find('$') != std::string::npos;
+            const bool fetch_or_clone = line.rfind("git fetch", 0) == 0 ||
+                                        line.rfind("git clone", 0) == 0 ||
+                                        line.rfind("git cat-file", 0) == 0;
+            if (!takes_variable || !fetch_or_clone) {
+                continue;
+            }
+            INFO(file << ": " << line);
+            CHECK((line.find("--end-of-options") != std::string::npos ||
+                   line.find(" -- ") != std::string::npos));
+        }
     }
 }

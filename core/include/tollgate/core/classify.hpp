@@ -22,6 +22,7 @@ enum class NameKind {
     namespace_name, // a namespace
     defined,        // the defined function's own name in its declarator
     unknown,        // the parser could not tell; counted as a value
+    annotation,     // a Java annotation, spelled with its `@` and full name ("@Override")
 };
 
 // The syntactic form of a token whose spelling has several.
@@ -34,6 +35,10 @@ enum class Form {
     postfix,       // postfix ++ --
     template_open, // < opening a template argument or parameter list
     pair_close,    // the closing half of a pair: ) ] } > of a template list, : of ?:
+    wildcard,      // Java: the `?` of a wildcard type argument
+    type_bound,    // Java: the `&` joining the bounds of an intersection type
+    case_arrow,    // Java: the `->` of a switch rule (a lambda's `->` is plain)
+    multi_catch,   // Java: the `|` joining the types of a multi-catch
 };
 
 // The facts the lexer hands over for one source token.

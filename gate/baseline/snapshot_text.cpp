@@ -1,0 +1,61 @@
+// SPDX-License-Identifier: MIT
+// The snapshot file's text: schema name, JSON dumping, the content digest, message helpers.
+#include "gate/baseline/snapshot_text.hpp"
+
+#include "gate/baseline/snapshot.hpp"
+#include "gate/common/text_safety.hpp"
+
+#include <cctype>
+#include <cstdint>
+#include <cstring>
+#include <fmt/format.h>
+
+namespace tollgate::baseline::snapshot_text {
+
+std::string schema_text(int version) {
+    return std::string(k_snapshot_schema_name) + "/" + std::to_string(version);
+}
+
+std::string dump(const Json& value, int indent) {
+    return ::tollgate::text::dump_json(value, indent);
+}
+
+std::string content_digest(Json document) {
+    document.erase("created");
+    document.erase("content_digest");
+    std::uint64_t hash = 0xcbf29ce484222325ull;
+    for (const unsigned char c : dump(document, -1)) {
+        hash ^= c;
+        hash *= 0x100000001b3ull;
+    }
+    return fmt::format("{}{:016x}", k_digest_prefix, hash);
+}
+
+std::string format_stroud(double stroud) {
+    return fmt::format("{}", stroud);
+}
+
+std::string shell_word(const std::string& text) {
+    const bool plain =
+        !text.empty() && text.find_first_not_of("abcdefghijklmnopqrstuvwxyz"
+                                                "ABCDEFGHIJKLMNOPQRSTUVWXYZ"
+                                                "0123456789_./-+:@=") == std::string::npos;
+    if (plain) {
+        return text;
+    }
+    std::string quoted = "'";
+    for (const char c : text) {
+        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    }
+    return quoted + "'";
+}
+
+std::string lowercase_error(int error) {
+    std::string text = std::strerror(error);
+    if (!text.empty()) {
+        text[0] = static_cast<char>(std::tolower(static_cast<unsigned char>(text[0])));
+    }
+    return text;
+}
+
+} // namespace tollgate::baseline::snapshot_text

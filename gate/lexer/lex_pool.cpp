@@ -1,0 +1,287 @@
+// SPDX-License-Identifier: MIT
+// The pool of parser processes: start, feed contexts and jobs, enforce the wall-clock limit,
+// read the end of a dead worker, fall back to the lexical scanner, replace the worker.
+#include "gate/lexer/lex_pool.hpp"
+
+#include "gate/common/errors.hpp"
+#include "gate/common/workers.hpp"
+#include "gate/isolate/worker_process.hpp"
+#include "gate/lexer/lex_messages.hpp"
+#include "gate/lexer/lex_worker.hpp"
+#include "gate/lexer/lexical_fallback.hpp"
+
+#include <algorithm>
+#include <atomic>
+#include <deque>
+#include <exception>
+#include <filesystem>
+#include <map>
+#include <memory>
+#include <mutex>
+#include <spdlog/spdlog.h>
+
+namespace tollgate::lexer {
+
+namespace {
+
+using isolate::WorkerEnd;
+using isolate::WorkerProcess;
+
+// Contexts a worker keeps at once (base and head of a change, with room to spare).
+constexpr std::size_t k_contexts_per_worker = 4;
+
+// How long a new worker may take to report that it is ready.
+constexpr auto k_start_timeout = std::chrono::seconds(60);
+
+// One parser process and the contexts it holds.
+struct Worker {
+    std::unique_ptr<WorkerProcess> process; // null until started, and after it died
+    std::deque<std::uint64_t> contexts;     // ids it holds, oldest first
+    std::string launch_key;                 // the settings it was started with
+};
+
+// Workers between calls: kept so a later call (calibrate lexes per commit) starts none.
+class Pool {
+public:
+    std::unique_ptr<Worker> take(const std::string& launch_key) {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        while (!m_idle.empty()) {
+            std::unique_ptr<Worker> worker = std::move(m_idle.back());
+            m_idle.pop_back();
+            if (worker->launch_key == launch_key) {
+                return worker;
+            }
+        }
+        auto worker = std::make_unique<Worker>();
+        worker->launch_key = launch_key;
+        return worker;
+    }
+
+    void give(std::unique_ptr<Worker> worker) {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        m_idle.push_back(std::move(worker));
+    }
+
+private:
+    std::mutex m_mutex;
+    std::vector<std::unique_ptr<Worker>> m_idle;
+};
+
+Pool& pool() {
+    static Pool instance;
+    return instance;
+}
+
+std::atomic<std::uint64_t> g_next_context_id{1};
+
+// One context of a call, encoded once for every worker that needs it.
+struct SharedContext {
+    std::uint64_t id = 0;
+    const ParseContext* context = nullptr;
+    std::once_flag encoded_once;
+    std::string encoded;
+
+    const std::string& message(const std::vector<std::uint64_t>& drop) {
+        std::call_once(encoded_once, [this] {
+            if (!context->cache_dir.empty()) {
+                // The parser may write only inside the cache folder, not make it.
+                std::error_code ignored;
+                std::filesystem::create_directories(context->cache_dir, ignored);
+            }
+            encoded = encode_context(id, {}, *context);
+        });
+        if (drop.empty()) {
+            return encoded;
+        }
+        thread_local std::string with_drop;
+        with_drop = encode_context(id, drop, *context);
+        return with_drop;
+    }
+};
+
+isolate::WorkerLaunch launch_of(const IsolationSettings& settings) {
+    isolate::WorkerLaunch launch;
+    launch.program = settings.worker_program.empty() ? "/proc/self/exe" : settings.worker_program;
+    launch.arguments = {k_worker_command, "--memory-mib", std::to_string(settings.memory_mib)};
+    if (settings.show_worker_errors) {
+        launch.arguments.push_back("--verbose");
+    }
+    // A clean environment: no include paths from variables, crashes end the process.
+    launch.environment = {"LIBCLANG_DISABLE_CRASH_RECOVERY=1"};
+    launch.show_errors = settings.show_worker_errors;
+    return launch;
+}
+
+std::string launch_key_of(const IsolationSettings& settings) {
+    return settings.worker_program + '\x1f' + std::to_string(settings.memory_mib) + '\x1f' +
+           (settings.show_worker_errors ? "v" : "q");
+}
+
+// Start `worker`'s process and wait for it to be ready. Throws Failure when it cannot start.
+void start(Worker& worker, const IsolationSettings& settings) {
+    worker.contexts.clear();
+    worker.process = std::make_unique<WorkerProcess>(launch_of(settings));
+    std::string reply;
+    const auto received =
+        worker.process->receive(reply, std::chrono::steady_clock::now() + k_start_timeout);
+    if (received == WorkerProcess::Received::message) {
+        try {
+            if (decode_reply(reply).kind == WorkerReply::Kind::ready) {
+                return;
+            }
+        } catch (const std::exception&) {
+        }
+    }
+    const isolate::WorkerExit end =
+        worker.process->stop(received == WorkerProcess::Received::timed_out);
+    worker.process.reset();
+    if (end.end == WorkerEnd::out_of_memory) {
+        throw Failure("the parser process ran out of memory while starting (raise "
+                      "--parse-memory, now " +
+                      std::to_string(settings.memory_mib) + " MiB)");
+    }
+    if (end.end == WorkerEnd::exited && end.code == isolate::k_exit_cannot_start) {
+        throw Failure("the parser process could not set up its limits or confine its file "
+                      "access (run with --verbose to see why)");
+    }
+    throw Failure("the parser process ended before it was ready (" +
+                  std::string(end.end == WorkerEnd::exited ? "exit status " : "signal ") +
+                  std::to_string(end.code) + ")");
+}
+
+unsigned wall_seconds(const IsolationSettings& settings) {
+    return 2 * std::max(1u, settings.cpu_seconds);
+}
+
+// The reason a dead or stopped worker gives for its job.
+FileFunctions fall_back(const LexJob& job, ParserStop stop, unsigned seconds) {
+    const std::string warning = "the parser stopped on this file (" +
+                                parser_stop_text(stop, seconds) + "): measured lexically";
+    spdlog::debug("{}: {}", job.file->path, warning);
+    return lex_lexically(*job.file, *job.context, stop, warning);
+}
+
+// Send `job` (and its context when `worker` does not hold it) before `deadline`; false when the
+// worker is gone.
+bool send_job(Worker& worker, const LexJob& job, SharedContext& context,
+              const IsolationSettings& settings, isolate::Deadline deadline) {
+    if (std::find(worker.contexts.begin(), worker.contexts.end(), context.id) ==
+        worker.contexts.end()) {
+        std::vector<std::uint64_t> drop;
+        while (worker.contexts.size() >= k_contexts_per_worker) {
+            drop.push_back(worker.contexts.front());
+            worker.contexts.pop_front();
+        }
+        if (!worker.process->send(context.message(drop), deadline)) {
+            return false;
+        }
+        worker.contexts.push_back(context.id);
+    }
+    return worker.process->send(encode_job(context.id, *job.file, settings.cpu_seconds), deadline);
+}
+
+// Lex `job` in `worker` (starting it when needed); never throws for the file's content.
+FileFunctions lex_one(Worker& worker, const LexJob& job, SharedContext& context,
+                      const IsolationSettings& settings) {
+    if (!worker.process) {
+        start(worker, settings);
+    }
+    const auto deadline =
+        std::chrono::steady_clock::now() + std::chrono::seconds(wall_seconds(settings));
+    bool sent = send_job(worker, job, context, settings, deadline);
+    if (!sent && std::chrono::steady_clock::now() < deadline) {
+        // The worker was gone before it had the job (it died idle): start another, once.
+        worker.process->stop(false);
+        start(worker, settings);
+        sent = send_job(worker, job, context, settings, deadline);
+    }
+    std::string reply;
+    const auto received =
+        sent ? worker.process->receive(reply, deadline) : WorkerProcess::Received::ended;
+    if (received == WorkerProcess::Received::message) {
+        try {
+            WorkerReply decoded = decode_reply(reply);
+            if (decoded.kind == WorkerReply::Kind::result) {
+                decoded.functions.path = job.file->path;
+                return std::move(decoded.functions);
+            }
+            if (decoded.kind == WorkerReply::Kind::failed) {
+                spdlog::debug("{}", decoded.message);
+                return fall_back(job, ParserStop::failed, 0);
+            }
+        } catch (const std::exception& error) {
+            spdlog::debug("parser process sent a malformed reply: {}", error.what());
+        }
+    }
+    const bool for_time = received == WorkerProcess::Received::timed_out;
+    const isolate::WorkerExit end =
+        worker.process->stop(for_time || received == WorkerProcess::Received::message);
+    worker.process.reset();
+    worker.contexts.clear();
+    switch (end.end) {
+    case WorkerEnd::out_of_memory:
+        return fall_back(job, ParserStop::out_of_memory, 0);
+    case WorkerEnd::cpu_limit:
+        return fall_back(job, ParserStop::timed_out, settings.cpu_seconds);
+    case WorkerEnd::killed_for_time:
+        if (for_time) {
+            return fall_back(job, ParserStop::timed_out, wall_seconds(settings));
+        }
+        break;
+    case WorkerEnd::exited:
+    case WorkerEnd::crashed:
+        break;
+    }
+    return fall_back(job, ParserStop::crashed, 0);
+}
+
+} // namespace
+
+std::vector<FileFunctions>
+lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const IsolationSettings& settings,
+               const std::function<void(const FileFunctions&)>& on_done) {
+    std::vector<FileFunctions> results(jobs.size());
+    if (jobs.empty()) {
+        return results;
+    }
+    std::map<const ParseContext*, std::unique_ptr<SharedContext>> contexts;
+    for (const LexJob& job : jobs) {
+        auto& shared = contexts[job.context];
+        if (!shared) {
+            shared = std::make_unique<SharedContext>();
+            shared->id = g_next_context_id++;
+            shared->context = job.context;
+        }
+    }
+    const std::string launch_key = launch_key_of(settings);
+    std::atomic<std::size_t> next{0};
+    std::mutex done_mutex;
+    std::exception_ptr first_error;
+    auto work = [&] {
+        std::unique_ptr<Worker> worker = pool().take(launch_key);
+        try {
+            for (std::size_t i = next++; i < jobs.size(); i = next++) {
+                results[i] = lex_one(*worker, jobs[i], *contexts.at(jobs[i].context), settings);
+                if (on_done) {
+                    std::lock_guard<std::mutex> lock(done_mutex);
+                    on_done(results[i]);
+                }
+            }
+        } catch (...) {
+            std::lock_guard<std::mutex> lock(done_mutex);
+            if (!first_error) {
+                first_error = std::current_exception();
+            }
+            next = jobs.size(); // stop the other threads early
+        }
+        pool().give(std::move(worker));
+    };
+    run_workers(std::min<unsigned>(std::max(1u, threads), static_cast<unsigned>(jobs.size())),
+                work);
+    if (first_error) {
+        std::rethrow_exception(first_error);
+    }
+    return results;
+}
+
+} // namespace tollgate::lexer

@@ -1,0 +1,186 @@
+// SPDX-License-Identifier: MIT
+// The parser process's main loop: limits, confinement, then contexts and jobs over the socket.
+#include "gate/lexer/lex_worker.hpp"
+
+#include "gate/common/errors.hpp"
+#include "gate/isolate/path_guard.hpp"
+#include "gate/isolate/worker_process.hpp"
+#include "gate/lexer/lex_messages.hpp"
+#include "gate/lexer/lexer.hpp"
+
+#include <cerrno>
+#include <csignal>
+#include <cstdio>
+#include <cstring>
+#include <map>
+#include <memory>
+#include <new>
+#include <spdlog/sinks/stdout_color_sinks.h>
+#include <spdlog/spdlog.h>
+#include <string>
+#include <sys/resource.h>
+#include <unistd.h>
+
+namespace tollgate::lexer {
+
+namespace {
+
+using isolate::k_exit_cannot_start;
+using isolate::k_exit_out_of_memory;
+using isolate::k_worker_socket_fd;
+
+[[noreturn]] void out_of_memory() {
+    _exit(k_exit_out_of_memory);
+}
+
+// libLLVM reports a failed malloc by aborting; errno still says why.
+void on_abort(int) {
+    if (errno == ENOMEM) {
+        _exit(k_exit_out_of_memory);
+    }
+    std::signal(SIGABRT, SIG_DFL);
+    std::raise(SIGABRT);
+}
+
+bool set_limit(int resource, rlim_t soft, rlim_t hard) {
+    const rlimit limit{soft, hard};
+    return ::setrlimit(resource, &limit) == 0;
+}
+
+// Allow `seconds` more of processor time from now; the kernel sends SIGXCPU past it.
+void limit_processor_time(unsigned seconds) {
+    rusage usage{};
+    ::getrusage(RUSAGE_SELF, &usage);
+    const rlim_t used = static_cast<rlim_t>(usage.ru_utime.tv_sec + usage.ru_stime.tv_sec + 1);
+    rlimit current{};
+    ::getrlimit(RLIMIT_CPU, &current);
+    rlim_t soft = used + std::max(1u, seconds);
+    if (current.rlim_max != RLIM_INFINITY && soft > current.rlim_max) {
+        soft = current.rlim_max;
+    }
+    set_limit(RLIMIT_CPU, soft, current.rlim_max);
+}
+
+// The file access a context needs: system headers, plus its cache and trusted folders.
+isolate::PathPolicy policy_for(const ParseContext& context) {
+    isolate::PathPolicy policy;
+    policy.read_roots = isolate::system_include_roots();
+    policy.read_roots.insert(policy.read_roots.end(), context.trusted_dirs.begin(),
+                             context.trusted_dirs.end());
+    if (!context.cache_dir.empty()) {
+        policy.write_roots.push_back(context.cache_dir);
+    }
+    return policy;
+}
+
+bool same_policy(const isolate::PathPolicy& a, const isolate::PathPolicy& b) {
+    return a.read_roots == b.read_roots && a.write_roots == b.write_roots;
+}
+
+// Set limits and confinement; return false (with a line on stderr) when that fails.
+bool set_up(std::uint64_t memory_mib) {
+    if (memory_mib > 0) {
+        rlim_t bytes = static_cast<rlim_t>(memory_mib) * 1024 * 1024;
+        rlimit inherited{};
+        ::getrlimit(RLIMIT_AS, &inherited);
+        if (inherited.rlim_max != RLIM_INFINITY && inherited.rlim_max < bytes) {
+            bytes = inherited.rlim_max; // a lower limit set around tollgate stays in force
+        }
+        if (!set_limit(RLIMIT_AS, bytes, bytes)) {
+            std::fprintf(stderr, "tollgate parser: cannot limit the address space: %s\n",
+                         std::strerror(errno));
+            return false;
+        }
+    }
+    set_limit(RLIMIT_CORE, 0, 0);
+    // Descriptors the parent opened without close-on-exec (libgit2's, say) are not the parser's.
+    if (::close_range(k_worker_socket_fd + 1, ~0U, 0) != 0) {
+        for (int fd = k_worker_socket_fd + 1; fd < 4096; ++fd) {
+            ::close(fd);
+        }
+    }
+    std::set_new_handler(out_of_memory);
+    std::signal(SIGABRT, on_abort);
+    if (::chdir("/") != 0) {
+        return false;
+    }
+    isolate::confine_paths({isolate::system_include_roots(), {}});
+    if (!isolate::interposer_bound()) {
+        std::fprintf(stderr, "tollgate parser: file access cannot be confined in this build (the "
+                             "C library wrappers are not bound)\n");
+        return false;
+    }
+    return true;
+}
+
+} // namespace
+
+int run_lex_worker(int argc, char** argv) {
+    std::uint64_t memory_mib = 0;
+    bool verbose = false;
+    for (int i = 2; i < argc; ++i) {
+        const std::string arg = argv[i];
+        if (arg == "--memory-mib" && i + 1 < argc) {
+            memory_mib = std::strtoull(argv[++i], nullptr, 10);
+        } else if (arg == "--verbose") {
+            verbose = true;
+        }
+    }
+    auto logger = spdlog::stderr_color_st("tollgate-parser");
+    logger->set_pattern("tollgate parser: %l: %v");
+    logger->set_level(verbose ? spdlog::level::debug : spdlog::level::off);
+    spdlog::set_default_logger(logger);
+    if (!set_up(memory_mib)) {
+        return k_exit_cannot_start;
+    }
+    try {
+        Lexer lexer;
+        if (!isolate::write_frame(k_worker_socket_fd, encode_ready())) {
+            return 0;
+        }
+        std::map<std::uint64_t, std::unique_ptr<ParseContext>> contexts;
+        isolate::PathPolicy policy{isolate::system_include_roots(), {}};
+        std::string bytes;
+        while (isolate::read_frame(k_worker_socket_fd, bytes)) {
+            WorkerRequest request = decode_request(bytes);
+            if (request.kind == WorkerRequest::Kind::context) {
+                for (const std::uint64_t id : request.drop) {
+                    if (const auto found = contexts.find(id); found != contexts.end()) {
+                        lexer.forget(*found->second);
+                        contexts.erase(found);
+                    }
+                }
+                contexts[request.id] = std::make_unique<ParseContext>(std::move(request.context));
+                continue;
+            }
+            std::string reply;
+            const auto found = contexts.find(request.id);
+            if (found == contexts.end()) {
+                reply = encode_failed("no context " + std::to_string(request.id));
+            } else {
+                const isolate::PathPolicy wanted = policy_for(*found->second);
+                if (!same_policy(wanted, policy)) {
+                    isolate::confine_paths(wanted);
+                    policy = wanted;
+                }
+                limit_processor_time(request.cpu_seconds);
+                try {
+                    reply = encode_result(lexer.lex_functions(request.file, *found->second));
+                } catch (const Failure& error) {
+                    reply = encode_failed(error.what());
+                }
+            }
+            if (!isolate::write_frame(k_worker_socket_fd, reply)) {
+                break;
+            }
+        }
+    } catch (const std::bad_alloc&) {
+        out_of_memory();
+    } catch (const std::exception& error) {
+        spdlog::debug("{}", error.what());
+        return k_exit_cannot_start;
+    }
+    return 0;
+}
+
+} // namespace tollgate::lexer
