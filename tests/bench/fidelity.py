@@ -195,7 +195,8 @@ def tollgate_set(repo, tollgate, policy, base, head, files, jobs):
 def main():
     if len(sys.argv) < 3:
         sys.exit("usage: fidelity.py REPO TOLLGATE [K] [JOBS]")
-    repo, tollgate = sys.argv[1], sys.argv[2]
+    # check runs inside REPO: a relative path to the binary is taken from here.
+    repo, tollgate = sys.argv[1], os.path.abspath(sys.argv[2])
     k = int(sys.argv[3]) if len(sys.argv) > 3 else 30
     jobs = int(sys.argv[4]) if len(sys.argv) > 4 else 2
     with tempfile.NamedTemporaryFile("w", suffix=".yaml", delete=False) as f:
