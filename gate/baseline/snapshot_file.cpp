@@ -43,6 +43,16 @@ Json function_json(const SnapshotFunction& f) {
     object["signature"] = f.signature;
     object["extent"] = lexer::extent_name(f.mode);
     object["token_hash"] = f.token_hash;
+    if (f.inactive || f.brace_extent) {
+        Json marks = Json::array();
+        if (f.inactive) {
+            marks.push_back("inactive");
+        }
+        if (f.brace_extent) {
+            marks.push_back("brace-extent");
+        }
+        object["marks"] = std::move(marks);
+    }
     object["counts"] = {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
     object["potential_operands"] = f.measures.potential_operands;

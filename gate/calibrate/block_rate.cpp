@@ -40,6 +40,7 @@ bool judged_by(const policy::Rule& rule, const delta::FunctionDelta& f) {
     case policy::RuleKind::ceiling:
         return f.head.has_value();
     case policy::RuleKind::budget:
+    case policy::RuleKind::unmeasured_lines: // judges the change's lines, not a function
         return false;
     }
     return false;

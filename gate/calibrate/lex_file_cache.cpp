@@ -29,9 +29,10 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-// Version 2: the entry's lexed file is lexer::file_functions_to_json, every text kept losslessly
-// with text::store_bytes (source text need not be UTF-8, JSON strings must be).
-constexpr const char* k_format = "tollgate.lexcache/2";
+// Version 3: the entry's lexed file is lexer::file_functions_to_json, every text kept losslessly
+// with text::store_bytes (source text need not be UTF-8, JSON strings must be), with each
+// function's inactive and brace_extent marks.
+constexpr const char* k_format = "tollgate.lexcache/3";
 
 // Numbers temporary files; one counter for the process, so that two caches on one folder in one
 // process never write the same temporary file.

@@ -64,7 +64,7 @@ struct Eviction {
     std::uint64_t kept_bytes = 0;      // their total size
 };
 
-// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/2", every
+// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/3", every
 // text kept losslessly with text::store_bytes, so a file of any bytes reads back the same),
 // written to a temporary file and renamed into place, so a killed run leaves whole entries or
 // none. Entries that do not parse or whose recorded key differs are ignored and rewritten. A hit

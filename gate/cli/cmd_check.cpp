@@ -53,6 +53,7 @@ struct CheckOptions {
     std::size_t rename_limit = 400;   // --rename-limit
     std::string progress = "auto";    // --progress
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    std::vector<std::string> include_dirs;                 // --include-dir
 };
 
 // After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
@@ -84,6 +85,7 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
     request.max_file_size = options.max_file_size;
@@ -112,6 +114,7 @@ int run_check(const CheckOptions& options) {
                                            ? lexer::DatabaseOrigin::found
                                            : lexer::DatabaseOrigin::given;
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
+    settings.include_dirs = resolve_include_dirs(options.include_dirs, repository.workdir());
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
     const SelectedPolicy selected = select_policy(repository, range, options.policy_path);
@@ -205,6 +208,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
                    "Folder for the precompiled standard-library headers");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
+    add_include_dir_option(sub, options->include_dirs);
     add_stroud_option(sub, options->stroud);
     add_progress_option(sub, options->progress);
     add_rename_limit_option(sub, options->rename_limit);

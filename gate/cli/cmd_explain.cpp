@@ -69,11 +69,18 @@ std::optional<std::uint64_t> parse_line(const std::string& digits) {
     return line;
 }
 
+// Return the text of the hint that lists a file's functions: the command with the --rev the user
+// gave (`revision`, empty for the working tree).
+std::string measure_hint(const std::string& path, const std::string& revision) {
+    return "tollgate measure " + (revision.empty() ? "" : "--rev " + revision + " ") + path;
+}
+
 // Return the functions of `spans` holding line `wanted` (digits) of `path`, a file of `lines`
-// lines. Throws UsageError for line 0 and a line past the end of the file.
+// lines; `revision` as for measure_hint. Throws UsageError for line 0 and a line past the end of
+// the file.
 std::vector<const lexer::FunctionSpan*>
 functions_at_line(const std::vector<lexer::FunctionSpan>& spans, const std::string& path,
-                  const std::string& wanted, std::uint64_t lines) {
+                  const std::string& wanted, std::uint64_t lines, const std::string& revision) {
     const std::optional<std::uint64_t> line = parse_line(wanted);
     if (line && *line == 0) {
         throw UsageError("there is no line 0 in \"" + path + "\" (lines count from 1)");
@@ -89,22 +96,31 @@ functions_at_line(const std::vector<lexer::FunctionSpan>& spans, const std::stri
         }
     }
     if (matches.empty()) {
-        throw UsageError(fmt::format("no function holds line {} of \"{}\" (run \"tollgate "
-                                     "measure {}\" to list its functions)",
-                                     *line, path, path));
+        throw UsageError(fmt::format("no function holds line {} of \"{}\" (run \"{}\" to list its "
+                                     "functions)",
+                                     *line, path, measure_hint(path, revision)));
     }
     return matches;
 }
 
 // Pick the function `wanted` (a name or a line number) names among `spans` of `path`, a file of
-// `lines` lines.
+// `lines` lines; `revision` is the --rev the user gave (empty for the working tree), repeated in
+// the hint.
 const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>& spans,
                                          const std::string& path, const std::string& wanted,
-                                         std::uint64_t lines) {
+                                         std::uint64_t lines, const std::string& revision) {
     std::vector<const lexer::FunctionSpan*> matches;
     if (all_digits(wanted)) {
-        matches = functions_at_line(spans, path, wanted, lines);
+        matches = functions_at_line(spans, path, wanted, lines, revision);
     } else {
+        // A name made by a test macro holds parentheses itself: "TEST(Suite, Name)".
+        for (const auto& span : spans) {
+            if (name_matches(span.qualified_name, wanted)) {
+                matches.push_back(&span);
+            }
+        }
+    }
+    if (matches.empty() && !all_digits(wanted)) {
         std::string name = wanted;
         const auto paren = name.find('(');
         std::string signature;
@@ -134,10 +150,11 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             }
         }
         const std::string suggestion = closest_match(wanted, names);
-        throw UsageError(fmt::format(
-            "no function \"{}\" in \"{}\"{}", wanted, path,
-            suggestion.empty() ? " (run \"tollgate measure " + path + "\" to list its functions)"
-                               : " (did you mean \"" + suggestion + "\"?)"));
+        throw UsageError(fmt::format("no function \"{}\" in \"{}\"{}", wanted, path,
+                                     suggestion.empty()
+                                         ? " (run \"" + measure_hint(path, revision) +
+                                               "\" to list its functions)"
+                                         : " (did you mean \"" + suggestion + "\"?)"));
     }
     std::string candidates;
     for (const auto* span : matches) {
@@ -182,8 +199,9 @@ int run_explain(const ExplainOptions& options) {
                          " files (explain takes one file)");
     }
     const auto files = lexer::lex_files(loaded.selected, loaded.context, 1);
-    const auto& span = pick_function(files.front().functions, path, wanted,
-                                     line_count(loaded.selected.front().content));
+    const auto& span =
+        pick_function(files.front().functions, path, wanted,
+                      line_count(loaded.selected.front().content), options.sources.revision);
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);

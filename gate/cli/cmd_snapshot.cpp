@@ -42,6 +42,7 @@ struct SnapshotOptions {
     std::size_t top = 10;             // grown functions listed by --compare
     std::string progress = "auto";    // --progress
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    std::vector<std::string> include_dirs;                 // --include-dir
     // Where the snapshot goes without --out and without a baseline.path in the revision's
     // policy, relative to the repository root. Always confined to the repository.
     std::string configured_path = baseline::k_default_snapshot_path;
@@ -91,6 +92,7 @@ int run_snapshot(const SnapshotOptions& options) {
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
     const ProgressMode progress_mode = parse_progress_mode(options.progress);
@@ -168,6 +170,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
                    "$XDG_CACHE_HOME/tollgate or ~/.cache/tollgate)");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
+    add_include_dir_option(sub, options->include_dirs);
     auto* compare = sub.add_option("--compare", options->compare,
                                    "Compare two snapshot files, BASE then HEAD, instead of "
                                    "writing one")

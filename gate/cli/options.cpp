@@ -25,6 +25,13 @@ void add_source_options(CLI::App& sub, SourceOptions& options, const std::string
     sub.add_option("--lang", options.language,
                    "Parse every file as this language instead of by extension")
         ->check(CLI::IsMember({"c", "c++"}));
+    add_include_dir_option(sub, options.include_dirs);
+}
+
+void add_include_dir_option(CLI::App& sub, std::vector<std::string>& folders) {
+    sub.add_option("--include-dir", folders,
+                   "Include folder for files the compile database does not cover (repeatable; a "
+                   "folder inside the repository is read at the measured revision)");
 }
 
 void add_isolation_options(CLI::App& sub, IsolationOptions& options) {
@@ -90,6 +97,7 @@ SourceRequest to_request(const SourceOptions& options) {
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     if (options.language == "c") {
         request.force_language = lexer::Language::c;
     } else if (options.language == "c++") {

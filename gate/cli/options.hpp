@@ -14,16 +14,20 @@ namespace tollgate {
 
 // The options that pick sources (`--rev`, paths, `--compile-commands`, cache, `--lang`).
 struct SourceOptions {
-    std::string revision;           // --rev
-    std::vector<std::string> paths; // positional
-    std::string compile_commands;   // --compile-commands
-    std::string cache_dir;          // --cache-dir
-    bool no_cache = false;          // --no-pch-cache
-    std::string language;           // --lang c|c++ (empty: by extension)
+    std::string revision;                  // --rev
+    std::vector<std::string> paths;        // positional
+    std::string compile_commands;          // --compile-commands
+    std::string cache_dir;                 // --cache-dir
+    bool no_cache = false;                 // --no-pch-cache
+    std::string language;                  // --lang c|c++ (empty: by extension)
+    std::vector<std::string> include_dirs; // --include-dir, repeatable
 };
 
 // Add the source options to `sub`; `paths_help` describes the positional paths.
 void add_source_options(CLI::App& sub, SourceOptions& options, const std::string& paths_help);
+
+// Add `--include-dir DIR` (repeatable) bound to `folders`.
+void add_include_dir_option(CLI::App& sub, std::vector<std::string>& folders);
 
 // The limits of the parser processes (`--parse-timeout`, `--parse-memory`).
 struct IsolationOptions {

@@ -20,6 +20,7 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.cache_dir = request.cache_dir;
     sources.no_cache = request.no_cache;
     sources.max_file_size = request.max_file_size;
+    sources.include_dirs = request.include_dirs;
     const LoadedSources loaded = load_sources(sources);
     std::atomic<std::size_t> done{0};
     const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs,

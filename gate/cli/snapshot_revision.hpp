@@ -25,6 +25,7 @@ struct SnapshotRequest {
     // Called (serialised) after each file parsed with the files done and the total; may be empty.
     std::function<void(std::size_t done, std::size_t total)> on_progress;
     std::uint64_t max_file_size = k_default_max_file_size; // bytes; larger files are not read
+    std::vector<std::string> include_dirs;                 // --include-dir folders, as given
 };
 
 // The snapshot with what a summary line needs.

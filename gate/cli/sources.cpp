@@ -156,6 +156,23 @@ std::string read_compile_commands(const std::string& given, const std::string& r
     return {};
 }
 
+std::vector<std::string> resolve_include_dirs(const std::vector<std::string>& given,
+                                              const std::string& root) {
+    std::vector<std::string> folders;
+    for (const std::string& folder : given) {
+        if (const auto inside = root.empty() ? std::nullopt : relative_inside(folder, root)) {
+            folders.push_back(std::string(lexer::k_virtual_root) + *inside);
+            continue;
+        }
+        const fs::path absolute = fs::weakly_canonical(fs::absolute(folder));
+        if (!fs::is_directory(absolute)) {
+            throw UsageError("include folder \"" + folder + "\" does not exist");
+        }
+        folders.push_back(absolute.string());
+    }
+    return folders;
+}
+
 std::string resolve_cache_dir(bool no_cache, const std::string& given) {
     if (no_cache) {
         return {};
@@ -191,7 +208,13 @@ LoadedSources load_sources(const SourceRequest& request) {
 
     const SizeLimit limit{request.max_file_size, &loaded.oversized};
     if (repository) {
-        root = repository->is_bare() ? fs::current_path() : fs::path(repository->workdir());
+        // Without a working tree around the current folder (a bare repository, or inside the git
+        // folder) paths name files of the revision from the current folder.
+        const bool in_git_dir =
+            relative_inside(fs::current_path(), repository->git_dir()).has_value();
+        root = repository->is_bare() || (in_git_dir && !request.revision.empty())
+                   ? fs::current_path()
+                   : fs::path(repository->workdir());
         if (!request.revision.empty()) {
             const walker::ObjectId commit = repository->resolve_commit(request.revision);
             all = repository->read_c_family_files(commit, limit);
@@ -228,6 +251,8 @@ LoadedSources load_sources(const SourceRequest& request) {
                                   request.compile_commands.empty() ? lexer::DatabaseOrigin::found
                                                                    : lexer::DatabaseOrigin::given);
     loaded.context.force_language = request.force_language;
+    lexer::add_include_dirs(loaded.context, all,
+                            resolve_include_dirs(request.include_dirs, root.string()));
     loaded.context.cache_dir = resolve_cache_dir(request.no_cache, request.cache_dir);
     spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),
                   loaded.selected.size(), loaded.context.headers.size());

@@ -22,6 +22,8 @@ struct SourceRequest {
     bool no_cache = false;          // disable the precompiled-header cache
     std::optional<lexer::Language> force_language;         // override the extension rule
     std::uint64_t max_file_size = k_default_max_file_size; // bytes; larger files are not read
+    std::vector<std::string> include_dirs; // include folders for files without compile-database
+                                           // flags (absolute, or relative to the current folder)
 };
 
 // The files to measure and the parse context they share.
@@ -45,6 +47,13 @@ LoadedSources load_sources(const SourceRequest& request);
 // when `given` is empty of compile_commands.json or build/compile_commands.json under `root`, or
 // empty when there is none.
 std::string read_compile_commands(const std::string& given, const std::string& root);
+
+// Return the folders of `given` (absolute, or relative to the current folder) as libclang is to
+// see them: a folder inside `root` (the repository root) under lexer::k_virtual_root, so that
+// the measured revision's folder is read; any other as an absolute path. Throws UsageError when
+// such another folder does not exist.
+std::vector<std::string> resolve_include_dirs(const std::vector<std::string>& given,
+                                              const std::string& root);
 
 // Return the precompiled-header cache folder to use: none when `no_cache`, else `given`, else
 // default_cache_dir().

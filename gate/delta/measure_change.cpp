@@ -5,11 +5,13 @@
 #include "gate/common/byte_size.hpp"
 #include "gate/delta/compare.hpp"
 #include "gate/delta/snapshot_check.hpp"
+#include "gate/delta/unmeasured_lines.hpp"
 #include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 #include "gate/lexer/lexical_fallback.hpp"
 
+#include <algorithm>
 #include <atomic>
 #include <fmt/format.h>
 #include <set>
@@ -51,6 +53,7 @@ SideSources read_side_sources(const walker::Repository& repository,
     sources.context =
         lexer::make_parse_context(sources.tree, settings.compile_commands_json,
                                   settings.compile_commands_root, settings.compile_commands_origin);
+    lexer::add_include_dirs(sources.context, sources.tree, settings.include_dirs);
     sources.context.convention = settings.convention;
     sources.context.cache_dir = settings.cache_dir;
     return sources;
@@ -271,6 +274,24 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
                                   report.functions, settings.measures);
     }
     compute_totals(report);
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        const std::string& path = file.head_path.empty() ? file.base_path : file.head_path;
+        if (is_java_path(path)) {
+            continue; // the lines outside functions are counted for C and C++ files
+        }
+        const auto& base_file = base.changed[i];
+        const auto& head_file = head.changed[i];
+        UnmeasuredLines lines =
+            unmeasured_lines(path, sides[i], base_file ? &base_file->content : nullptr,
+                             head_file ? &head_file->content : nullptr);
+        if (lines.count > 0) {
+            report.unmeasured_lines += lines.count;
+            report.unmeasured.push_back(std::move(lines));
+        }
+    }
+    std::sort(report.unmeasured.begin(), report.unmeasured.end(),
+              [](const UnmeasuredLines& a, const UnmeasuredLines& b) { return a.path < b.path; });
     return report;
 }
 

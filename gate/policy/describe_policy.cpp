@@ -161,6 +161,17 @@ std::string describe_policy(const Policy& policy) {
         << (policy.baseline.grandfather == Grandfathering::on ? "true" : "false");
     out << YAML::EndMap;
 
+    out << YAML::Key << "inactive-code" << YAML::Value << inactive_code_name(policy.inactive_code);
+    out << YAML::Key << "unmeasured-lines" << YAML::Value;
+    if (policy.unmeasured_lines.limit) {
+        out << YAML::BeginMap;
+        out << YAML::Key << "limit" << YAML::Value << plain_number(*policy.unmeasured_lines.limit);
+        out << YAML::Key << "level" << YAML::Value << level_name(policy.unmeasured_lines.level);
+        out << YAML::EndMap;
+    } else {
+        out << "off";
+    }
+
     out << YAML::EndMap;
     return std::string(out.c_str()) + "\n";
 }
@@ -207,6 +218,12 @@ std::vector<Setting> flatten(const Policy& policy) {
     add("", "baseline.path", policy.baseline.path.empty() ? "none" : quote(policy.baseline.path));
     add("", "baseline.grandfather",
         policy.baseline.grandfather == Grandfathering::on ? "true" : "false");
+    add("", "inactive-code", inactive_code_name(policy.inactive_code));
+    add("", "unmeasured-lines",
+        policy.unmeasured_lines.limit
+            ? "{limit " + plain_number(*policy.unmeasured_lines.limit) + ", level " +
+                  level_name(policy.unmeasured_lines.level) + "}"
+            : std::string("off"));
     for (const auto& rule : policy.rules) {
         const std::string group = "rules[" + quote(rule.id) + "]";
         add(group, "kind", rule_kind_name(rule.kind));

@@ -192,6 +192,10 @@ std::string Repository::workdir() const {
     return dir == nullptr ? std::string() : std::string(dir);
 }
 
+std::string Repository::git_dir() const {
+    return git_repository_path(m_impl->repository.get());
+}
+
 bool Repository::is_bare() const {
     return git_repository_is_bare(m_impl->repository.get()) == 1;
 }

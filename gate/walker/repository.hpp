@@ -51,6 +51,9 @@ public:
     std::string workdir() const;
     // Return true for a bare repository.
     bool is_bare() const;
+    // Return the git folder's absolute path ('/'-terminated): ".git/" of a working tree, or the
+    // bare repository itself.
+    std::string git_dir() const;
 
     // Resolve `revision` (any git revision syntax: HEAD~2, a tag, a short id, main@{1}) to a
     // commit id, peeling tags. Throws UsageError `cannot resolve ROLE "REVISION": CAUSE` (with

@@ -279,7 +279,8 @@ baseline: {path: "snap shot.json", grandfather: false}
         const std::string minimal = describe_policy(load_policy("tollgate-policy: 1\n", "m"));
         CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules: []\n"
                          "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                         "waivers: []\nbaseline:\n  grandfather: true\n");
+                         "waivers: []\nbaseline:\n  grandfather: true\n"
+                         "inactive-code: judge\nunmeasured-lines: off\n");
     }
 }
 
