@@ -208,7 +208,7 @@ policy::Finding read_finding(const Reader& r) {
     f.limit = r.at("limit").number();
     f.excess = r.at("excess").number();
     f.percent = r.at("percent").flag();
-    f.grandfathered = r.at("grandfathered").flag();
+    f.tolerated = r.at("tolerated").flag();
     f.message = r.at("message").text();
     return f;
 }

@@ -159,7 +159,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
     sub.add_option("--baseline", options->baseline_path,
                    "Baseline snapshot kept by the pipeline (default: the policy's baseline.path "
                    "as the base commit has it); functions already above a ceiling in it are "
-                   "grandfathered, and one of the base commit is checked against the parsed "
+                   "tolerated, and one of the base commit is checked against the parsed "
                    "base");
     sub.add_flag("--update-baseline", options->update_baseline,
                  "After a passing run, write the head commit's snapshot to the baseline path");

@@ -45,21 +45,21 @@ struct Finding {
     Level level = Level::blocking;    // its weight
     core::MeasureId measure = core::MeasureId::effort; // the measure judged
     std::string function;                              // qualified name; empty for a budget finding
-    std::string signature;      // parameter types; empty for a budget finding
-    std::string path;           // head path (base path for a removed function); empty for budget
-    unsigned start_line = 0;    // head extent's first line; 0 for budget
-    unsigned end_line = 0;      // head extent's last line; 0 for budget
-    double value = 0;           // the judged value (a growth, a head value or a sum)
-    double limit = 0;           // the limit it broke
-    double excess = 0;          // value - limit
-    bool percent = false;       // value, limit and excess are percentages
-    std::string message;        // the finding in words a reviewer understands, e.g.
-                                // "src/filter.cpp:120: Kalman::update(): effort +18,400 (+61%)
-                                // exceeds +40% (rule \"effort-growth\")"
-    bool grandfathered = false; // above a ceiling already in the baseline; reported, not blocking
+    std::string signature;   // parameter types; empty for a budget finding
+    std::string path;        // head path (base path for a removed function); empty for budget
+    unsigned start_line = 0; // head extent's first line; 0 for budget
+    unsigned end_line = 0;   // head extent's last line; 0 for budget
+    double value = 0;        // the judged value (a growth, a head value or a sum)
+    double limit = 0;        // the limit it broke
+    double excess = 0;       // value - limit
+    bool percent = false;    // value, limit and excess are percentages
+    std::string message;     // the finding in words a reviewer understands, e.g.
+                             // "src/filter.cpp:120: Kalman::update(): effort +18,400 (+61%)
+                             // exceeds +40% (rule \"effort-growth\")"
+    bool tolerated = false;  // above a ceiling already in the baseline; reported, not blocking
 
-    // Return true when this finding blocks the change: a blocking rule, not grandfathered.
-    bool blocks() const { return level == Level::blocking && !grandfathered; }
+    // Return true when this finding blocks the change: a blocking rule, not tolerated.
+    bool blocks() const { return level == Level::blocking && !tolerated; }
 
     bool operator==(const Finding& other) const {
         return rule_id == other.rule_id && kind == other.kind && level == other.level &&
@@ -67,8 +67,7 @@ struct Finding {
                signature == other.signature && path == other.path &&
                start_line == other.start_line && end_line == other.end_line &&
                value == other.value && limit == other.limit && excess == other.excess &&
-               percent == other.percent && message == other.message &&
-               grandfathered == other.grandfathered;
+               percent == other.percent && message == other.message && tolerated == other.tolerated;
     }
 };
 

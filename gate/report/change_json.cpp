@@ -66,7 +66,7 @@ json verdict_json(const policy::Verdict& verdict) {
                             {"limit", f.limit},
                             {"excess", f.excess},
                             {"percent", f.percent},
-                            {"grandfathered", f.grandfathered},
+                            {"tolerated", f.tolerated},
                             {"message", f.message}});
     }
     return {{"outcome", policy::outcome_name(verdict.outcome)},

@@ -15,7 +15,7 @@ namespace tollgate::report {
 // Where one function stands with the policy.
 enum class Standing {
     blocks, // at least one finding blocks the change
-    warns,  // findings, none blocking (warnings, grandfathered ceilings)
+    warns,  // findings, none blocking (warnings, tolerated ceilings)
     clear,  // no finding
 };
 

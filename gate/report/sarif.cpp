@@ -164,7 +164,7 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
                 result["ruleIndex"] = i;
             }
         }
-        if (finding.grandfathered) {
+        if (finding.tolerated) {
             result["baselineState"] = "unchanged";
         }
         if (finding_parser_stopped(report, finding)) {

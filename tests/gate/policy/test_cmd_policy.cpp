@@ -42,8 +42,8 @@ TEST_CASE("tollgate policy validates a policy file", "[policy]") {
                             "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules:\n"
                             "  - id: g\n    kind: growth\n    measure: volume\n"
                             "    max-increase-percent: 10\n    level: blocking\n"
-                            "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                            "waivers: []\nbaseline:\n  grandfather: true\n");
+                            "paths:\n  include: [\"**\"]\n  exclude: []\n  scopes: []\n"
+                            "waivers: []\nbaseline:\n  tolerate-existing: true\n");
     }
     SECTION("without a file, .tollgate.yaml at the repository root is read") {
         dir.write(".tollgate.yaml", "tollgate-policy: 1\njudge-with: head\n");
