@@ -209,6 +209,18 @@ policy::Finding read_finding(const Reader& r) {
     f.excess = r.at("excess").number();
     f.percent = r.at("percent").flag();
     f.tolerated = r.at("tolerated").flag();
+    // Added to the schema later: advisory runs and exemptions.
+    if (r.node().contains("would_block")) {
+        f.advisory = r.at("would_block").flag();
+    }
+    if (r.node().contains("exemption") && !r.node()["exemption"].is_null()) {
+        const Reader e = r.at("exemption");
+        f.exemption = parse_name<policy::ExemptionState>(
+            e.at("state"), {{"accepted", policy::ExemptionState::accepted},
+                            {"refused", policy::ExemptionState::refused}});
+        f.exemption_reason = e.at("reason").text_or_empty();
+        f.exemption_where = e.at("where").text_or_empty();
+    }
     f.message = r.at("message").text();
     return f;
 }
@@ -217,15 +229,22 @@ CheckedChange read_document(const Reader& doc) {
     using delta::DeltaLabel;
     CheckedChange change;
     const Reader verdict = doc.at("verdict");
-    change.verdict.outcome =
-        parse_name<policy::Outcome>(verdict.at("outcome"), {{"pass", policy::Outcome::pass},
-                                                            {"blocked", policy::Outcome::blocked}});
+    change.verdict.outcome = parse_name<policy::Outcome>(
+        verdict.at("outcome"), {{"pass", policy::Outcome::pass},
+                                {"blocked", policy::Outcome::blocked},
+                                {"would-block", policy::Outcome::would_block}});
+    if (verdict.node().contains("enforcement") && verdict.at("enforcement").text() == "advisory") {
+        change.verdict.enforcement = policy::Enforcement::advisory;
+    }
     change.verdict.policy_origin = verdict.at("policy").text();
     change.verdict.policy_change_summary = verdict.at("policy_change").text();
     change.verdict.policy_changes = verdict.at("policy_differences").texts();
     const Reader findings = verdict.at("findings");
     for (std::size_t i = 0; i < findings.size(); ++i) {
         change.verdict.findings.push_back(read_finding(findings.at(i)));
+        if (change.verdict.enforcement == policy::Enforcement::advisory) {
+            change.verdict.findings.back().advisory = true;
+        }
     }
     change.verdict.notes = verdict.at("notes").texts();
 

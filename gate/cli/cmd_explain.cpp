@@ -7,6 +7,7 @@
 #include "gate/common/errors.hpp"
 #include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
+#include "gate/report/explain_change.hpp"
 #include "tollgate/core/convention.hpp"
 
 #include <algorithm>
@@ -24,6 +25,8 @@ struct ExplainOptions {
     std::string format = "text"; // text or json
     double stroud = 18.0;        // Stroud number
     IsolationOptions isolation;  // --parse-timeout, --parse-memory
+    std::string base;            // --base REV: compare with the function at this revision
+    std::string change;          // --change BASE..HEAD: compare the function at both revisions
 };
 
 // Return true when `name` is `wanted` or ends with "::" + `wanted` (C++) or "." + `wanted`
@@ -46,9 +49,9 @@ bool all_digits(const std::string& text) {
            std::all_of(text.begin(), text.end(), [](unsigned char c) { return std::isdigit(c); });
 }
 
-// Pick the function `wanted` (a name or a line number) names among `spans`.
-const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>& spans,
-                                         const std::string& path, const std::string& wanted) {
+// Return the functions among `spans` that `wanted` (a name or a line number) names.
+std::vector<const lexer::FunctionSpan*>
+find_functions(const std::vector<lexer::FunctionSpan>& spans, const std::string& wanted) {
     std::vector<const lexer::FunctionSpan*> matches;
     if (all_digits(wanted)) {
         const unsigned line = static_cast<unsigned>(std::stoul(wanted));
@@ -72,6 +75,13 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             }
         }
     }
+    return matches;
+}
+
+// Pick the function `wanted` (a name or a line number) names among `spans`.
+const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>& spans,
+                                         const std::string& path, const std::string& wanted) {
+    const auto matches = find_functions(spans, wanted);
     if (matches.size() == 1) {
         return *matches.front();
     }
@@ -103,8 +113,65 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
                                  wanted, matches.size(), path, candidates));
 }
 
+// The base side of a comparison: the function of `path` at `revision` that `head` is, found by
+// its qualified name and signature, else by its name when that is unique; none when the file or
+// the function is not there.
+std::optional<report::MeasuredFunction>
+find_base(const ExplainOptions& options, const std::string& revision, const std::string& path,
+          const lexer::FunctionSpan& head, std::string& how, std::string& label) {
+    SourceOptions sources = options.sources;
+    sources.revision = revision;
+    sources.paths = {path};
+    SourceRequest request = to_request(sources);
+    request.allow_missing = true;
+    const LoadedSources loaded = load_sources(request);
+    label = loaded.label;
+    if (loaded.selected.size() != 1) {
+        return std::nullopt;
+    }
+    const auto files = lexer::lex_files(loaded.selected, loaded.context, 1);
+    const lexer::FunctionSpan* found = nullptr;
+    std::vector<const lexer::FunctionSpan*> named;
+    for (const auto& span : files.front().functions) {
+        if (span.qualified_name != head.qualified_name) {
+            continue;
+        }
+        named.push_back(&span);
+        if (span.signature == head.signature && found == nullptr) {
+            found = &span;
+        }
+    }
+    if (found != nullptr) {
+        how = "same name and signature";
+    } else if (named.size() == 1) {
+        found = named.front();
+        how = "same name, signature was (" + found->signature + ")";
+    } else {
+        return std::nullopt;
+    }
+    core::MeasureSettings settings;
+    settings.stroud = options.stroud;
+    return measure_span(*found, settings);
+}
+
 int run_explain(const ExplainOptions& options) {
     apply_isolation_options(options.isolation);
+    std::string base_revision = options.base;
+    ExplainOptions adjusted = options;
+    if (!options.change.empty()) {
+        const auto dots = options.change.find("..");
+        if (dots == std::string::npos || dots == 0 || dots + 2 >= options.change.size() ||
+            options.change.find("..", dots + 2) != std::string::npos ||
+            options.change[dots + 2] == '.') {
+            throw UsageError("--change expects BASE..HEAD, got \"" + options.change +
+                             "\" (for example \"main..HEAD\")");
+        }
+        if (!options.sources.revision.empty() || !options.base.empty()) {
+            throw UsageError("--change names both revisions: leave out --rev and --base");
+        }
+        base_revision = options.change.substr(0, dots);
+        adjusted.sources.revision = options.change.substr(dots + 2);
+    }
     const auto colon = options.target.rfind(':');
     if (colon == std::string::npos || colon == 0 || colon + 1 == options.target.size()) {
         throw UsageError("expected PATH:FUNCTION, got \"" + options.target +
@@ -119,7 +186,6 @@ int run_explain(const ExplainOptions& options) {
     const std::string path = options.target.substr(0, split);
     const std::string wanted = options.target.substr(split + 1);
 
-    ExplainOptions adjusted = options;
     adjusted.sources.paths = {path};
     const LoadedSources loaded = load_sources(to_request(adjusted.sources));
     if (loaded.selected.size() != 1) {
@@ -132,6 +198,20 @@ int run_explain(const ExplainOptions& options) {
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);
     const std::string convention = java::build_fingerprint(loaded.context.convention);
+    if (!base_revision.empty()) {
+        report::FunctionComparison comparison;
+        comparison.head = measured;
+        comparison.head_label = loaded.label;
+        comparison.convention = convention;
+        comparison.base = find_base(adjusted, base_revision, path, span, comparison.base_match,
+                                    comparison.base_label);
+        if (options.format == "json") {
+            report::write_explain_change_json(std::cout, comparison);
+        } else {
+            report::write_explain_change_text(std::cout, comparison);
+        }
+        return 0;
+    }
     if (options.format == "json") {
         report::write_explain_json(std::cout, measured, loaded.label, convention);
     } else {
@@ -152,6 +232,14 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
                    "PATH:FUNCTION (a name, a qualified name, NAME(SIGNATURE)) or PATH:LINE")
         ->required();
     add_source_options(sub, options->sources, "");
+    auto* base = sub.add_option("--base", options->base,
+                                "Compare with the same function at this revision: both sides' "
+                                "operators and operands side by side, and the difference per "
+                                "token (the head is --rev, else the working tree)");
+    sub.add_option("--change", options->change,
+                   "BASE..HEAD: compare the function at two revisions (what a check's finding "
+                   "tells you to run)")
+        ->excludes(base);
     sub.add_option("--format", options->format, "Output format")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
@@ -160,7 +248,9 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.footer("Examples:\n"
                "  tollgate explain src/filter.cpp:Kalman::update\n"
                "  tollgate explain src/crc.c:crc16 --rev HEAD~1\n"
-               "  tollgate explain src/ring.cpp:42           the function holding line 42");
+               "  tollgate explain src/ring.cpp:42           the function holding line 42\n"
+               "  tollgate explain --change main..HEAD src/filter.cpp:Kalman::update\n"
+               "                                             what grew, token by token");
     sub.callback([options, &selected] { selected = [options] { return run_explain(*options); }; });
 }
 

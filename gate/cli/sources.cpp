@@ -78,7 +78,7 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
 // Keep the files of `all` that `paths` select (a file, or every file under a folder).
 std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
                                      const std::vector<std::string>& relative_paths,
-                                     const std::vector<std::string>& as_given) {
+                                     const std::vector<std::string>& as_given, bool allow_missing) {
     if (relative_paths.empty()) {
         return all;
     }
@@ -97,7 +97,7 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
                 selected.push_back(file);
             }
         }
-        if (!found) {
+        if (!found && !allow_missing) {
             throw UsageError("no C, C++ or Java file at \"" + as_given[i] +
                              "\" (give a .c, .cc, .cpp, .cxx, .c++, header or .java file, or a "
                              "folder)");
@@ -211,7 +211,7 @@ LoadedSources load_sources(const SourceRequest& request) {
         }
         relative.push_back(rel);
     }
-    loaded.selected = select_files(all, relative, request.paths);
+    loaded.selected = select_files(all, relative, request.paths, request.allow_missing);
 
     const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
     loaded.context =

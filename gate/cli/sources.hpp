@@ -20,6 +20,7 @@ struct SourceRequest {
     std::string cache_dir;          // precompiled-header cache; empty picks the default
     bool no_cache = false;          // disable the precompiled-header cache
     std::optional<lexer::Language> force_language; // override the extension rule
+    bool allow_missing = false; // a path with no source file selects nothing instead of failing
 };
 
 // The files to measure and the parse context they share.

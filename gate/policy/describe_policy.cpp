@@ -56,6 +56,10 @@ std::string describe_policy(const Policy& policy) {
     out << YAML::BeginMap;
     out << YAML::Key << "tollgate-policy" << YAML::Value << policy.schema_version;
     out << YAML::Key << "judge-with" << YAML::Value << judge_with_name(policy.judge_with);
+    out << YAML::Key << "advisory" << YAML::Value
+        << (policy.enforcement == Enforcement::advisory ? "true" : "false");
+    out << YAML::Key << "change-exemptions" << YAML::Value
+        << (policy.change_exemptions == ChangeExemptions::accept ? "accept" : "refuse");
 
     out << YAML::Key << "noise-floor" << YAML::Value;
     if (policy.noise_floor.empty()) {
@@ -193,6 +197,9 @@ std::vector<Setting> flatten(const Policy& policy) {
     };
     add("", "tollgate-policy", std::to_string(policy.schema_version));
     add("", "judge-with", judge_with_name(policy.judge_with));
+    add("", "advisory", policy.enforcement == Enforcement::advisory ? "true" : "false");
+    add("", "change-exemptions",
+        policy.change_exemptions == ChangeExemptions::accept ? "accept" : "refuse");
     for (const auto& floor : policy.noise_floor) {
         add("", "noise-floor." + std::string(core::measure_name(floor.measure)),
             plain_number(floor.below));

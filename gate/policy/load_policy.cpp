@@ -31,8 +31,9 @@ const char* judge_with_name(JudgeWith judge_with) {
 
 namespace {
 
-const std::vector<std::string> k_top_keys = {
-    "tollgate-policy", "judge-with", "noise-floor", "rules", "paths", "waivers", "baseline"};
+const std::vector<std::string> k_top_keys = {"tollgate-policy", "judge-with", "noise-floor",
+                                             "rules",           "paths",      "waivers",
+                                             "baseline",        "advisory",   "change-exemptions"};
 const std::vector<std::string> k_rule_keys = {"id",           "kind",
                                               "measure",      "level",
                                               "max-increase", "max-increase-percent",
@@ -378,6 +379,18 @@ Policy PolicyReader::read(const YAML::Node& root) {
     }
     if (const Entry* baseline = find("baseline")) {
         read_baseline(baseline->value, policy);
+    }
+    if (const Entry* advisory = find("advisory")) {
+        if (const auto value = choice(advisory->value, "advisory", {"true", "false"})) {
+            policy.enforcement = *value == "true" ? Enforcement::advisory : Enforcement::blocking;
+        }
+    }
+    if (const Entry* exemptions = find("change-exemptions")) {
+        if (const auto value =
+                choice(exemptions->value, "change-exemptions", {"refuse", "accept"})) {
+            policy.change_exemptions =
+                *value == "accept" ? ChangeExemptions::accept : ChangeExemptions::refuse;
+        }
     }
     return policy;
 }

@@ -155,20 +155,31 @@ struct BaselineSettings {
     }
 };
 
+// Whether authors may exempt their own change (key "change-exemptions"). Only the base commit's
+// policy (or a --policy file) decides; a head policy's setting is never used.
+enum class ChangeExemptions {
+    refuse, // an exemption the change carries is reported as refused and has no effect
+    accept, // an exemption the change carries lets the findings it names pass, shown in reports
+};
+
 // A whole policy, as loaded or built in. Plain data; compare with ==.
 struct Policy {
-    int schema_version = k_policy_schema_version; // key "tollgate-policy"
-    JudgeWith judge_with = JudgeWith::base;       // key "judge-with"
-    std::vector<NoiseFloor> noise_floor;          // key "noise-floor"; all entries must hold
-    std::vector<Rule> rules;                      // key "rules", in file order
-    PathScope paths;                              // key "paths"
-    std::vector<Waiver> waivers;                  // key "waivers", in file order
-    BaselineSettings baseline;                    // key "baseline"
+    int schema_version = k_policy_schema_version;    // key "tollgate-policy"
+    JudgeWith judge_with = JudgeWith::base;          // key "judge-with"
+    std::vector<NoiseFloor> noise_floor;             // key "noise-floor"; all entries must hold
+    std::vector<Rule> rules;                         // key "rules", in file order
+    PathScope paths;                                 // key "paths"
+    std::vector<Waiver> waivers;                     // key "waivers", in file order
+    BaselineSettings baseline;                       // key "baseline"
+    Enforcement enforcement = Enforcement::blocking; // key "advisory": true runs every rule
+                                                     // without blocking ("would block")
+    ChangeExemptions change_exemptions = ChangeExemptions::refuse; // key "change-exemptions"
 
     bool operator==(const Policy& other) const {
         return schema_version == other.schema_version && judge_with == other.judge_with &&
                noise_floor == other.noise_floor && rules == other.rules && paths == other.paths &&
-               waivers == other.waivers && baseline == other.baseline;
+               waivers == other.waivers && baseline == other.baseline &&
+               enforcement == other.enforcement && change_exemptions == other.change_exemptions;
     }
     bool operator!=(const Policy& other) const { return !(*this == other); }
 };
