@@ -300,6 +300,8 @@ paths:
 waivers:
   - {file: "x/**", function: "A::*", rules: [g, b], reason: "it's: \"quoted\"", expires: 2028-02-29}
 baseline: {path: "snap shot.json", tolerate-existing: false}
+advisory: true
+change-exemptions: accept
 )",
                                       "p.yaml");
     const std::string text = describe_policy(policy);
@@ -309,7 +311,8 @@ baseline: {path: "snap shot.json", tolerate-existing: false}
     }
     SECTION("every default is written out") {
         const std::string minimal = describe_policy(load_policy("tollgate-policy: 1\n", "m"));
-        CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules: []\n"
+        CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nadvisory: false\n"
+                         "change-exemptions: refuse\nnoise-floor: {}\nrules: []\n"
                          "paths:\n  include: [\"**\"]\n  exclude: []\n  scopes: []\n"
                          "waivers: []\nbaseline:\n  tolerate-existing: true\n");
     }
