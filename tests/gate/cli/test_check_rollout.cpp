@@ -60,7 +60,7 @@ struct Change {
     tollgate::test::RunResult check(const std::string& extra) const {
         return run_tollgate("check --no-pch-cache --base " + base + " --head " + head +
                                 " --report json:../out.json --report sarif:../out.sarif "
-                                "--report markdown:../out.md --report text:- " +
+                                "--report markdown:../out.md --report text:- --wide " +
                                 extra,
                             repo);
     }
@@ -134,11 +134,12 @@ TEST_CASE("check reports an exemption the change carries and obeys only the base
         REQUIRE(json["verdict"]["exemptions"].size() == 1);
         CHECK(json["verdict"]["exemptions"][0]["state"] == "refused");
         CHECK(json["verdict"]["findings"][0]["exemption"]["state"] == "refused");
-        const auto& suppression = change.sarif()["runs"][0]["results"][0]["suppressions"][0];
+        const auto sarif = change.sarif();
+        const auto& suppression = sarif["runs"][0]["results"][0]["suppressions"][0];
         CHECK(suppression["status"] == "rejected");
         CHECK(suppression["kind"] == "external");
         CHECK(suppression["justification"] == "the sensor table is unrolled on purpose");
-        CHECK(change.sarif()["runs"][0]["results"][0]["level"] == "error");
+        CHECK(sarif["runs"][0]["results"][0]["level"] == "error");
         CHECK(change.markdown().find("exemption REFUSED by the base policy") != std::string::npos);
     }
     SECTION("accepted when the base policy says so: the change passes, the exemption shows") {
@@ -192,7 +193,8 @@ TEST_CASE("check reports an exemption the change carries and obeys only the base
         CHECK(result.out.find("\\x1b]0;owned\\x07") != std::string::npos);
         const std::string markdown = change.markdown();
         CHECK(markdown.find("](https://evil.example)") == std::string::npos);
-        CHECK(markdown.find("<img") == std::string::npos);
+        CHECK(markdown.find("\\<img src=x\\>") != std::string::npos);
+        CHECK(markdown.find(" <img") == std::string::npos);
         // JSON keeps the text as written (its own escaping makes it safe).
         CHECK(change.json()["verdict"]["exemptions"][0]["reason"] ==
               "\x1b]0;owned\x07 [click](https://evil.example) <img src=x>");
@@ -228,14 +230,27 @@ TEST_CASE("a finding names the explain command that compares both sides", "[chec
     CHECK(change.markdown().find("why: `" + command + "`") != std::string::npos);
 
     SECTION("and the command shows the difference per token") {
-        const auto explained = run_tollgate(
-            command.substr(std::string("tollgate ").size()) + " --no-pch-cache", change.repo);
+        const std::string args =
+            command.substr(std::string("tollgate ").size()) + " --no-pch-cache";
+        const auto explained = run_tollgate(args, change.repo);
         INFO(explained.err);
         REQUIRE(explained.exit_code == 0);
         // Hand count of the two bodies above under c-family/1 (core/README.md): "y" appears 6
-        // times in head and never in base; "if" once in head.
-        CHECK(explained.out.find("+6 `y`") != std::string::npos);
-        CHECK(explained.out.find("+1 if") != std::string::npos);
+        // times in head and never in base, the largest difference; "if" once in head.
+        CHECK(explained.out.find("what changed: +6 `y`, ") != std::string::npos);
         CHECK(explained.out.find("base revision " + change.base.substr(0, 7)) != std::string::npos);
+        const auto json =
+            nlohmann::json::parse(run_tollgate(args + " --format json", change.repo).out);
+        CHECK(json["schema"] == "tollgate.explain-change/1");
+        bool seen_if = false;
+        for (const auto& token : json["tokens"]) {
+            if (token["token"] == "if") {
+                seen_if = true;
+                CHECK(token["base"] == 0);
+                CHECK(token["head"] == 1);
+                CHECK(token["difference"] == 1);
+            }
+        }
+        CHECK(seen_if);
     }
 }
