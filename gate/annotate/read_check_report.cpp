@@ -218,6 +218,9 @@ policy::Finding read_finding(const Reader& r) {
         f.exemption = parse_name<policy::ExemptionState>(
             e.at("state"), {{"accepted", policy::ExemptionState::accepted},
                             {"refused", policy::ExemptionState::refused}});
+        f.exemption_source = parse_name<policy::ExemptionSource>(
+            e.at("source"), {{"trailer", policy::ExemptionSource::trailer},
+                             {"comment", policy::ExemptionSource::comment}});
         f.exemption_reason = e.at("reason").text_or_empty();
         f.exemption_where = e.at("where").text_or_empty();
     }
@@ -247,6 +250,27 @@ CheckedChange read_document(const Reader& doc) {
         }
     }
     change.verdict.notes = verdict.at("notes").texts();
+    if (verdict.node().contains("exemptions")) {
+        const Reader exemptions = verdict.at("exemptions");
+        for (std::size_t i = 0; i < exemptions.size(); ++i) {
+            const Reader e = exemptions.at(i);
+            policy::ClaimedExemption claim;
+            claim.source = parse_name<policy::ExemptionSource>(
+                e.at("source"), {{"trailer", policy::ExemptionSource::trailer},
+                                 {"comment", policy::ExemptionSource::comment}});
+            claim.where = e.at("where").text();
+            claim.function = e.at("function").text();
+            claim.path = e.at("file").text();
+            claim.start_line = e.at("line").count();
+            claim.rules = e.at("rules").texts();
+            claim.reason = e.at("reason").text();
+            claim.state = parse_name<policy::ExemptionState>(
+                e.at("state"), {{"accepted", policy::ExemptionState::accepted},
+                                {"refused", policy::ExemptionState::refused}});
+            claim.findings = e.at("findings").count();
+            change.verdict.exemptions.push_back(std::move(claim));
+        }
+    }
 
     delta::ChangeReport& report = change.report;
     report.convention = doc.at("convention").text();

@@ -54,9 +54,11 @@ json exemption_json(const policy::Finding& f) {
     if (f.exemption == policy::ExemptionState::none) {
         return nullptr;
     }
-    return {{"state", policy::exemption_state_name(f.exemption)},
-            {"reason", f.exemption_reason},
-            {"where", f.exemption_where}};
+    return {
+        {"state", policy::exemption_state_name(f.exemption)},
+        {"source", f.exemption_source == policy::ExemptionSource::trailer ? "trailer" : "comment"},
+        {"reason", f.exemption_reason},
+        {"where", f.exemption_where}};
 }
 
 json verdict_json(const policy::Verdict& verdict) {
