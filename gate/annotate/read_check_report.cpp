@@ -182,6 +182,54 @@ delta::Totals read_totals(const Reader& r) {
     return t;
 }
 
+policy::ExemptionSource read_source(const Reader& r) {
+    return parse_name<policy::ExemptionSource>(r, {{"trailer", policy::ExemptionSource::trailer},
+                                                   {"comment", policy::ExemptionSource::comment}});
+}
+
+policy::ExemptionState read_state(const Reader& r) {
+    return parse_name<policy::ExemptionState>(r, {{"accepted", policy::ExemptionState::accepted},
+                                                  {"refused", policy::ExemptionState::refused}});
+}
+
+// Fields added to the schema later: advisory runs and exemptions.
+void read_rollout_fields(const Reader& r, policy::Finding& f) {
+    if (r.node().contains("would_block")) {
+        f.advisory = r.at("would_block").flag();
+    }
+    if (r.node().contains("exemption") && !r.node()["exemption"].is_null()) {
+        const Reader e = r.at("exemption");
+        f.exemption = read_state(e.at("state"));
+        f.exemption_source = read_source(e.at("source"));
+        f.exemption_reason = e.at("reason").text_or_empty();
+        f.exemption_where = e.at("where").text_or_empty();
+    }
+}
+
+// The exemptions a change claimed (added to the schema later: none when absent).
+std::vector<policy::ClaimedExemption> read_exemptions(const Reader& verdict) {
+    std::vector<policy::ClaimedExemption> claims;
+    if (!verdict.node().contains("exemptions")) {
+        return claims;
+    }
+    const Reader exemptions = verdict.at("exemptions");
+    for (std::size_t i = 0; i < exemptions.size(); ++i) {
+        const Reader e = exemptions.at(i);
+        policy::ClaimedExemption claim;
+        claim.source = read_source(e.at("source"));
+        claim.where = e.at("where").text();
+        claim.function = e.at("function").text();
+        claim.path = e.at("file").text();
+        claim.start_line = e.at("line").count();
+        claim.rules = e.at("rules").texts();
+        claim.reason = e.at("reason").text();
+        claim.state = read_state(e.at("state"));
+        claim.findings = e.at("findings").count();
+        claims.push_back(std::move(claim));
+    }
+    return claims;
+}
+
 policy::Finding read_finding(const Reader& r) {
     using policy::Level;
     using policy::RuleKind;
@@ -209,21 +257,7 @@ policy::Finding read_finding(const Reader& r) {
     f.excess = r.at("excess").number();
     f.percent = r.at("percent").flag();
     f.tolerated = r.at("tolerated").flag();
-    // Added to the schema later: advisory runs and exemptions.
-    if (r.node().contains("would_block")) {
-        f.advisory = r.at("would_block").flag();
-    }
-    if (r.node().contains("exemption") && !r.node()["exemption"].is_null()) {
-        const Reader e = r.at("exemption");
-        f.exemption = parse_name<policy::ExemptionState>(
-            e.at("state"), {{"accepted", policy::ExemptionState::accepted},
-                            {"refused", policy::ExemptionState::refused}});
-        f.exemption_source = parse_name<policy::ExemptionSource>(
-            e.at("source"), {{"trailer", policy::ExemptionSource::trailer},
-                             {"comment", policy::ExemptionSource::comment}});
-        f.exemption_reason = e.at("reason").text_or_empty();
-        f.exemption_where = e.at("where").text_or_empty();
-    }
+    read_rollout_fields(r, f);
     f.message = r.at("message").text();
     return f;
 }
@@ -250,27 +284,7 @@ CheckedChange read_document(const Reader& doc) {
         }
     }
     change.verdict.notes = verdict.at("notes").texts();
-    if (verdict.node().contains("exemptions")) {
-        const Reader exemptions = verdict.at("exemptions");
-        for (std::size_t i = 0; i < exemptions.size(); ++i) {
-            const Reader e = exemptions.at(i);
-            policy::ClaimedExemption claim;
-            claim.source = parse_name<policy::ExemptionSource>(
-                e.at("source"), {{"trailer", policy::ExemptionSource::trailer},
-                                 {"comment", policy::ExemptionSource::comment}});
-            claim.where = e.at("where").text();
-            claim.function = e.at("function").text();
-            claim.path = e.at("file").text();
-            claim.start_line = e.at("line").count();
-            claim.rules = e.at("rules").texts();
-            claim.reason = e.at("reason").text();
-            claim.state = parse_name<policy::ExemptionState>(
-                e.at("state"), {{"accepted", policy::ExemptionState::accepted},
-                                {"refused", policy::ExemptionState::refused}});
-            claim.findings = e.at("findings").count();
-            change.verdict.exemptions.push_back(std::move(claim));
-        }
-    }
+    change.verdict.exemptions = read_exemptions(verdict);
 
     delta::ChangeReport& report = change.report;
     report.convention = doc.at("convention").text();

@@ -147,13 +147,20 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
                  range.head.short_hex().c_str());
 }
 
-int run_check(const CheckOptions& options) {
-    apply_isolation_options(options.isolation);
-    const auto targets = parse_report_targets(options.reports);
-    const auto repository = walker::Repository::open(std::filesystem::current_path().string());
+// The exemptions a change carries, as the base policy allows, then advisory mode when the
+// policy or --advisory asks for it.
+void apply_rollout(policy::Verdict& verdict, const CheckOptions& options,
+                   const SelectedPolicy& selected, const walker::Repository& repository,
+                   const walker::ResolvedRange& range) {
+    policy::apply_exemptions(verdict, read_exemptions(repository, range, verdict),
+                             selected.change_exemptions);
+    if (options.advisory || selected.policy.enforcement == policy::Enforcement::advisory) {
+        policy::make_advisory(verdict);
+    }
+}
 
-    walker::ChangeOptions change_options;
-    change_options.rename_limit = options.rename_limit;
+delta::MeasureChangeSettings measure_settings(const CheckOptions& options,
+                                              const walker::Repository& repository) {
     delta::MeasureChangeSettings settings;
     settings.measures.stroud = options.stroud;
     settings.jobs = options.jobs;
@@ -164,6 +171,17 @@ int run_check(const CheckOptions& options) {
                                            ? lexer::DatabaseOrigin::found
                                            : lexer::DatabaseOrigin::given;
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
+    return settings;
+}
+
+int run_check(const CheckOptions& options) {
+    apply_isolation_options(options.isolation);
+    const auto targets = parse_report_targets(options.reports);
+    const auto repository = walker::Repository::open(std::filesystem::current_path().string());
+
+    walker::ChangeOptions change_options;
+    change_options.rename_limit = options.rename_limit;
+    delta::MeasureChangeSettings settings = measure_settings(options, repository);
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
     const SelectedPolicy selected = select_policy(repository, range, options.policy_path);
@@ -181,11 +199,7 @@ int run_check(const CheckOptions& options) {
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
     verdict.policy_change_summary = selected.change_summary;
-    policy::apply_exemptions(verdict, read_exemptions(repository, range, verdict),
-                             selected.change_exemptions);
-    if (options.advisory || selected.policy.enforcement == policy::Enforcement::advisory) {
-        policy::make_advisory(verdict);
-    }
+    apply_rollout(verdict, options, selected, repository, range);
 
     report::RenderOptions render;
     render.link_template = options.link_template;

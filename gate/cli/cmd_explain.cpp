@@ -154,38 +154,61 @@ find_base(const ExplainOptions& options, const std::string& revision, const std:
     return measure_span(*found, settings);
 }
 
-int run_explain(const ExplainOptions& options) {
-    apply_isolation_options(options.isolation);
-    std::string base_revision = options.base;
-    ExplainOptions adjusted = options;
-    if (!options.change.empty()) {
-        const auto dots = options.change.find("..");
-        if (dots == std::string::npos || dots == 0 || dots + 2 >= options.change.size() ||
-            options.change.find("..", dots + 2) != std::string::npos ||
-            options.change[dots + 2] == '.') {
-            throw UsageError("--change expects BASE..HEAD, got \"" + options.change +
-                             "\" (for example \"main..HEAD\")");
-        }
-        if (!options.sources.revision.empty() || !options.base.empty()) {
-            throw UsageError("--change names both revisions: leave out --rev and --base");
-        }
-        base_revision = options.change.substr(0, dots);
-        adjusted.sources.revision = options.change.substr(dots + 2);
+// Split --change BASE..HEAD into the base revision and `adjusted`'s head revision.
+std::string split_change(const ExplainOptions& options, ExplainOptions& adjusted) {
+    const std::string& change = options.change;
+    const auto dots = change.find("..");
+    if (dots == std::string::npos || dots == 0 || dots + 2 >= change.size() ||
+        change.find("..", dots + 2) != std::string::npos || change[dots + 2] == '.') {
+        throw UsageError("--change expects BASE..HEAD, got \"" + change +
+                         "\" (for example \"main..HEAD\")");
     }
-    const auto colon = options.target.rfind(':');
-    if (colon == std::string::npos || colon == 0 || colon + 1 == options.target.size()) {
-        throw UsageError("expected PATH:FUNCTION, got \"" + options.target +
+    if (!options.sources.revision.empty() || !options.base.empty()) {
+        throw UsageError("--change names both revisions: leave out --rev and --base");
+    }
+    adjusted.sources.revision = change.substr(dots + 2);
+    return change.substr(0, dots);
+}
+
+// Split PATH:FUNCTION (or PATH:LINE) into its path and the function wanted.
+std::pair<std::string, std::string> split_target(const std::string& target) {
+    const auto colon = target.rfind(':');
+    if (colon == std::string::npos || colon == 0 || colon + 1 == target.size()) {
+        throw UsageError("expected PATH:FUNCTION, got \"" + target +
                          "\" (for example \"src/filter.cpp:Kalman::update\")");
     }
     // A qualified name holds "::"; split at the first single colon after the path instead.
-    std::size_t split = options.target.find(':');
-    while (split != std::string::npos && split + 1 < options.target.size() &&
-           options.target[split + 1] == ':') {
-        split = options.target.find(':', split + 2);
+    std::size_t split = target.find(':');
+    while (split != std::string::npos && split + 1 < target.size() && target[split + 1] == ':') {
+        split = target.find(':', split + 2);
     }
-    const std::string path = options.target.substr(0, split);
-    const std::string wanted = options.target.substr(split + 1);
+    return {target.substr(0, split), target.substr(split + 1)};
+}
 
+// Write the two sides of `head` (measured as `measured`) compared, as text or JSON.
+void write_comparison(const ExplainOptions& options, const ExplainOptions& adjusted,
+                      const std::string& base_revision, const std::string& path,
+                      const lexer::FunctionSpan& head, const report::MeasuredFunction& measured,
+                      const LoadedSources& loaded) {
+    report::FunctionComparison comparison;
+    comparison.head = measured;
+    comparison.head_label = loaded.label;
+    comparison.convention = java::build_fingerprint(loaded.context.convention);
+    comparison.base = find_base(adjusted, base_revision, path, head, comparison.base_match,
+                                comparison.base_label);
+    if (options.format == "json") {
+        report::write_explain_change_json(std::cout, comparison);
+    } else {
+        report::write_explain_change_text(std::cout, comparison);
+    }
+}
+
+int run_explain(const ExplainOptions& options) {
+    apply_isolation_options(options.isolation);
+    ExplainOptions adjusted = options;
+    const std::string base_revision =
+        options.change.empty() ? options.base : split_change(options, adjusted);
+    const auto [path, wanted] = split_target(options.target);
     adjusted.sources.paths = {path};
     const LoadedSources loaded = load_sources(to_request(adjusted.sources));
     if (loaded.selected.size() != 1) {
@@ -199,17 +222,7 @@ int run_explain(const ExplainOptions& options) {
     const auto measured = measure_span(span, settings);
     const std::string convention = java::build_fingerprint(loaded.context.convention);
     if (!base_revision.empty()) {
-        report::FunctionComparison comparison;
-        comparison.head = measured;
-        comparison.head_label = loaded.label;
-        comparison.convention = convention;
-        comparison.base = find_base(adjusted, base_revision, path, span, comparison.base_match,
-                                    comparison.base_label);
-        if (options.format == "json") {
-            report::write_explain_change_json(std::cout, comparison);
-        } else {
-            report::write_explain_change_text(std::cout, comparison);
-        }
+        write_comparison(options, adjusted, base_revision, path, span, measured, loaded);
         return 0;
     }
     if (options.format == "json") {

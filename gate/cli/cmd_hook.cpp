@@ -72,19 +72,25 @@ int check_ref(const hook::RefPlan& plan, const HookOptions& options, hook::HookM
     return hook::run_process(argv, hook::Output::to_stderr).exit_code;
 }
 
+// The mode of this run: TOLLGATE_HOOK, then --warn-only (off wins over both).
+hook::HookMode hook_mode(const HookOptions& options) {
+    const char* variable = std::getenv(hook::k_hook_mode_variable);
+    const hook::HookMode mode = hook::parse_hook_mode(variable == nullptr ? "" : variable);
+    if (mode == hook::HookMode::judge && options.warn_only) {
+        return hook::HookMode::warn;
+    }
+    return mode;
+}
+
 int run_pre_push(const HookOptions& options) {
     const std::string input{std::istreambuf_iterator<char>(std::cin),
                             std::istreambuf_iterator<char>()};
     const auto refs = hook::parse_pushed_refs(input);
-    const char* variable = std::getenv(hook::k_hook_mode_variable);
-    hook::HookMode mode = hook::parse_hook_mode(variable == nullptr ? "" : variable);
+    const hook::HookMode mode = hook_mode(options);
     if (mode == hook::HookMode::off) {
         std::cerr << "tollgate: " << hook::k_hook_mode_variable
                   << "=off: this push is not judged\n";
         return static_cast<int>(ExitCode::pass);
-    }
-    if (options.warn_only) {
-        mode = hook::HookMode::warn;
     }
     int worst = static_cast<int>(ExitCode::pass);
     // Ref and remote names come from git's input and arguments: made visible on the terminal.

@@ -75,6 +75,25 @@ json exemptions_json(const policy::Verdict& verdict) {
     return list;
 }
 
+// Mark a finding of an advisory run and an exemption the change claims for it on `result`.
+void mark_rollout(json& result, const policy::Finding& finding) {
+    if (finding.would_block()) {
+        result["message"]["text"] = "would block (advisory run): " + finding.message;
+        result["properties"]["wouldBlock"] = true;
+    }
+    if (finding.exemption == policy::ExemptionState::none) {
+        return;
+    }
+    // SARIF 2.1.0, 3.27.23 and 3.35 (from memory): a suppression with its kind, status and
+    // justification; a refused one is "rejected" and the result keeps its level.
+    const bool comment = finding.exemption_source == policy::ExemptionSource::comment;
+    const bool accepted = finding.exemption == policy::ExemptionState::accepted;
+    result["suppressions"] = json::array({{{"kind", comment ? "inSource" : "external"},
+                                           {"status", accepted ? "accepted" : "rejected"},
+                                           {"justification", finding.exemption_reason},
+                                           {"properties", {{"where", finding.exemption_where}}}}});
+}
+
 json physical_location(const std::string& path, unsigned start_line, unsigned end_line) {
     json location = {
         {"physicalLocation",
@@ -179,21 +198,7 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
         if (finding.tolerated) {
             result["baselineState"] = "unchanged";
         }
-        if (finding.would_block()) {
-            result["message"]["text"] = "would block (advisory run): " + finding.message;
-            result["properties"]["wouldBlock"] = true;
-        }
-        if (finding.exemption != policy::ExemptionState::none) {
-            // SARIF 2.1.0, 3.27.23 and 3.35 (from memory): a suppression with its kind, status
-            // and justification; a refused one is "rejected" and the result keeps its level.
-            const bool comment = finding.exemption_source == policy::ExemptionSource::comment;
-            result["suppressions"] = json::array(
-                {{{"kind", comment ? "inSource" : "external"},
-                  {"status",
-                   finding.exemption == policy::ExemptionState::accepted ? "accepted" : "rejected"},
-                  {"justification", finding.exemption_reason},
-                  {"properties", {{"where", finding.exemption_where}}}}});
-        }
+        mark_rollout(result, finding);
         if (finding_parser_stopped(report, finding)) {
             result["message"]["text"] =
                 finding.message + " (measured lexically: the parser stopped on this file)";
