@@ -262,29 +262,35 @@ policy::Finding read_finding(const Reader& r) {
     return f;
 }
 
-CheckedChange read_document(const Reader& doc) {
-    using delta::DeltaLabel;
-    CheckedChange change;
-    const Reader verdict = doc.at("verdict");
-    change.verdict.outcome = parse_name<policy::Outcome>(
+// The verdict part of a check report.
+policy::Verdict read_verdict(const Reader& verdict) {
+    policy::Verdict verdict_read;
+    verdict_read.outcome = parse_name<policy::Outcome>(
         verdict.at("outcome"), {{"pass", policy::Outcome::pass},
                                 {"blocked", policy::Outcome::blocked},
                                 {"would-block", policy::Outcome::would_block}});
     if (verdict.node().contains("enforcement") && verdict.at("enforcement").text() == "advisory") {
-        change.verdict.enforcement = policy::Enforcement::advisory;
+        verdict_read.enforcement = policy::Enforcement::advisory;
     }
-    change.verdict.policy_origin = verdict.at("policy").text();
-    change.verdict.policy_change_summary = verdict.at("policy_change").text();
-    change.verdict.policy_changes = verdict.at("policy_differences").texts();
+    verdict_read.policy_origin = verdict.at("policy").text();
+    verdict_read.policy_change_summary = verdict.at("policy_change").text();
+    verdict_read.policy_changes = verdict.at("policy_differences").texts();
     const Reader findings = verdict.at("findings");
     for (std::size_t i = 0; i < findings.size(); ++i) {
-        change.verdict.findings.push_back(read_finding(findings.at(i)));
-        if (change.verdict.enforcement == policy::Enforcement::advisory) {
-            change.verdict.findings.back().advisory = true;
+        verdict_read.findings.push_back(read_finding(findings.at(i)));
+        if (verdict_read.enforcement == policy::Enforcement::advisory) {
+            verdict_read.findings.back().advisory = true;
         }
     }
-    change.verdict.notes = verdict.at("notes").texts();
-    change.verdict.exemptions = read_exemptions(verdict);
+    verdict_read.notes = verdict.at("notes").texts();
+    verdict_read.exemptions = read_exemptions(verdict);
+    return verdict_read;
+}
+
+CheckedChange read_document(const Reader& doc) {
+    using delta::DeltaLabel;
+    CheckedChange change;
+    change.verdict = read_verdict(doc.at("verdict"));
 
     delta::ChangeReport& report = change.report;
     report.convention = doc.at("convention").text();

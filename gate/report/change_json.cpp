@@ -61,6 +61,23 @@ json exemption_json(const policy::Finding& f) {
         {"where", f.exemption_where}};
 }
 
+json exemptions_json(const policy::Verdict& verdict) {
+    json exemptions = json::array();
+    for (const auto& e : verdict.exemptions) {
+        exemptions.push_back(
+            {{"source", e.source == policy::ExemptionSource::trailer ? "trailer" : "comment"},
+             {"where", e.where},
+             {"function", e.function},
+             {"file", e.path},
+             {"line", e.start_line},
+             {"rules", e.rules},
+             {"reason", e.reason},
+             {"state", policy::exemption_state_name(e.state)},
+             {"findings", e.findings}});
+    }
+    return exemptions;
+}
+
 json verdict_json(const policy::Verdict& verdict) {
     json findings = json::array();
     for (const auto& f : verdict.findings) {
@@ -82,23 +99,10 @@ json verdict_json(const policy::Verdict& verdict) {
                             {"exemption", exemption_json(f)},
                             {"message", f.message}});
     }
-    json exemptions = json::array();
-    for (const auto& e : verdict.exemptions) {
-        exemptions.push_back(
-            {{"source", e.source == policy::ExemptionSource::trailer ? "trailer" : "comment"},
-             {"where", e.where},
-             {"function", e.function},
-             {"file", e.path},
-             {"line", e.start_line},
-             {"rules", e.rules},
-             {"reason", e.reason},
-             {"state", policy::exemption_state_name(e.state)},
-             {"findings", e.findings}});
-    }
     return {{"outcome", policy::outcome_name(verdict.outcome)},
             {"enforcement",
              verdict.enforcement == policy::Enforcement::advisory ? "advisory" : "blocking"},
-            {"exemptions", exemptions},
+            {"exemptions", exemptions_json(verdict)},
             {"policy", verdict.policy_origin},
             {"policy_change", verdict.policy_change_summary},
             {"policy_differences", verdict.policy_changes},

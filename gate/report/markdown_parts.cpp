@@ -134,6 +134,18 @@ std::string entry(const FunctionFindings& group, const ChangeReport& report,
     return out;
 }
 
+// Exemptions a change claims for itself stand right under the verdict, accepted or not.
+std::string exemptions_quote(const policy::Verdict& verdict) {
+    std::string out;
+    for (const auto& exemption : verdict.exemptions) {
+        const bool accepted = exemption.state == policy::ExemptionState::accepted;
+        out += std::string(out.empty() ? "" : ">\n") + "> " +
+               (accepted ? k_warn_symbol : k_block_symbol) + " " +
+               data_text(exemption_line(exemption)) + "\n";
+    }
+    return out.empty() ? out : out + "\n";
+}
+
 std::string heading(const ChangeReport& report, const policy::Verdict& verdict,
                     const ReadingOrder& order) {
     const std::size_t blocking = policy::count_blocking(verdict);
@@ -190,18 +202,7 @@ std::string heading(const ChangeReport& report, const policy::Verdict& verdict,
     }
     out += " · policy " + data_text(verdict.policy_origin) + " · convention " +
            data_text(report.convention) + "\n\n";
-    // Exemptions a change claims for itself stand right under the verdict, accepted or not.
-    for (const auto& exemption : verdict.exemptions) {
-        out +=
-            std::string("> ") +
-            (exemption.state == policy::ExemptionState::accepted ? k_warn_symbol : k_block_symbol) +
-            " " + data_text(exemption_line(exemption)) + "\n>\n";
-    }
-    if (!verdict.exemptions.empty()) {
-        out.erase(out.size() - 2);
-        out += "\n";
-    }
-    return out;
+    return out + exemptions_quote(verdict);
 }
 
 std::string place_of(const delta::ChangeWarning& w) {

@@ -108,6 +108,20 @@ std::string exemption_line(const policy::ClaimedExemption& e) {
     return line;
 }
 
+// What the policy made of the exemption the change claims for `finding`, or nothing.
+static std::string exemption_suffix(const policy::Finding& finding) {
+    const std::string told = finding.exemption_reason + " (" + finding.exemption_where + ")";
+    switch (finding.exemption) {
+    case policy::ExemptionState::accepted:
+        return "; exemption accepted: " + told;
+    case policy::ExemptionState::refused:
+        return "; exemption refused by the base policy (change-exemptions: refuse): " + told;
+    case policy::ExemptionState::none:
+        return {};
+    }
+    return {};
+}
+
 std::string finding_detail(const policy::Finding& finding) {
     const std::string prefix =
         finding.function.empty() && finding.path.empty()
@@ -121,14 +135,7 @@ std::string finding_detail(const policy::Finding& finding) {
     if (finding.would_block()) {
         detail = "would block: " + detail;
     }
-    if (finding.exemption == policy::ExemptionState::accepted) {
-        detail += "; exemption accepted: " + finding.exemption_reason + " (" +
-                  finding.exemption_where + ")";
-    } else if (finding.exemption == policy::ExemptionState::refused) {
-        detail += "; exemption refused by the base policy (change-exemptions: refuse): " +
-                  finding.exemption_reason + " (" + finding.exemption_where + ")";
-    }
-    return detail;
+    return detail + exemption_suffix(finding);
 }
 
 std::string explain_command(const std::string& path, const std::string& function,
