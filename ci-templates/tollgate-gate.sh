@@ -4,12 +4,16 @@
 # a head, write the Markdown, SARIF and JSON reports, and exit with check's code (0 pass,
 # 1 blocked, 2 usage or policy error, 3 failure).
 #
-# Usage: tollgate-gate.sh [--base REV] [--head REV] [--out DIR] [-- EXTRA CHECK OPTIONS...]
+# Usage: tollgate-gate.sh [--base REV] [--head REV] [--out DIR] [--baseline FILE] [--advisory]
+#                         [-- EXTRA CHECK OPTIONS...]
 # Environment (each optional; an option given on the command line wins):
 #   TOLLGATE          the tollgate binary (default: "tollgate" on PATH)
 #   TOLLGATE_BASE     base revision (default: check's own, the merge base with the default branch)
 #   TOLLGATE_HEAD     head revision (default: HEAD)
 #   TOLLGATE_OUT      folder for the reports (default: tollgate-report)
+#   TOLLGATE_BASELINE the snapshot the pipeline keeps (default: baselines/snapshot.json when the
+#                     job restored one); passed with --baseline
+#   TOLLGATE_ADVISORY "yes": report what would block and pass (start here, then drop it)
 #   TOLLGATE_FETCH    "no" to never fetch (default: unshallow a shallow clone, fetch a missing base)
 # Copy it into the repository (or call it from /usr/share/tollgate/ci-templates) from any job.
 set -uo pipefail
@@ -19,10 +23,12 @@ base=${TOLLGATE_BASE:-}
 head=${TOLLGATE_HEAD:-HEAD}
 out=${TOLLGATE_OUT:-tollgate-report}
 fetch=${TOLLGATE_FETCH:-yes}
+baseline=${TOLLGATE_BASELINE:-}
+advisory=${TOLLGATE_ADVISORY:-no}
 extra=()
 
 usage() {
-    sed -n '3,14p' "$0" | sed 's/^# \{0,1\}//' >&2
+    sed -n '3,18p' "$0" | sed 's/^# \{0,1\}//' >&2
     exit "$1"
 }
 
@@ -31,6 +37,8 @@ while [ $# -gt 0 ]; do
     --base) [ $# -ge 2 ] || usage 2; base=$2; shift 2 ;;
     --head) [ $# -ge 2 ] || usage 2; head=$2; shift 2 ;;
     --out) [ $# -ge 2 ] || usage 2; out=$2; shift 2 ;;
+    --baseline) [ $# -ge 2 ] || usage 2; baseline=$2; shift 2 ;;
+    --advisory) advisory=yes; shift ;;
     --) shift; extra=("$@"); break ;;
     -h | --help) usage 0 ;;
     *) echo "tollgate-gate: error: unknown option \"$1\" (see --help)" >&2; exit 2 ;;
@@ -80,6 +88,17 @@ args=(check "--head=$head"
     --report text:-)
 if [ -n "$base" ]; then
     args+=("--base=$base")
+fi
+# The snapshot the default branch's job wrote and this job restored (check refuses one the
+# change itself added or changed, and notes when it is of another commit than the base).
+if [ -z "$baseline" ] && [ -f baselines/snapshot.json ]; then
+    baseline=baselines/snapshot.json
+fi
+if [ -n "$baseline" ]; then
+    args+=("--baseline=$baseline")
+fi
+if [ "$advisory" = yes ]; then
+    args+=(--advisory)
 fi
 "$tollgate" "${args[@]}" "${extra[@]}"
 code=$?

@@ -182,6 +182,54 @@ delta::Totals read_totals(const Reader& r) {
     return t;
 }
 
+policy::ExemptionSource read_source(const Reader& r) {
+    return parse_name<policy::ExemptionSource>(r, {{"trailer", policy::ExemptionSource::trailer},
+                                                   {"comment", policy::ExemptionSource::comment}});
+}
+
+policy::ExemptionState read_state(const Reader& r) {
+    return parse_name<policy::ExemptionState>(r, {{"accepted", policy::ExemptionState::accepted},
+                                                  {"refused", policy::ExemptionState::refused}});
+}
+
+// Fields added to the schema later: advisory runs and exemptions.
+void read_rollout_fields(const Reader& r, policy::Finding& f) {
+    if (r.node().contains("would_block")) {
+        f.advisory = r.at("would_block").flag();
+    }
+    if (r.node().contains("exemption") && !r.node()["exemption"].is_null()) {
+        const Reader e = r.at("exemption");
+        f.exemption = read_state(e.at("state"));
+        f.exemption_source = read_source(e.at("source"));
+        f.exemption_reason = e.at("reason").text_or_empty();
+        f.exemption_where = e.at("where").text_or_empty();
+    }
+}
+
+// The exemptions a change claimed (added to the schema later: none when absent).
+std::vector<policy::ClaimedExemption> read_exemptions(const Reader& verdict) {
+    std::vector<policy::ClaimedExemption> claims;
+    if (!verdict.node().contains("exemptions")) {
+        return claims;
+    }
+    const Reader exemptions = verdict.at("exemptions");
+    for (std::size_t i = 0; i < exemptions.size(); ++i) {
+        const Reader e = exemptions.at(i);
+        policy::ClaimedExemption claim;
+        claim.source = read_source(e.at("source"));
+        claim.where = e.at("where").text();
+        claim.function = e.at("function").text();
+        claim.path = e.at("file").text();
+        claim.start_line = e.at("line").count();
+        claim.rules = e.at("rules").texts();
+        claim.reason = e.at("reason").text();
+        claim.state = read_state(e.at("state"));
+        claim.findings = e.at("findings").count();
+        claims.push_back(std::move(claim));
+    }
+    return claims;
+}
+
 policy::Finding read_finding(const Reader& r) {
     using policy::Level;
     using policy::RuleKind;
@@ -208,26 +256,41 @@ policy::Finding read_finding(const Reader& r) {
     f.limit = r.at("limit").number();
     f.excess = r.at("excess").number();
     f.percent = r.at("percent").flag();
-    f.grandfathered = r.at("grandfathered").flag();
+    f.tolerated = r.at("tolerated").flag();
+    read_rollout_fields(r, f);
     f.message = r.at("message").text();
     return f;
+}
+
+// The verdict part of a check report.
+policy::Verdict read_verdict(const Reader& verdict) {
+    policy::Verdict verdict_read;
+    verdict_read.outcome = parse_name<policy::Outcome>(
+        verdict.at("outcome"), {{"pass", policy::Outcome::pass},
+                                {"blocked", policy::Outcome::blocked},
+                                {"would-block", policy::Outcome::would_block}});
+    if (verdict.node().contains("enforcement") && verdict.at("enforcement").text() == "advisory") {
+        verdict_read.enforcement = policy::Enforcement::advisory;
+    }
+    verdict_read.policy_origin = verdict.at("policy").text();
+    verdict_read.policy_change_summary = verdict.at("policy_change").text();
+    verdict_read.policy_changes = verdict.at("policy_differences").texts();
+    const Reader findings = verdict.at("findings");
+    for (std::size_t i = 0; i < findings.size(); ++i) {
+        verdict_read.findings.push_back(read_finding(findings.at(i)));
+        if (verdict_read.enforcement == policy::Enforcement::advisory) {
+            verdict_read.findings.back().advisory = true;
+        }
+    }
+    verdict_read.notes = verdict.at("notes").texts();
+    verdict_read.exemptions = read_exemptions(verdict);
+    return verdict_read;
 }
 
 CheckedChange read_document(const Reader& doc) {
     using delta::DeltaLabel;
     CheckedChange change;
-    const Reader verdict = doc.at("verdict");
-    change.verdict.outcome =
-        parse_name<policy::Outcome>(verdict.at("outcome"), {{"pass", policy::Outcome::pass},
-                                                            {"blocked", policy::Outcome::blocked}});
-    change.verdict.policy_origin = verdict.at("policy").text();
-    change.verdict.policy_change_summary = verdict.at("policy_change").text();
-    change.verdict.policy_changes = verdict.at("policy_differences").texts();
-    const Reader findings = verdict.at("findings");
-    for (std::size_t i = 0; i < findings.size(); ++i) {
-        change.verdict.findings.push_back(read_finding(findings.at(i)));
-    }
-    change.verdict.notes = verdict.at("notes").texts();
+    change.verdict = read_verdict(doc.at("verdict"));
 
     delta::ChangeReport& report = change.report;
     report.convention = doc.at("convention").text();

@@ -146,7 +146,7 @@ WhatIf what_if(const Replay& replay, const policy::Policy& policy,
         judgement.outcome = verdict.outcome;
         std::set<std::string> seen;
         for (const auto& finding : verdict.findings) {
-            if (finding.level == policy::Level::warning || finding.grandfathered) {
+            if (finding.level == policy::Level::warning || finding.tolerated) {
                 ++judgement.warnings;
             }
             seen.insert(finding.rule_id);

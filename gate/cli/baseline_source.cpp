@@ -99,7 +99,7 @@ std::map<std::string, core::Measures> baseline_by_identity(const baseline::Snaps
 
 // A snapshot counted under another convention or Stroud number is stale, not wrong: a tool
 // upgrade must not stop every pipeline. It is not used (the base is parsed, nothing is
-// grandfathered) and the warning says how to rebuild it.
+// tolerated) and the warning says how to rebuild it.
 void drop_if_stale(TrustedBaseline& trusted, const baseline::SnapshotExpectations& expectations,
                    const std::string& rebuild_path) {
     const baseline::Snapshot& snapshot = *trusted.snapshot;
@@ -176,14 +176,14 @@ SnapshotUse decide_snapshot_use(const TrustedBaseline& trusted, const walker::Re
     }
     const baseline::Snapshot& snapshot = *trusted.snapshot;
     if (snapshot.commit != range.base.hex) {
-        use.grandfathers = true;
+        use.tolerates = true;
         use.notes.push_back("the baseline snapshot " + trusted.label + " is of commit " +
                             snapshot.commit.substr(0, 7) + ", not the base " +
                             range.base.short_hex() + ": the base was parsed");
         return use;
     }
     if (check.disagreements.empty()) {
-        use.grandfathers = true;
+        use.tolerates = true;
         use.notes.push_back("the baseline snapshot " + trusted.label + " is of the base " +
                             range.base.short_hex() +
                             " and agrees with the parsed base on every touched function (" +
@@ -194,7 +194,7 @@ SnapshotUse decide_snapshot_use(const TrustedBaseline& trusted, const walker::Re
                   range.base.short_hex() + " on " + std::to_string(check.disagreements.size()) +
                   " of " + std::to_string(check.functions) +
                   " touched functions and is not used, neither for the base nor for "
-                  "grandfathering: " +
+                  "tolerating existing findings: " +
                   check.first_disagreement() + " (rebuild it: tollgate snapshot --rev " +
                   range.base.short_hex() + " --out " + trusted.rebuild_path + ")";
     use.notes.push_back(use.warning);
@@ -222,7 +222,7 @@ void CheckBaseline::apply(const walker::ResolvedRange& range, delta::ChangeRepor
     if (!use.warning.empty()) {
         std::fprintf(stderr, "tollgate: warning: %s\n", use.warning.c_str());
     }
-    if (!use.grandfathers) {
+    if (!use.tolerates) {
         return;
     }
     m_recorded = baseline_by_identity(*m_trusted.snapshot);

@@ -44,14 +44,14 @@ TrustedBaseline load_trusted_baseline(const std::string& given, const policy::Po
 
 // How a check uses its trusted snapshot once the base is parsed.
 struct SnapshotUse {
-    bool grandfathers = false;      // its measures may grandfather ceiling findings
+    bool tolerates = false;         // its measures may tolerate existing ceiling findings
     std::vector<std::string> notes; // sentences for every report
     std::string warning;            // the disagreement, for stderr; empty when none
 };
 
 // Decide how `trusted` is used against `range` after `check` compared it with the parsed base:
-// a snapshot of another commit only grandfathers (a note says the base was parsed); one of the
-// base that agrees grandfathers too; one that disagrees is not used at all, and the note and
+// a snapshot of another commit only tolerates (a note says the base was parsed); one of the
+// base that agrees tolerates too; one that disagrees is not used at all, and the note and
 // the warning name the first function, both values and the command that rebuilds it.
 SnapshotUse decide_snapshot_use(const TrustedBaseline& trusted, const walker::ResolvedRange& range,
                                 const delta::SnapshotCheck& check);
@@ -70,15 +70,15 @@ public:
     CheckBaseline& operator=(const CheckBaseline&) = delete;
 
     // Add the notes of the snapshot's use to `report`, print a disagreement on stderr as a
-    // warning, and give `options` the snapshot's measures for grandfathering when it may
-    // grandfather (see decide_snapshot_use). `options` then points into this object.
+    // warning, and give `options` the snapshot's measures for tolerating existing findings when
+    // it may (see decide_snapshot_use). `options` then points into this object.
     void apply(const walker::ResolvedRange& range, delta::ChangeReport& report,
                policy::JudgeOptions& options);
 
 private:
     TrustedBaseline m_trusted;
     delta::SnapshotCheck m_check;
-    std::map<std::string, core::Measures> m_recorded; // by identity, for grandfathering
+    std::map<std::string, core::Measures> m_recorded; // by identity, for tolerating
 };
 
 } // namespace tollgate

@@ -10,24 +10,30 @@
 #include "gate/cli/run_cli.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/cli/sources.hpp"
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/progress.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/delta/measure_change.hpp"
 #include "gate/java/java_front_end.hpp"
 #include "gate/policy/calendar_date.hpp"
+#include "gate/policy/exemptions.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/walker/change_set.hpp"
+#include "gate/walker/commit_messages.hpp"
 #include "gate/walker/repository.hpp"
 #include "gate/walker/revision_range.hpp"
 
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
+#include <map>
 #include <memory>
 #include <optional>
+#include <set>
 #include <spdlog/spdlog.h>
 #include <sstream>
+#include <tuple>
 
 namespace tollgate {
 
@@ -54,7 +60,59 @@ struct CheckOptions {
     std::string progress = "auto";    // --progress
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
     std::vector<std::string> include_dirs;                 // --include-dir
+    bool advisory = false;                                 // --advisory
 };
+
+// Read the exemptions the change carries: trailers of its own commits (base..head; for the
+// working tree, base..HEAD) and marked comments in the head's source of the functions with a
+// finding. All of it is the head's data: read, never obeyed (see apply_exemptions).
+policy::ExemptionClaims read_exemptions(const walker::Repository& repository,
+                                        const walker::ResolvedRange& range,
+                                        const policy::Verdict& verdict) {
+    policy::ExemptionClaims found;
+    std::optional<walker::ObjectId> head = range.head;
+    if (range.head_source == walker::HeadSource::worktree) {
+        try {
+            head = repository.resolve_commit("HEAD");
+        } catch (const UsageError&) {
+            head.reset(); // no commit yet: no trailers
+        }
+    }
+    if (head && *head != range.base) {
+        for (const auto& commit : walker::commit_messages(repository, range.base, *head, 200)) {
+            policy::read_exemption_trailers(commit.message, commit.commit.short_hex(), found);
+        }
+    }
+    std::map<std::string, std::optional<std::string>> sources; // head text by path
+    std::set<std::tuple<std::string, unsigned, std::string>> seen;
+    for (const auto& finding : verdict.findings) {
+        if (finding.path.empty() || finding.start_line == 0 ||
+            !seen.emplace(finding.path, finding.start_line, finding.function).second) {
+            continue;
+        }
+        auto it = sources.find(finding.path);
+        if (it == sources.end()) {
+            std::optional<std::string> text;
+            if (range.head_source == walker::HeadSource::commit) {
+                if (auto file = repository.read_file(range.head, finding.path)) {
+                    text = std::move(file->content);
+                }
+            } else if (!repository.is_bare()) {
+                DiskFile file = read_regular_file(
+                    (std::filesystem::path(repository.workdir()) / finding.path).string());
+                if (file.entry == DiskEntry::regular) {
+                    text = std::move(file.content);
+                }
+            }
+            it = sources.emplace(finding.path, std::move(text)).first;
+        }
+        if (it->second) {
+            policy::read_exemption_comments(*it->second, finding.path, finding.function,
+                                            finding.start_line, finding.end_line, found);
+        }
+    }
+    return found;
+}
 
 // After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
 // policy's baseline.path in the working tree (the pipeline on the main branch keeps it from
@@ -62,7 +120,7 @@ struct CheckOptions {
 void update_baseline(const CheckOptions& options, const policy::Verdict& verdict,
                      const walker::ResolvedRange& range, const policy::Policy& judging,
                      const walker::Repository& repository) {
-    if (verdict.outcome != policy::Outcome::pass) {
+    if (verdict.outcome == policy::Outcome::blocked) {
         std::fprintf(stderr, "tollgate: the baseline was not updated: the change is blocked\n");
         return;
     }
@@ -96,14 +154,20 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
                  range.head.short_hex().c_str());
 }
 
-int run_check(const CheckOptions& options) {
-    apply_isolation_options(options.isolation);
-    const auto targets = parse_report_targets(options.reports);
-    const auto repository = walker::Repository::open(std::filesystem::current_path().string());
+// The exemptions a change carries, as the base policy allows, then advisory mode when the
+// policy or --advisory asks for it.
+void apply_rollout(policy::Verdict& verdict, const CheckOptions& options,
+                   const SelectedPolicy& selected, const walker::Repository& repository,
+                   const walker::ResolvedRange& range) {
+    policy::apply_exemptions(verdict, read_exemptions(repository, range, verdict),
+                             selected.change_exemptions);
+    if (options.advisory || selected.policy.enforcement == policy::Enforcement::advisory) {
+        policy::make_advisory(verdict);
+    }
+}
 
-    walker::ChangeOptions change_options;
-    change_options.rename_limit = options.rename_limit;
-    change_options.max_file_size = options.max_file_size;
+delta::MeasureChangeSettings measure_settings(const CheckOptions& options,
+                                              const walker::Repository& repository) {
     delta::MeasureChangeSettings settings;
     settings.measures.stroud = options.stroud;
     settings.jobs = options.jobs;
@@ -115,9 +179,24 @@ int run_check(const CheckOptions& options) {
                                            : lexer::DatabaseOrigin::given;
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
     settings.include_dirs = resolve_include_dirs(options.include_dirs, repository.workdir());
+    return settings;
+}
+
+int run_check(const CheckOptions& options) {
+    apply_isolation_options(options.isolation);
+    const auto targets = parse_report_targets(options.reports);
+    const auto repository = walker::Repository::open(std::filesystem::current_path().string());
+
+    walker::ChangeOptions change_options;
+    change_options.rename_limit = options.rename_limit;
+    change_options.max_file_size = options.max_file_size;
+    delta::MeasureChangeSettings settings = measure_settings(options, repository);
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
     const SelectedPolicy selected = select_policy(repository, range, options.policy_path);
+    if (!selected.worktree_hint.empty()) {
+        std::fprintf(stderr, "tollgate: %s\n", text::terminal_text(selected.worktree_hint).c_str());
+    }
     policy::JudgeOptions judge_options;
     judge_options.today = policy::current_date();
     judge_options.policy_origin = selected.origin;
@@ -140,6 +219,7 @@ int run_check(const CheckOptions& options) {
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
     verdict.policy_change_summary = selected.change_summary;
+    apply_rollout(verdict, options, selected, repository, range);
 
     report::RenderOptions render;
     render.link_template = options.link_template;
@@ -179,8 +259,11 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
     sub.add_option("--baseline", options->baseline_path,
                    "Baseline snapshot kept by the pipeline (default: the policy's baseline.path "
                    "as the base commit has it); functions already above a ceiling in it are "
-                   "grandfathered, and one of the base commit is checked against the parsed "
+                   "tolerated, and one of the base commit is checked against the parsed "
                    "base");
+    sub.add_flag("--advisory", options->advisory,
+                 "Run every rule without blocking: findings that would block are reported as "
+                 "\"would block\" and the exit code is 0 (as the policy's \"advisory: true\")");
     sub.add_flag("--update-baseline", options->update_baseline,
                  "After a passing run, write the head commit's snapshot to the baseline path");
     sub.add_option("--report", options->reports,

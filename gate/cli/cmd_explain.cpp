@@ -8,6 +8,7 @@
 #include "gate/common/errors.hpp"
 #include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
+#include "gate/report/explain_change.hpp"
 #include "tollgate/core/convention.hpp"
 
 #include <algorithm>
@@ -27,6 +28,8 @@ struct ExplainOptions {
     double stroud = 18.0;                                  // Stroud number
     IsolationOptions isolation;                            // --parse-timeout, --parse-memory
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    std::string base;   // --base REV: compare with the function at this revision
+    std::string change; // --change BASE..HEAD: compare the function at both revisions
 };
 
 // Return true when `name` is `wanted` or ends with "::" + `wanted` (C++) or "." + `wanted`
@@ -167,23 +170,102 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
                                  wanted, matches.size(), path, candidates));
 }
 
-int run_explain(const ExplainOptions& options) {
-    apply_isolation_options(options.isolation);
-    const auto colon = options.target.rfind(':');
-    if (colon == std::string::npos || colon == 0 || colon + 1 == options.target.size()) {
-        throw UsageError("expected PATH:FUNCTION, got \"" + options.target +
+// The base side of a comparison: the function of `path` at `revision` that `head` is, found by
+// its qualified name and signature, else by its name when that is unique; none when the file or
+// the function is not there.
+std::optional<report::MeasuredFunction>
+find_base(const ExplainOptions& options, const std::string& revision, const std::string& path,
+          const lexer::FunctionSpan& head, std::string& how, std::string& label) {
+    SourceOptions sources = options.sources;
+    sources.revision = revision;
+    sources.paths = {path};
+    SourceRequest request = to_request(sources);
+    request.allow_missing = true;
+    const LoadedSources loaded = load_sources(request);
+    label = loaded.label;
+    if (loaded.selected.size() != 1) {
+        return std::nullopt;
+    }
+    const auto files = lexer::lex_files(loaded.selected, loaded.context, 1);
+    const lexer::FunctionSpan* found = nullptr;
+    std::vector<const lexer::FunctionSpan*> named;
+    for (const auto& span : files.front().functions) {
+        if (span.qualified_name != head.qualified_name) {
+            continue;
+        }
+        named.push_back(&span);
+        if (span.signature == head.signature && found == nullptr) {
+            found = &span;
+        }
+    }
+    if (found != nullptr) {
+        how = "same name and signature";
+    } else if (named.size() == 1) {
+        found = named.front();
+        how = "same name, signature was (" + found->signature + ")";
+    } else {
+        return std::nullopt;
+    }
+    core::MeasureSettings settings;
+    settings.stroud = options.stroud;
+    return measure_span(*found, settings);
+}
+
+// Split --change BASE..HEAD into the base revision and `adjusted`'s head revision.
+std::string split_change(const ExplainOptions& options, ExplainOptions& adjusted) {
+    const std::string& change = options.change;
+    const auto dots = change.find("..");
+    if (dots == std::string::npos || dots == 0 || dots + 2 >= change.size() ||
+        change.find("..", dots + 2) != std::string::npos || change[dots + 2] == '.') {
+        throw UsageError("--change expects BASE..HEAD, got \"" + change +
+                         "\" (for example \"main..HEAD\")");
+    }
+    if (!options.sources.revision.empty() || !options.base.empty()) {
+        throw UsageError("--change names both revisions: leave out --rev and --base");
+    }
+    adjusted.sources.revision = change.substr(dots + 2);
+    return change.substr(0, dots);
+}
+
+// Split PATH:FUNCTION (or PATH:LINE) into its path and the function wanted.
+std::pair<std::string, std::string> split_target(const std::string& target) {
+    const auto colon = target.rfind(':');
+    if (colon == std::string::npos || colon == 0 || colon + 1 == target.size()) {
+        throw UsageError("expected PATH:FUNCTION, got \"" + target +
                          "\" (for example \"src/filter.cpp:Kalman::update\")");
     }
     // A qualified name holds "::"; split at the first single colon after the path instead.
-    std::size_t split = options.target.find(':');
-    while (split != std::string::npos && split + 1 < options.target.size() &&
-           options.target[split + 1] == ':') {
-        split = options.target.find(':', split + 2);
+    std::size_t split = target.find(':');
+    while (split != std::string::npos && split + 1 < target.size() && target[split + 1] == ':') {
+        split = target.find(':', split + 2);
     }
-    const std::string path = options.target.substr(0, split);
-    const std::string wanted = options.target.substr(split + 1);
+    return {target.substr(0, split), target.substr(split + 1)};
+}
 
+// Write the two sides of `head` (measured as `measured`) compared, as text or JSON.
+void write_comparison(const ExplainOptions& options, const ExplainOptions& adjusted,
+                      const std::string& base_revision, const std::string& path,
+                      const lexer::FunctionSpan& head, const report::MeasuredFunction& measured,
+                      const LoadedSources& loaded) {
+    report::FunctionComparison comparison;
+    comparison.head = measured;
+    comparison.head_label = loaded.label;
+    comparison.convention = java::build_fingerprint(loaded.context.convention);
+    comparison.base = find_base(adjusted, base_revision, path, head, comparison.base_match,
+                                comparison.base_label);
+    if (options.format == "json") {
+        report::write_explain_change_json(std::cout, comparison);
+    } else {
+        report::write_explain_change_text(std::cout, comparison);
+    }
+}
+
+int run_explain(const ExplainOptions& options) {
+    apply_isolation_options(options.isolation);
     ExplainOptions adjusted = options;
+    const std::string base_revision =
+        options.change.empty() ? options.base : split_change(options, adjusted);
+    const auto [path, wanted] = split_target(options.target);
     adjusted.sources.paths = {path};
     SourceRequest request = to_request(adjusted.sources);
     request.max_file_size = options.max_file_size;
@@ -206,6 +288,10 @@ int run_explain(const ExplainOptions& options) {
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);
     const std::string convention = java::build_fingerprint(loaded.context.convention);
+    if (!base_revision.empty()) {
+        write_comparison(options, adjusted, base_revision, path, span, measured, loaded);
+        return 0;
+    }
     if (options.format == "json") {
         report::write_explain_json(std::cout, measured, loaded.label, convention);
     } else {
@@ -226,6 +312,14 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
                    "PATH:FUNCTION (a name, a qualified name, NAME(SIGNATURE)) or PATH:LINE")
         ->required();
     add_source_options(sub, options->sources, "");
+    auto* base = sub.add_option("--base", options->base,
+                                "Compare with the same function at this revision: both sides' "
+                                "operators and operands side by side, and the difference per "
+                                "token (the head is --rev, else the working tree)");
+    sub.add_option("--change", options->change,
+                   "BASE..HEAD: compare the function at two revisions (what a check's finding "
+                   "tells you to run)")
+        ->excludes(base);
     sub.add_option("--format", options->format, "Output format")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
@@ -235,7 +329,9 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.footer("Examples:\n"
                "  tollgate explain src/filter.cpp:Kalman::update\n"
                "  tollgate explain src/crc.c:crc16 --rev HEAD~1\n"
-               "  tollgate explain src/ring.cpp:42           the function holding line 42");
+               "  tollgate explain src/ring.cpp:42           the function holding line 42\n"
+               "  tollgate explain --change main..HEAD src/filter.cpp:Kalman::update\n"
+               "                                             what grew, token by token");
     sub.callback([options, &selected] { selected = [options] { return run_explain(*options); }; });
 }
 

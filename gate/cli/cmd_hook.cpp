@@ -9,6 +9,7 @@
 #include "gate/hook/process.hpp"
 #include "gate/walker/repository.hpp"
 
+#include <cstdlib>
 #include <filesystem>
 #include <iostream>
 #include <iterator>
@@ -28,6 +29,8 @@ struct HookOptions {
     std::string policy_path;    // run --policy
     unsigned jobs = 0;          // run --jobs
     IsolationOptions isolation; // run --parse-timeout, --parse-memory
+    bool warn_only = false;     // run --warn-only
+    bool tags = false;          // run --tags
 };
 
 // Open the repository around the current folder, for its errors: none outside a repository
@@ -35,6 +38,11 @@ struct HookOptions {
 void require_repository() {
     walker::Repository::open(std::filesystem::current_path().string());
 }
+
+// How to let one push through, or only be warned: said whenever the hook stops a push.
+constexpr const char* k_bypass_hint =
+    "bypass the hook once with \"git push --no-verify\" or \"TOLLGATE_HOOK=off git push\"; "
+    "\"TOLLGATE_HOOK=warn git push\" judges without blocking";
 
 int run_install(const HookOptions& options) {
     require_repository();
@@ -58,9 +66,12 @@ int run_uninstall() {
 
 // Judge one planned ref with `tollgate check` run as a child of this very binary, so the hook
 // and the pipeline gate with the same code; return check's exit code. Its table goes to stderr.
-int check_ref(const hook::RefPlan& plan, const HookOptions& options) {
+int check_ref(const hook::RefPlan& plan, const HookOptions& options, hook::HookMode mode) {
     std::vector<std::string> argv = {
         hook::self_executable(), "check", "--base", plan.base, "--head", plan.head};
+    if (mode == hook::HookMode::warn) {
+        argv.emplace_back("--advisory");
+    }
     if (!options.policy_path.empty()) {
         argv.insert(argv.end(), {"--policy", options.policy_path});
     }
@@ -71,16 +82,37 @@ int check_ref(const hook::RefPlan& plan, const HookOptions& options) {
     return hook::run_process(argv, hook::Output::to_stderr).exit_code;
 }
 
+// The mode of this run: TOLLGATE_HOOK, then --warn-only (off wins over both).
+hook::HookMode hook_mode(const HookOptions& options) {
+    const char* variable = std::getenv(hook::k_hook_mode_variable);
+    const hook::HookMode mode = hook::parse_hook_mode(variable == nullptr ? "" : variable);
+    if (mode == hook::HookMode::judge && options.warn_only) {
+        return hook::HookMode::warn;
+    }
+    return mode;
+}
+
 int run_pre_push(const HookOptions& options) {
     const std::string input{std::istreambuf_iterator<char>(std::cin),
                             std::istreambuf_iterator<char>()};
     const auto refs = hook::parse_pushed_refs(input);
+    const hook::HookMode mode = hook_mode(options);
+    if (mode == hook::HookMode::off) {
+        std::cerr << "tollgate: " << hook::k_hook_mode_variable
+                  << "=off: this push is not judged\n";
+        return static_cast<int>(ExitCode::pass);
+    }
     int worst = static_cast<int>(ExitCode::pass);
     // Ref and remote names come from git's input and arguments: made visible on the terminal.
     using text::terminal_text;
     for (const hook::PushedRef& ref : refs) {
-        const hook::RefPlan plan = hook::plan_ref(ref, options.remote);
         const std::string ref_name = terminal_text(ref.remote_ref);
+        if (!options.tags && hook::is_tag_push(ref)) {
+            std::cerr << "tollgate: " << ref_name
+                      << ": nothing to judge (a tag push; \"hook run --tags\" judges tags too)\n";
+            continue;
+        }
+        const hook::RefPlan plan = hook::plan_ref(ref, options.remote);
         if (plan.action == hook::RefAction::skip) {
             std::cerr << "tollgate: " << ref_name << ": nothing to judge ("
                       << terminal_text(plan.reason) << ")\n";
@@ -90,21 +122,22 @@ int run_pre_push(const HookOptions& options) {
                   << terminal_text(plan.base.substr(0, 7)) << ".."
                   << terminal_text(plan.head.substr(0, 7))
                   << " (base: " << terminal_text(plan.reason) << ")\n";
-        const int code = check_ref(plan, options);
+        const int code = check_ref(plan, options, mode);
         if (code == static_cast<int>(ExitCode::blocked)) {
             std::cerr << "tollgate: the policy blocks the push of " << ref_name << " to \""
                       << terminal_text(options.remote) << "\"\n";
         } else if (code != static_cast<int>(ExitCode::pass)) {
             std::cerr << "tollgate: " << ref_name << " could not be judged (exit " << code << ")\n";
         }
-        // Errors (2, 3) outrank a block (1): nothing was judged there.
-        if (code > worst) {
+        // Errors (2, 3) outrank a block (1): nothing was judged there. Warn-only never stops.
+        if (mode != hook::HookMode::warn && code > worst) {
             worst = code;
         }
     }
     if (worst != static_cast<int>(ExitCode::pass)) {
-        std::cerr << "tollgate: push stopped (bypass the hook once with \"git push "
-                     "--no-verify\")\n";
+        std::cerr << "tollgate: push stopped (" << k_bypass_hint << ")\n";
+    } else if (mode == hook::HookMode::warn) {
+        std::cerr << "tollgate: warn-only: the push goes ahead whatever the findings\n";
     }
     return worst;
 }
@@ -145,13 +178,20 @@ void attach_hook(CLI::App& sub, const GlobalOptions& /*global*/, std::function<i
     run->description("Read git's pre-push input (LOCAL-REF LOCAL-SHA REMOTE-REF REMOTE-SHA per "
                      "line) and judge each pushed ref with \"tollgate check\": an update from "
                      "the remote's commit, a new branch from its merge base with the remote's "
-                     "default branch; deleted refs are skipped. Exit 1 when the policy blocks a "
-                     "ref.");
+                     "default branch; deleted refs and tags (unless --tags) are skipped. Exit 1 "
+                     "when the policy blocks a ref. TOLLGATE_HOOK=off lets one push through "
+                     "unjudged, TOLLGATE_HOOK=warn judges it without blocking.");
     run->add_option("remote", options->remote, "Name of the remote (git's first argument)")
         ->required();
     run->add_option("url", options->url, "URL of the remote (git's second argument)");
     run->add_option("--policy", options->policy_path,
                     "Policy file (default: .tollgate.yaml of each base commit)");
+    run->add_flag("--warn-only", options->warn_only,
+                  "Judge every pushed ref without blocking: findings that would block are "
+                  "reported and the push goes ahead (as TOLLGATE_HOOK=warn)");
+    run->add_flag("--tags", options->tags,
+                  "Judge tag pushes too (by default a pushed tag is skipped: it names a commit "
+                  "that was judged when its branch was pushed)");
     add_jobs_option(*run, options->jobs);
     add_isolation_options(*run, options->isolation);
     run->callback(
@@ -161,7 +201,9 @@ void attach_hook(CLI::App& sub, const GlobalOptions& /*global*/, std::function<i
                "  tollgate hook install            write .git/hooks/pre-push\n"
                "  tollgate hook install --chain    keep the current hook and call it first\n"
                "  tollgate hook uninstall          remove it, restoring a chained hook\n"
-               "  git push --no-verify             push once without the hook");
+               "  git push --no-verify             push once without the hook\n"
+               "  TOLLGATE_HOOK=off git push       the same, by tollgate's own variable\n"
+               "  TOLLGATE_HOOK=warn git push      judge the push, never stop it");
 }
 
 } // namespace tollgate

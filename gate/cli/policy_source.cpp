@@ -2,6 +2,7 @@
 // Reading the judging policy from the user's path, the base tree or the head.
 #include "gate/cli/policy_source.hpp"
 
+#include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
 
 #include <filesystem>
@@ -41,6 +42,32 @@ SidePolicy read_head_policy(const walker::Repository& repository,
     return side;
 }
 
+// A policy being drafted in the working tree is not what judges a commit range: say how to try
+// it, once, when it differs from the base's.
+std::string worktree_policy_hint(const walker::Repository& repository,
+                                 const walker::ResolvedRange& range,
+                                 const std::optional<std::string>& base_text,
+                                 bool judge_with_head) {
+    if (repository.is_bare() ||
+        (range.head_source == walker::HeadSource::worktree && judge_with_head)) {
+        return {};
+    }
+    const DiskFile draft = read_regular_file(
+        (std::filesystem::path(repository.workdir()) / policy::k_default_policy_path).string());
+    if (draft.entry != DiskEntry::regular || (base_text && *base_text == draft.content)) {
+        return {};
+    }
+    if (range.head_source == walker::HeadSource::commit) {
+        const auto head = repository.read_file(range.head, policy::k_default_policy_path);
+        if (head && head->content == draft.content) {
+            return {}; // committed: the report's policy-change block covers it
+        }
+    }
+    return std::string("the working tree's ") + policy::k_default_policy_path +
+           " differs from the base's and does not judge this change (try it with \"--policy " +
+           policy::k_default_policy_path + "\")";
+}
+
 } // namespace
 
 SelectedPolicy select_policy(const walker::Repository& repository,
@@ -49,6 +76,7 @@ SelectedPolicy select_policy(const walker::Repository& repository,
     if (!given.empty()) {
         selected.policy = policy::load_policy_file(given);
         selected.origin = given;
+        selected.change_exemptions = selected.policy.change_exemptions;
         return selected;
     }
     SidePolicy base;
@@ -65,6 +93,8 @@ SelectedPolicy select_policy(const walker::Repository& repository,
             ? base.origin
             : "built-in default (no " + std::string(policy::k_default_policy_path) + " at base)";
     const bool judge_with_head = base_policy.judge_with == policy::JudgeWith::head;
+    selected.change_exemptions = base_policy.change_exemptions;
+    selected.worktree_hint = worktree_policy_hint(repository, range, base.text, judge_with_head);
 
     if (base.text == head.text) {
         selected.policy = base_policy;

@@ -83,7 +83,7 @@ bool selects(const std::string& wanted, const std::string& path) {
 std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
                                      std::vector<OversizedFile>& oversized,
                                      const std::vector<std::string>& relative_paths,
-                                     const std::vector<std::string>& as_given) {
+                                     const std::vector<std::string>& as_given, bool allow_missing) {
     if (relative_paths.empty()) {
         return all;
     }
@@ -104,7 +104,7 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
                 selected_oversized.push_back(file);
             }
         }
-        if (!found) {
+        if (!found && !allow_missing) {
             throw UsageError("no C, C++ or Java file at \"" + as_given[i] +
                              "\" (give a .c, .cc, .cpp, .cxx, .c++, header or .java file, or a "
                              "folder)");
@@ -243,7 +243,8 @@ LoadedSources load_sources(const SourceRequest& request) {
         }
         relative.push_back(rel);
     }
-    loaded.selected = select_files(all, loaded.oversized, relative, request.paths);
+    loaded.selected =
+        select_files(all, loaded.oversized, relative, request.paths, request.allow_missing);
 
     const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
     loaded.context =

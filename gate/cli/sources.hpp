@@ -24,6 +24,7 @@ struct SourceRequest {
     std::uint64_t max_file_size = k_default_max_file_size; // bytes; larger files are not read
     std::vector<std::string> include_dirs; // include folders for files without compile-database
                                            // flags (absolute, or relative to the current folder)
+    bool allow_missing = false; // a path with no source file selects nothing instead of failing
 };
 
 // The files to measure and the parse context they share.

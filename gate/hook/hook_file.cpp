@@ -70,7 +70,9 @@ std::string hook_script(const std::string& binary, bool chained) {
     std::string script = "#!/bin/sh\n";
     script += k_hook_marker;
     script += "\n# Gates each push on the team's Tollgate policy; \"tollgate hook uninstall\" "
-              "removes it.\n# Bypass it once with \"git push --no-verify\".\n";
+              "removes it.\n# Bypass it once with \"git push --no-verify\" or \"TOLLGATE_HOOK=off "
+              "git push\";\n"
+              "# \"TOLLGATE_HOOK=warn git push\" judges without blocking.\n";
     script += "tollgate=" + quote_for_sh(binary) + "\n";
     script += "if [ ! -x \"$tollgate\" ]; then tollgate=tollgate; fi\n";
     if (!chained) {

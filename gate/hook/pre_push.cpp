@@ -111,6 +111,25 @@ void check_object_ids(const PushedRef& ref, int number) {
 
 } // namespace
 
+bool is_tag_push(const PushedRef& ref) {
+    const std::string tags = "refs/tags/";
+    return ref.remote_ref.rfind(tags, 0) == 0 || ref.local_ref.rfind(tags, 0) == 0;
+}
+
+HookMode parse_hook_mode(const std::string& value) {
+    if (value.empty() || value == "judge") {
+        return HookMode::judge;
+    }
+    if (value == "warn") {
+        return HookMode::warn;
+    }
+    if (value == "off") {
+        return HookMode::off;
+    }
+    throw UsageError(std::string(k_hook_mode_variable) + " must be \"judge\", \"warn\" or " +
+                     "\"off\", not \"" + value + "\" (unset it to judge the push)");
+}
+
 bool is_null_sha(const std::string& sha) {
     return !sha.empty() && sha.find_first_not_of('0') == std::string::npos;
 }

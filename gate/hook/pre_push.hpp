@@ -28,6 +28,24 @@ std::vector<PushedRef> parse_pushed_refs(const std::string& text);
 // Return true when `sha` is an all-zero object id (git's "no such ref").
 bool is_null_sha(const std::string& sha);
 
+// Return true when `ref` pushes a tag (its remote or local ref is under refs/tags/).
+bool is_tag_push(const PushedRef& ref);
+
+// The variable a person sets to change one run of the hook: "off" lets the push through without
+// judging it, "warn" judges it without blocking, "judge" (or unset) judges and may block.
+inline constexpr const char* k_hook_mode_variable = "TOLLGATE_HOOK";
+
+// What one run of the hook does.
+enum class HookMode {
+    judge, // judge every pushed ref; a blocking finding stops the push
+    warn,  // judge every pushed ref in advisory mode: "would block", the push goes ahead
+    off,   // judge nothing: the push goes ahead (a bypass for this one push)
+};
+
+// Return the mode `value` of k_hook_mode_variable names (empty: judge). Throws UsageError naming
+// the values when `value` is none of them.
+HookMode parse_hook_mode(const std::string& value);
+
 // What the hook does with one pushed ref.
 enum class RefAction {
     check, // judge the commits from `base` to `head`

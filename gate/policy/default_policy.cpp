@@ -18,6 +18,13 @@ tollgate-policy: 1          # schema version of this file
 judge-with: base            # the base commit's policy judges a change, so a change cannot
                             # loosen its own gate (set "head" to let the change's policy apply)
 
+advisory: false             # true: every rule runs but nothing blocks; findings that would
+                            # block are reported as "would block" (a first week's setting)
+
+change-exemptions: refuse   # "accept": a change may exempt itself with a commit trailer
+                            # "Tollgate-Exemption: FUNCTION (RULES): REASON" or a source comment
+                            # "tollgate-exemption(RULES): REASON"; "refuse" reports it, no effect
+
 noise-floor:
   volume: 100               # functions whose base and head volume are both under 100 (about
                             # 20 tokens) are too small for the per-function rules

@@ -19,11 +19,11 @@ void emit_limit(YAML::Emitter& out, const char* key, const std::optional<double>
     }
 }
 
-void emit_limit(YAML::Emitter& out, const char* key, const LimitOverride& limit) {
+void emit_limit(YAML::Emitter& out, const char* key, const ScopedLimit& limit) {
     if (limit.setting == LimitSetting::set) {
         out << YAML::Key << key << YAML::Value << plain_number(limit.value);
     } else if (limit.setting == LimitSetting::remove) {
-        out << YAML::Key << key << YAML::Value << "off";
+        out << YAML::Key << key << YAML::Value << "none";
     }
 }
 
@@ -61,6 +61,10 @@ std::string describe_policy(const Policy& policy) {
     out << YAML::BeginMap;
     out << YAML::Key << "tollgate-policy" << YAML::Value << policy.schema_version;
     out << YAML::Key << "judge-with" << YAML::Value << judge_with_name(policy.judge_with);
+    out << YAML::Key << "advisory" << YAML::Value
+        << (policy.enforcement == Enforcement::advisory ? "true" : "false");
+    out << YAML::Key << "change-exemptions" << YAML::Value
+        << (policy.change_exemptions == ChangeExemptions::accept ? "accept" : "refuse");
 
     out << YAML::Key << "noise-floor" << YAML::Value;
     if (policy.noise_floor.empty()) {
@@ -96,28 +100,28 @@ std::string describe_policy(const Policy& policy) {
     out << YAML::Key << "paths" << YAML::Value << YAML::BeginMap;
     emit_globs(out, "include", policy.paths.include);
     emit_globs(out, "exclude", policy.paths.exclude);
-    out << YAML::Key << "overrides" << YAML::Value;
-    if (policy.paths.overrides.empty()) {
+    out << YAML::Key << "scopes" << YAML::Value;
+    if (policy.paths.scopes.empty()) {
         out << YAML::Flow;
     }
     out << YAML::BeginSeq;
-    for (const auto& path_override : policy.paths.overrides) {
+    for (const auto& scope : policy.paths.scopes) {
         out << YAML::BeginMap;
-        out << YAML::Key << "match" << YAML::Value << YAML::DoubleQuoted << path_override.match;
+        out << YAML::Key << "glob" << YAML::Value << YAML::DoubleQuoted << scope.glob;
         out << YAML::Key << "rules" << YAML::Value;
-        if (path_override.rules.empty()) {
+        if (scope.rules.empty()) {
             out << YAML::Flow;
         }
         out << YAML::BeginMap;
-        for (const auto& rule : path_override.rules) {
+        for (const auto& rule : scope.rules) {
             out << YAML::Key << rule.rule_id << YAML::Value;
             const bool changes = rule.level || rule.max_increase.setting != LimitSetting::keep ||
                                  rule.max_increase_percent.setting != LimitSetting::keep ||
                                  rule.ceiling.setting != LimitSetting::keep;
-            if (rule.state == RuleSwitch::off) {
-                out << "off";
+            if (rule.state == RuleSwitch::skip) {
+                out << "skip";
             } else if (!changes) {
-                out << "on";
+                out << "judge";
             } else {
                 out << YAML::Flow << YAML::BeginMap;
                 emit_limit(out, "max-increase", rule.max_increase);
@@ -157,8 +161,8 @@ std::string describe_policy(const Policy& policy) {
     if (!policy.baseline.path.empty()) {
         out << YAML::Key << "path" << YAML::Value << YAML::DoubleQuoted << policy.baseline.path;
     }
-    out << YAML::Key << "grandfather" << YAML::Value
-        << (policy.baseline.grandfather == Grandfathering::on ? "true" : "false");
+    out << YAML::Key << "tolerate-existing" << YAML::Value
+        << (policy.baseline.tolerate_existing == Tolerance::on ? "true" : "false");
     out << YAML::EndMap;
 
     out << YAML::Key << "inactive-code" << YAML::Value << inactive_code_name(policy.inactive_code);
@@ -178,7 +182,7 @@ std::string describe_policy(const Policy& policy) {
 
 namespace {
 
-// One setting of a policy, for comparison: a group (a rule, an override, a waiver, or the top
+// One setting of a policy, for comparison: a group (a rule, a scope, a waiver, or the top
 // level) and a field within it.
 struct Setting {
     std::string group; // e.g. `rules["effort-growth"]`; empty for top-level settings
@@ -198,8 +202,8 @@ std::string join(const std::vector<std::string>& words) {
     return text + "]";
 }
 
-std::string describe_limit(const LimitOverride& limit) {
-    return limit.setting == LimitSetting::remove ? "off" : plain_number(limit.value);
+std::string describe_limit(const ScopedLimit& limit) {
+    return limit.setting == LimitSetting::remove ? "none" : plain_number(limit.value);
 }
 
 std::vector<Setting> flatten(const Policy& policy) {
@@ -209,6 +213,9 @@ std::vector<Setting> flatten(const Policy& policy) {
     };
     add("", "tollgate-policy", std::to_string(policy.schema_version));
     add("", "judge-with", judge_with_name(policy.judge_with));
+    add("", "advisory", policy.enforcement == Enforcement::advisory ? "true" : "false");
+    add("", "change-exemptions",
+        policy.change_exemptions == ChangeExemptions::accept ? "accept" : "refuse");
     for (const auto& floor : policy.noise_floor) {
         add("", "noise-floor." + std::string(core::measure_name(floor.measure)),
             plain_number(floor.below));
@@ -216,8 +223,8 @@ std::vector<Setting> flatten(const Policy& policy) {
     add("", "paths.include", join(policy.paths.include));
     add("", "paths.exclude", join(policy.paths.exclude));
     add("", "baseline.path", policy.baseline.path.empty() ? "none" : quote(policy.baseline.path));
-    add("", "baseline.grandfather",
-        policy.baseline.grandfather == Grandfathering::on ? "true" : "false");
+    add("", "baseline.tolerate-existing",
+        policy.baseline.tolerate_existing == Tolerance::on ? "true" : "false");
     add("", "inactive-code", inactive_code_name(policy.inactive_code));
     add("", "unmeasured-lines",
         policy.unmeasured_lines.limit
@@ -242,17 +249,16 @@ std::vector<Setting> flatten(const Policy& policy) {
             add(group, "max-total-increase", plain_number(*rule.max_total_increase));
         }
     }
-    std::map<std::string, int> seen_matches;
-    for (std::size_t i = 0; i < policy.paths.overrides.size(); ++i) {
-        const auto& path_override = policy.paths.overrides[i];
-        const int repeat = ++seen_matches[path_override.match];
-        const std::string group = "paths.overrides[" + quote(path_override.match) +
+    std::map<std::string, int> seen_globs;
+    for (const auto& scope : policy.paths.scopes) {
+        const int repeat = ++seen_globs[scope.glob];
+        const std::string group = "paths.scopes[" + quote(scope.glob) +
                                   (repeat > 1 ? " #" + std::to_string(repeat) : "") + "]";
-        add(group, "match", quote(path_override.match));
-        for (const auto& rule : path_override.rules) {
+        add(group, "glob", quote(scope.glob));
+        for (const auto& rule : scope.rules) {
             std::string value;
-            if (rule.state == RuleSwitch::off) {
-                value = "off";
+            if (rule.state == RuleSwitch::skip) {
+                value = "skip";
             } else {
                 const auto part = [&value](const std::string& text) {
                     value += (value.empty() ? "" : ", ") + text;
@@ -269,7 +275,7 @@ std::vector<Setting> flatten(const Policy& policy) {
                 if (rule.level) {
                     part(std::string("level ") + level_name(*rule.level));
                 }
-                value = value.empty() ? "on" : "{" + value + "}";
+                value = value.empty() ? "judge" : "{" + value + "}";
             }
             add(group, rule.rule_id, value);
         }

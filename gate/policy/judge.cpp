@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// Judge a change against a policy: scopes, overrides, noise floor, rules, waivers, verdict.
+// Judge a change against a policy: paths and their scopes, noise floor, rules, waivers, verdict.
 #include "gate/policy/judge.hpp"
 
 #include "gate/policy/calendar_date.hpp"
@@ -82,13 +82,13 @@ std::string points_text(double excess) {
     return text + (text == "1" ? " point" : " points");
 }
 
-// The rule as it applies to one path, after the overrides that match it.
+// The rule as it applies to one path, after the scopes that match it.
 struct AppliedRule {
-    RuleSwitch state = RuleSwitch::on; // off: the rule does not apply here
-    Rule rule;                         // the effective limits and level
+    RuleSwitch state = RuleSwitch::judge; // skip: the rule does not apply here
+    Rule rule;                            // the effective limits and level
 };
 
-void apply_limit(std::optional<double>& limit, const LimitOverride& change) {
+void apply_limit(std::optional<double>& limit, const ScopedLimit& change) {
     if (change.setting == LimitSetting::set) {
         limit = change.value;
     } else if (change.setting == LimitSetting::remove) {
@@ -96,14 +96,14 @@ void apply_limit(std::optional<double>& limit, const LimitOverride& change) {
     }
 }
 
-AppliedRule apply_overrides(const Rule& rule, const std::string& path, const PathScope& paths) {
+AppliedRule apply_scopes(const Rule& rule, const std::string& path, const PathScope& paths) {
     AppliedRule applied;
     applied.rule = rule;
-    for (const auto& path_override : paths.overrides) {
-        if (!glob_match(path_override.match, path, GlobSubject::path)) {
+    for (const auto& scope : paths.scopes) {
+        if (!glob_match(scope.glob, path, GlobSubject::path)) {
             continue;
         }
-        for (const auto& change : path_override.rules) {
+        for (const auto& change : scope.rules) {
             if (change.rule_id != rule.id) {
                 continue;
             }
@@ -273,7 +273,7 @@ std::optional<Finding> judge_growth(const Rule& rule, const delta::FunctionDelta
 }
 
 std::optional<Finding> judge_ceiling(const Rule& rule, const delta::FunctionDelta& f,
-                                     const JudgeOptions& options, Grandfathering grandfather) {
+                                     const JudgeOptions& options, Tolerance tolerance) {
     if (!f.head || !rule.ceiling) {
         return std::nullopt;
     }
@@ -300,13 +300,13 @@ std::optional<Finding> judge_ceiling(const Rule& rule, const delta::FunctionDelt
         }
     }
     std::string extra;
-    if (grandfather == Grandfathering::on && options.baseline_lookup) {
+    if (tolerance == Tolerance::on && options.baseline_lookup) {
         if (const auto recorded = options.baseline_lookup(f.identity)) {
             const double before = core::measure_value(*recorded, rule.measure);
-            // Only a finite recorded value can grandfather: an infinite one would cover anything.
+            // Only a finite recorded value can be tolerated: an infinite one would cover anything.
             if (std::isfinite(before) && before > *rule.ceiling && value <= before) {
-                finding.grandfathered = true;
-                extra = ", grandfathered: the baseline has " + format_amount(before, Sign::as_is);
+                finding.tolerated = true;
+                extra = ", tolerated: the baseline has " + format_amount(before, Sign::as_is);
             }
         }
     }
@@ -434,8 +434,8 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
             if (!applies_to(base_rule.kind, f)) {
                 continue;
             }
-            AppliedRule applied = apply_overrides(base_rule, path, policy.paths);
-            if (applied.state == RuleSwitch::off) {
+            AppliedRule applied = apply_scopes(base_rule, path, policy.paths);
+            if (applied.state == RuleSwitch::skip) {
                 continue;
             }
             if (is_inactive(f) && policy.inactive_code == InactiveCode::warn) {
@@ -444,7 +444,7 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
             std::optional<Finding> finding =
                 base_rule.kind == RuleKind::growth
                     ? judge_growth(applied.rule, f)
-                    : judge_ceiling(applied.rule, f, options, policy.baseline.grandfather);
+                    : judge_ceiling(applied.rule, f, options, policy.baseline.tolerate_existing);
             if (!finding) {
                 continue;
             }
@@ -467,7 +467,7 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
         for (const auto& f : report.functions) {
             const std::string& path = f.shown_side().path;
             if (!in_scope(policy.paths, path) ||
-                apply_overrides(rule, path, policy.paths).state == RuleSwitch::off ||
+                apply_scopes(rule, path, policy.paths).state == RuleSwitch::skip ||
                 (is_inactive(f) && policy.inactive_code == InactiveCode::skip)) {
                 continue;
             }
@@ -504,7 +504,7 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
     std::stable_sort(
         verdict.findings.begin(), verdict.findings.end(), [](const Finding& a, const Finding& b) {
             const auto key = [](const Finding& x) {
-                return std::make_tuple(x.grandfathered ? 1 : 0, x.level == Level::blocking ? 0 : 1,
+                return std::make_tuple(x.tolerated ? 1 : 0, x.level == Level::blocking ? 0 : 1,
                                        x.path.empty() ? 1 : 0, std::cref(x.path), x.start_line,
                                        std::cref(x.function));
             };

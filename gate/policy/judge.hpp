@@ -17,14 +17,14 @@ struct JudgeOptions {
     std::string today;         // YYYY-MM-DD; a waiver expires after its date (see current_date)
     std::string policy_origin; // copied into Verdict::policy_origin, e.g. "built-in default"
     // Return a function's measures in the baseline snapshot by its identity, or nothing when it
-    // is not there. Used only when the policy grandfathers; may be empty.
+    // is not there. Used only when the policy tolerates existing findings; may be empty.
     std::function<std::optional<core::Measures>(const std::string& identity)> baseline_lookup;
 };
 
 // Judge `report` against `policy`: apply every rule to the functions in scope, with path
-// overrides, the noise floor and waivers. Return the findings (blocking first, then warnings,
-// grandfathered last; each by path and line, then in policy order; budgets after functions)
-// and the outcome (blocked when any non-grandfathered finding blocks). Notes name waived
+// scopes, the noise floor and waivers. Return the findings (blocking first, then warnings,
+// tolerated last; each by path and line, then in policy order; budgets after functions)
+// and the outcome (blocked when any finding not tolerated blocks). Notes name waived
 // findings, expired waivers, waivers that waived nothing, and functions out of scope or below
 // the noise floor. An empty report passes. Throws UsageError when `options.today` is not a
 // YYYY-MM-DD date.

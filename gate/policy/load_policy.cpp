@@ -44,18 +44,31 @@ const char* inactive_code_name(InactiveCode inactive_code) {
 
 namespace {
 
-const std::vector<std::string> k_top_keys = {
-    "tollgate-policy", "judge-with", "noise-floor",   "rules",           "paths",
-    "waivers",         "baseline",   "inactive-code", "unmeasured-lines"};
+const std::vector<std::string> k_top_keys = {"tollgate-policy",
+                                             "judge-with",
+                                             "noise-floor",
+                                             "rules",
+                                             "paths",
+                                             "waivers",
+                                             "baseline",
+                                             "inactive-code",
+                                             "unmeasured-lines",
+                                             "advisory",
+                                             "change-exemptions"};
 const std::vector<std::string> k_unmeasured_keys = {"limit", "level"};
 const std::vector<std::string> k_rule_keys = {"id",           "kind",
                                               "measure",      "level",
                                               "max-increase", "max-increase-percent",
                                               "ceiling",      "max-total-increase"};
-const std::vector<std::string> k_path_keys = {"include", "exclude", "overrides"};
-const std::vector<std::string> k_override_keys = {"match", "rules"};
+const std::vector<std::string> k_path_keys = {"include", "exclude", "scopes"};
+const std::vector<std::string> k_scope_keys = {"glob", "rules"};
 const std::vector<std::string> k_waiver_keys = {"file", "function", "rules", "reason", "expires"};
-const std::vector<std::string> k_baseline_keys = {"path", "grandfather"};
+const std::vector<std::string> k_baseline_keys = {"path", "tolerate-existing"};
+
+// Keys of earlier drafts of the schema, with the key that replaced each. There were no releases,
+// so they are not read; naming the new key saves a search.
+const std::map<std::string, std::string> k_renamed_keys = {
+    {"overrides", "scopes"}, {"match", "glob"}, {"grandfather", "tolerate-existing"}};
 
 // The limit keys each kind of rule takes.
 std::vector<std::string> limit_keys(RuleKind kind) {
@@ -145,9 +158,8 @@ private:
     void read_rules(const YAML::Node& node, Policy& policy);
     std::optional<Rule> read_rule(const YAML::Node& node, std::string& id);
     void read_paths(const YAML::Node& node, Policy& policy);
-    std::optional<PathOverride> read_override(const YAML::Node& node);
-    std::optional<RuleOverride> read_rule_override(const std::string& rule_id,
-                                                   const YAML::Node& node);
+    std::optional<Scope> read_scope(const YAML::Node& node);
+    std::optional<ScopedRule> read_scoped_rule(const std::string& rule_id, const YAML::Node& node);
     std::optional<Waiver> read_waiver(const YAML::Node& node);
     void read_baseline(const YAML::Node& node, Policy& policy);
     void read_unmeasured_lines(const YAML::Node& node, Policy& policy);
@@ -198,6 +210,13 @@ std::vector<Entry> PolicyReader::entries(const YAML::Node& map,
         }
         first_line[key] = key_node.Mark().line + 1;
         if (std::find(known.begin(), known.end(), key) == known.end()) {
+            if (const auto renamed = k_renamed_keys.find(key);
+                renamed != k_renamed_keys.end() &&
+                std::find(known.begin(), known.end(), renamed->second) != known.end()) {
+                error(key_node.Mark(), "unknown key \"" + key + "\"" + context +
+                                           " (it is now called \"" + renamed->second + "\")");
+                continue;
+            }
             const std::string suggestion = closest_match(key, known);
             error(key_node.Mark(),
                   "unknown key \"" + key + "\"" + context +
@@ -396,6 +415,18 @@ Policy PolicyReader::read(const YAML::Node& root) {
     }
     if (const Entry* unmeasured = find("unmeasured-lines")) {
         read_unmeasured_lines(unmeasured->value, policy);
+    }
+    if (const Entry* advisory = find("advisory")) {
+        if (const auto value = choice(advisory->value, "advisory", {"true", "false"})) {
+            policy.enforcement = *value == "true" ? Enforcement::advisory : Enforcement::blocking;
+        }
+    }
+    if (const Entry* exemptions = find("change-exemptions")) {
+        if (const auto value =
+                choice(exemptions->value, "change-exemptions", {"refuse", "accept"})) {
+            policy.change_exemptions =
+                *value == "accept" ? ChangeExemptions::accept : ChangeExemptions::refuse;
+        }
     }
     return policy;
 }
@@ -600,30 +631,30 @@ void PolicyReader::read_paths(const YAML::Node& node, Policy& policy) {
             policy.paths.include = globs(entry.value, "include");
         } else if (entry.key == "exclude") {
             policy.paths.exclude = globs(entry.value, "exclude");
-        } else if (expect_sequence(entry.value, "overrides")) {
+        } else if (expect_sequence(entry.value, "scopes")) {
             for (const auto& item : entry.value) {
-                if (auto path_override = read_override(item)) {
-                    policy.paths.overrides.push_back(std::move(*path_override));
+                if (auto scope = read_scope(item)) {
+                    policy.paths.scopes.push_back(std::move(*scope));
                 }
             }
         }
     }
 }
 
-std::optional<PathOverride> PolicyReader::read_override(const YAML::Node& node) {
+std::optional<Scope> PolicyReader::read_scope(const YAML::Node& node) {
     if (!node.IsMap()) {
         error(node.Mark(),
-              "an override must be a map with \"match\" and \"rules\", not " + shape_of(node));
+              "a scope must be a map with \"glob\" and \"rules\", not " + shape_of(node));
         return std::nullopt;
     }
-    PathOverride result;
-    bool has_match = false;
+    Scope result;
+    bool has_glob = false;
     YAML::Node rules;
-    for (const auto& entry : entries(node, k_override_keys, " in an override")) {
-        if (entry.key == "match") {
-            if (const auto pattern = text(entry.value, "match")) {
-                result.match = *pattern;
-                has_match = true;
+    for (const auto& entry : entries(node, k_scope_keys, " in a scope")) {
+        if (entry.key == "glob") {
+            if (const auto pattern = text(entry.value, "glob")) {
+                result.glob = *pattern;
+                has_glob = true;
             }
         } else if (expect_map(entry.value, "rules")) {
             rules = entry.value;
@@ -639,52 +670,59 @@ std::optional<PathOverride> PolicyReader::read_override(const YAML::Node& node) 
             }
             if (const auto seen = first_line.find(*id); seen != first_line.end()) {
                 error(it->first.Mark(), "duplicate key \"" + *id +
-                                            "\" in an override (first "
-                                            "given at line " +
+                                            "\" in a scope (first given at line " +
                                             std::to_string(seen->second) + ")");
                 continue;
             }
             first_line[*id] = it->first.Mark().line + 1;
-            if (auto rule_override = read_rule_override(*id, it->second)) {
-                result.rules.push_back(std::move(*rule_override));
+            if (auto scoped = read_scoped_rule(*id, it->second)) {
+                result.rules.push_back(std::move(*scoped));
             }
         }
     }
-    if (!has_match) {
-        if (node["match"].IsDefined()) {
+    if (!has_glob) {
+        if (node["glob"].IsDefined() || node["match"].IsDefined()) {
             return std::nullopt;
         }
-        error(node.Mark(), "an override has no \"match\" (a glob such as \"tests/**\")");
+        error(node.Mark(), "a scope has no \"glob\" (a glob such as \"tests/**\")");
         return std::nullopt;
     }
     if (!node["rules"].IsDefined()) {
-        error(node.Mark(), "override \"" + result.match +
-                               "\" has no \"rules\" (a map of rule ids to changes or \"off\")");
+        error(node.Mark(), "scope \"" + result.glob +
+                               "\" has no \"rules\" (a map of rule ids to changes or \"skip\")");
         return std::nullopt;
     }
     return result;
 }
 
-std::optional<RuleOverride> PolicyReader::read_rule_override(const std::string& rule_id,
-                                                             const YAML::Node& node) {
+std::optional<ScopedRule> PolicyReader::read_scoped_rule(const std::string& rule_id,
+                                                         const YAML::Node& node) {
     const Rule& rule = *m_rules_by_id.at(rule_id);
-    RuleOverride result;
+    ScopedRule result;
     result.rule_id = rule_id;
     if (node.IsScalar()) {
-        if (const auto value = choice(node, rule_id, {"off", "on"})) {
-            result.state = *value == "off" ? RuleSwitch::off : RuleSwitch::on;
+        if (node.Scalar() == "off" || node.Scalar() == "on") {
+            // The words of an earlier draft: say which word replaced each.
+            error(node.Mark(), "\"" + rule_id + "\" must be \"skip\" or \"judge\", not \"" +
+                                   node.Scalar() + "\" (write \"" +
+                                   (node.Scalar() == "off" ? "skip" : "judge") + "\")");
+            return std::nullopt;
+        }
+        if (const auto value = choice(node, rule_id, {"skip", "judge"})) {
+            result.state = *value == "skip" ? RuleSwitch::skip : RuleSwitch::judge;
             return result;
         }
         return std::nullopt;
     }
     if (rule.kind == RuleKind::budget) {
         error(node.Mark(), "rule \"" + rule_id +
-                               "\" is a budget on the whole change: an override can only turn "
-                               "it \"off\" or \"on\" for the matched paths");
+                               "\" is a budget on the whole change: a scope can only \"skip\" "
+                               "or \"judge\" it for the matched paths");
         return std::nullopt;
     }
     if (!node.IsMap()) {
-        error(node.Mark(), "\"" + rule_id + "\" must be \"off\", \"on\" or a map of changes, not " +
+        error(node.Mark(), "\"" + rule_id +
+                               "\" must be \"skip\", \"judge\" or a map of changes, not " +
                                shape_of(node));
         return std::nullopt;
     }
@@ -700,9 +738,15 @@ std::optional<RuleOverride> PolicyReader::read_rule_override(const std::string& 
             }
             continue;
         }
-        LimitOverride limit;
-        if (entry.value.IsScalar() && entry.value.Scalar() == "off") {
+        ScopedLimit limit;
+        if (entry.value.IsScalar() && entry.value.Scalar() == "none") {
             limit.setting = LimitSetting::remove;
+        } else if (entry.value.IsScalar() && entry.value.Scalar() == "off") {
+            error(entry.value.Mark(), "\"" + entry.key +
+                                          "\" must be a number or \"none\", not \"off\" (write "
+                                          "\"none\" to remove the limit on these paths)");
+            complete = false;
+            continue;
         } else if (const auto value = number(entry.value, entry.key)) {
             limit.setting = LimitSetting::set;
             limit.value = *value;
@@ -810,9 +854,8 @@ void PolicyReader::read_baseline(const YAML::Node& node, Policy& policy) {
             if (const auto value = text(entry.value, "path")) {
                 policy.baseline.path = *value;
             }
-        } else if (const auto value = choice(entry.value, "grandfather", {"true", "false"})) {
-            policy.baseline.grandfather =
-                *value == "true" ? Grandfathering::on : Grandfathering::off;
+        } else if (const auto value = choice(entry.value, "tolerate-existing", {"true", "false"})) {
+            policy.baseline.tolerate_existing = *value == "true" ? Tolerance::on : Tolerance::off;
         }
     }
 }

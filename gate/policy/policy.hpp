@@ -37,19 +37,19 @@ enum class JudgeWith {
     head, // the head commit's policy (the change's own edits to the policy apply)
 };
 
-// Whether a limit key in an override sets a value or removes the rule's limit.
+// Whether a limit key in a scope sets a value or removes the rule's limit.
 enum class LimitSetting {
     keep,   // not mentioned: the rule's own value stays
     set,    // replaced by `value`
-    remove, // "off": the limit no longer applies
+    remove, // "none": the limit no longer applies
 };
 
-// One limit as an override states it.
-struct LimitOverride {
-    LimitSetting setting = LimitSetting::keep; // what the override does to the limit
+// One limit as a scope states it.
+struct ScopedLimit {
+    LimitSetting setting = LimitSetting::keep; // what the scope does to the limit
     double value = 0;                          // the new limit when `setting` is set
 
-    bool operator==(const LimitOverride& other) const {
+    bool operator==(const ScopedLimit& other) const {
         return setting == other.setting && (setting != LimitSetting::set || value == other.value);
     }
 };
@@ -73,46 +73,44 @@ struct Rule {
     }
 };
 
-// Whether an override keeps a rule on for the paths it matches.
+// Whether a scope judges a rule on the paths its glob matches.
 enum class RuleSwitch {
-    on,  // the rule applies, with the override's changes
-    off, // the rule does not apply to these paths
+    judge, // the rule applies, with the scope's changes
+    skip,  // the rule does not apply to these paths
 };
 
-// What one path override does to one rule.
-struct RuleOverride {
-    std::string rule_id;                // the rule it changes (must exist)
-    RuleSwitch state = RuleSwitch::on;  // off: the rule is turned off for the matched paths
-    std::optional<Level> level;         // a different weight, when given
-    LimitOverride max_increase;         // growth
-    LimitOverride max_increase_percent; // growth
-    LimitOverride ceiling;              // added-ceiling, ceiling
+// What one scope does to one rule.
+struct ScopedRule {
+    std::string rule_id;                  // the rule it changes (must exist)
+    RuleSwitch state = RuleSwitch::judge; // skip: the rule is not judged on the matched paths
+    std::optional<Level> level;           // a different weight, when given
+    ScopedLimit max_increase;             // growth
+    ScopedLimit max_increase_percent;     // growth
+    ScopedLimit ceiling;                  // added-ceiling, ceiling
 
-    bool operator==(const RuleOverride& other) const {
+    bool operator==(const ScopedRule& other) const {
         return rule_id == other.rule_id && state == other.state && level == other.level &&
                max_increase == other.max_increase &&
                max_increase_percent == other.max_increase_percent && ceiling == other.ceiling;
     }
 };
 
-// Rule changes for the files that match one glob.
-struct PathOverride {
-    std::string match;               // glob on the repository-relative path
-    std::vector<RuleOverride> rules; // in file order
+// Rule changes for the files that match one glob (key "paths.scopes").
+struct Scope {
+    std::string glob;              // glob on the repository-relative path
+    std::vector<ScopedRule> rules; // in file order
 
-    bool operator==(const PathOverride& other) const {
-        return match == other.match && rules == other.rules;
-    }
+    bool operator==(const Scope& other) const { return glob == other.glob && rules == other.rules; }
 };
 
 // Which files the policy judges, and per-glob rule changes.
 struct PathScope {
     std::vector<std::string> include{"**"}; // a function is judged when its path matches one
     std::vector<std::string> exclude;       // ... and none of these
-    std::vector<PathOverride> overrides;    // applied in file order; a later match wins
+    std::vector<Scope> scopes;              // applied in file order; a later match wins
 
     bool operator==(const PathScope& other) const {
-        return include == other.include && exclude == other.exclude && overrides == other.overrides;
+        return include == other.include && exclude == other.exclude && scopes == other.scopes;
     }
 };
 
@@ -140,19 +138,20 @@ struct NoiseFloor {
     }
 };
 
-// Whether findings already present in the baseline block.
-enum class Grandfathering {
+// Whether findings already present in the baseline block (key "baseline.tolerate-existing").
+enum class Tolerance {
     off, // every finding weighs its rule's level
-    on,  // a ceiling finding no worse than the baseline's value is reported, not blocking
+    on,  // a ceiling finding no worse than the baseline's value is tolerated: reported, not
+         // blocking
 };
 
 // Where the baseline snapshot is and how it is used (read by the baseline work).
 struct BaselineSettings {
-    std::string path;                                // snapshot file; empty: none configured
-    Grandfathering grandfather = Grandfathering::on; // see Grandfathering; on unless turned off
+    std::string path;                            // snapshot file; empty: none configured
+    Tolerance tolerate_existing = Tolerance::on; // see Tolerance; on unless turned off
 
     bool operator==(const BaselineSettings& other) const {
-        return path == other.path && grandfather == other.grandfather;
+        return path == other.path && tolerate_existing == other.tolerate_existing;
     }
 };
 
@@ -174,6 +173,13 @@ struct UnmeasuredLimit {
     }
 };
 
+// Whether authors may exempt their own change (key "change-exemptions"). Only the base commit's
+// policy (or a --policy file) decides; a head policy's setting is never used.
+enum class ChangeExemptions {
+    refuse, // an exemption the change carries is reported as refused and has no effect
+    accept, // an exemption the change carries lets the findings it names pass, shown in reports
+};
+
 // A whole policy, as loaded or built in. Plain data; compare with ==.
 struct Policy {
     int schema_version = k_policy_schema_version;     // key "tollgate-policy"
@@ -185,12 +191,16 @@ struct Policy {
     BaselineSettings baseline;                        // key "baseline"
     InactiveCode inactive_code = InactiveCode::judge; // key "inactive-code"
     UnmeasuredLimit unmeasured_lines;                 // key "unmeasured-lines"
+    Enforcement enforcement = Enforcement::blocking;  // key "advisory": true runs every rule
+                                                      // without blocking ("would block")
+    ChangeExemptions change_exemptions = ChangeExemptions::refuse; // key "change-exemptions"
 
     bool operator==(const Policy& other) const {
         return schema_version == other.schema_version && judge_with == other.judge_with &&
                noise_floor == other.noise_floor && rules == other.rules && paths == other.paths &&
                waivers == other.waivers && baseline == other.baseline &&
-               inactive_code == other.inactive_code && unmeasured_lines == other.unmeasured_lines;
+               inactive_code == other.inactive_code && unmeasured_lines == other.unmeasured_lines &&
+               enforcement == other.enforcement && change_exemptions == other.change_exemptions;
     }
     bool operator!=(const Policy& other) const { return !(*this == other); }
 };

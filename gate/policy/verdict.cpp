@@ -36,8 +36,22 @@ const char* outcome_name(Outcome outcome) {
         return "pass";
     case Outcome::blocked:
         return "blocked";
+    case Outcome::would_block:
+        return "would-block";
     }
     return "blocked";
+}
+
+const char* exemption_state_name(ExemptionState state) {
+    switch (state) {
+    case ExemptionState::none:
+        return "none";
+    case ExemptionState::accepted:
+        return "accepted";
+    case ExemptionState::refused:
+        return "refused";
+    }
+    return "none";
 }
 
 std::size_t count_blocking(const Verdict& verdict) {
@@ -46,6 +60,22 @@ std::size_t count_blocking(const Verdict& verdict) {
         blocking += finding.blocks() ? 1 : 0;
     }
     return blocking;
+}
+
+std::size_t count_would_block(const Verdict& verdict) {
+    std::size_t would = 0;
+    for (const auto& finding : verdict.findings) {
+        would += finding.would_block() ? 1 : 0;
+    }
+    return would;
+}
+
+void make_advisory(Verdict& verdict) {
+    verdict.enforcement = Enforcement::advisory;
+    for (auto& finding : verdict.findings) {
+        finding.advisory = true;
+    }
+    verdict.outcome = count_would_block(verdict) > 0 ? Outcome::would_block : Outcome::pass;
 }
 
 } // namespace tollgate::policy

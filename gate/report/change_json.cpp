@@ -52,6 +52,34 @@ json totals_json(const delta::Totals& t) {
             {"difficulty_max", {{"base", t.base_difficulty_max}, {"head", t.head_difficulty_max}}}};
 }
 
+json exemption_json(const policy::Finding& f) {
+    if (f.exemption == policy::ExemptionState::none) {
+        return nullptr;
+    }
+    return {
+        {"state", policy::exemption_state_name(f.exemption)},
+        {"source", f.exemption_source == policy::ExemptionSource::trailer ? "trailer" : "comment"},
+        {"reason", f.exemption_reason},
+        {"where", f.exemption_where}};
+}
+
+json exemptions_json(const policy::Verdict& verdict) {
+    json exemptions = json::array();
+    for (const auto& e : verdict.exemptions) {
+        exemptions.push_back(
+            {{"source", e.source == policy::ExemptionSource::trailer ? "trailer" : "comment"},
+             {"where", e.where},
+             {"function", e.function},
+             {"file", e.path},
+             {"line", e.start_line},
+             {"rules", e.rules},
+             {"reason", e.reason},
+             {"state", policy::exemption_state_name(e.state)},
+             {"findings", e.findings}});
+    }
+    return exemptions;
+}
+
 json verdict_json(const policy::Verdict& verdict) {
     json findings = json::array();
     for (const auto& f : verdict.findings) {
@@ -70,10 +98,15 @@ json verdict_json(const policy::Verdict& verdict) {
                             {"limit", f.limit},
                             {"excess", f.excess},
                             {"percent", f.percent},
-                            {"grandfathered", f.grandfathered},
+                            {"tolerated", f.tolerated},
+                            {"would_block", f.would_block()},
+                            {"exemption", exemption_json(f)},
                             {"message", f.message}});
     }
     return {{"outcome", policy::outcome_name(verdict.outcome)},
+            {"enforcement",
+             verdict.enforcement == policy::Enforcement::advisory ? "advisory" : "blocking"},
+            {"exemptions", exemptions_json(verdict)},
             {"policy", verdict.policy_origin},
             {"policy_change", verdict.policy_change_summary},
             {"policy_differences", verdict.policy_changes},

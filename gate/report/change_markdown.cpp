@@ -80,7 +80,8 @@ std::string assemble(const Parts& parts, const Kept& kept, std::size_t limit) {
         out += "\n";
     }
     if (kept_of(kept, List::blocking) > 0) {
-        out += "#### Blocks the merge\n\n";
+        out += parts.advisory ? "#### Would block the merge (advisory run: it passes)\n\n"
+                              : "#### Blocks the merge\n\n";
         append(out, parts, kept, List::blocking, 0, all);
         out += "\n";
     }

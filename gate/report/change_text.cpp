@@ -46,7 +46,36 @@ constexpr const char* k_reset = "\x1b[0m";
 
 // The words that stand beside the colours (and for them, without colour).
 constexpr const char* k_block_word = "block";
+constexpr const char* k_would_word = "would"; // an advisory run: "would block"
 constexpr const char* k_warn_word = "warn";
+
+const char* word_of(Standing standing) {
+    switch (standing) {
+    case Standing::blocks:
+        return k_block_word;
+    case Standing::would_block:
+        return k_would_word;
+    case Standing::warns:
+        return k_warn_word;
+    case Standing::clear:
+        return "";
+    }
+    return "";
+}
+
+// An advisory run passes: what would block is painted as a warning, never as a failure.
+const char* colour_of(Standing standing) {
+    switch (standing) {
+    case Standing::blocks:
+        return k_blocking;
+    case Standing::would_block:
+    case Standing::warns:
+        return k_warning;
+    case Standing::clear:
+        return nullptr;
+    }
+    return nullptr;
+}
 
 std::string side_value(const std::optional<delta::FunctionSide>& side, MeasureId id, int decimals) {
     return side ? format_number(core::measure_value(side->measures, id), decimals) : "-";
@@ -125,17 +154,12 @@ void write_table(Lines& lines, const ChangeReport& report, const ReadingOrder& o
     const auto add = [&](const FunctionDelta& f, const FunctionFindings* group) {
         const Standing standing = standing_of(group);
         const auto& side = f.shown_side();
-        rows.push_back({standing == Standing::blocks  ? k_block_word
-                        : standing == Standing::warns ? k_warn_word
-                                                      : "",
-                        delta::label_name(f.label), name_cell(f),
+        rows.push_back({word_of(standing), delta::label_name(f.label), name_cell(f),
                         location_of(side.path, side.start_line), change_cell(f),
                         pair_cell(f, MeasureId::effort, 0), pair_cell(f, MeasureId::volume, 1),
                         pair_cell(f, MeasureId::difficulty, 2),
                         group != nullptr ? rules_of(*group) : std::string()});
-        colours.push_back(standing == Standing::blocks  ? k_blocking
-                          : standing == Standing::warns ? k_warning
-                                                        : nullptr);
+        colours.push_back(colour_of(standing));
     };
     for (const auto* list : {&order.blocking, &order.warning}) {
         for (const auto& group : *list) {
@@ -165,10 +189,12 @@ void write_table(Lines& lines, const ChangeReport& report, const ReadingOrder& o
 }
 
 // One function's findings under the verdict: its name and place, each finding, the command.
-void write_group(Lines& lines, const FunctionFindings& group, const RenderOptions& options) {
-    const bool blocks = group.standing == Standing::blocks;
-    const char* colour = blocks ? k_blocking : k_warning;
-    const std::string word = fmt::format("  {:<5}  ", blocks ? k_block_word : k_warn_word);
+void write_group(Lines& lines, const FunctionFindings& group, const ChangeReport& report,
+                 const RenderOptions& options) {
+    const bool blocks =
+        group.standing == Standing::blocks || group.standing == Standing::would_block;
+    const char* colour = colour_of(group.standing);
+    const std::string word = fmt::format("  {:<5}  ", word_of(group.standing));
     const std::string margin(11, ' ');
     const bool fit = options.fit == Fit::to_width;
     if (group.function.empty() && group.path.empty()) {
@@ -191,30 +217,45 @@ void write_group(Lines& lines, const FunctionFindings& group, const RenderOption
     }
     if (blocks && !group.function.empty()) {
         // A command is copied whole: when the name form does not fit, the PATH:LINE form.
-        std::string command = explain_command(group.path, group.function);
+        std::string command =
+            explain_command(group.path, group.function, report.base_commit, report.head_commit);
         if (fit && text::display_width(margin + "why: " + terminal_text(command)) > options.width) {
-            command = explain_command(group.path, std::to_string(group.start_line));
+            command = explain_command(group.path, std::to_string(group.start_line),
+                                      report.base_commit, report.head_commit);
         }
         lines.write(margin + "why: " + terminal_text(command), 13);
     }
 }
 
-void write_verdict(Lines& lines, const policy::Verdict& verdict, const ReadingOrder& order,
-                   const RenderOptions& options) {
+void write_verdict(Lines& lines, const ChangeReport& report, const policy::Verdict& verdict,
+                   const ReadingOrder& order, const RenderOptions& options) {
     const std::size_t blocking = policy::count_blocking(verdict);
-    const std::size_t warnings = verdict.findings.size() - blocking;
+    const std::size_t would = policy::count_would_block(verdict);
+    const std::size_t warnings = verdict.findings.size() - blocking - would;
     const bool blocked = verdict.outcome == policy::Outcome::blocked;
+    const bool advisory = verdict.enforcement == policy::Enforcement::advisory;
     std::string line = blocked ? "verdict: BLOCKED by " +
                                      count_text(blocking, "blocking finding", "blocking findings")
                                : std::string("verdict: pass");
+    if (advisory) {
+        line += would > 0
+                    ? " (advisory run: " +
+                          count_text(would, "finding would block", "findings would block") + ")"
+                    : " (advisory run)";
+    }
     if (warnings > 0) {
-        line += (blocked ? ", " : " with ") + count_text(warnings, "warning", "warnings");
+        line +=
+            (blocked || would > 0 ? ", " : " with ") + count_text(warnings, "warning", "warnings");
     }
     line += " (policy: " + verdict.policy_origin + ")";
-    lines.write(terminal_text(line), 2, blocked ? k_blocking : k_passing);
+    lines.write(terminal_text(line), 2, blocked ? k_blocking : (would > 0 ? k_warning : k_passing));
+    for (const auto& exemption : verdict.exemptions) {
+        lines.write("  " + terminal_text(exemption_line(exemption)), 4,
+                    exemption.state == policy::ExemptionState::accepted ? k_warning : nullptr);
+    }
     for (const auto* list : {&order.blocking, &order.warning}) {
         for (const auto& group : *list) {
-            write_group(lines, group, options);
+            write_group(lines, group, report, options);
         }
     }
     for (const auto& note : verdict.notes) {
@@ -265,7 +306,7 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
             lines.write("  " + hint, 4);
         }
     }
-    write_verdict(lines, verdict, order, options);
+    write_verdict(lines, report, verdict, order, options);
 }
 
 void write_diagnostics_text(std::ostream& out, const ChangeReport& report) {

@@ -110,8 +110,11 @@ std::string table_row(const FunctionDelta& f, const ChangeReport& report,
 // command that explains it, as a list under it.
 std::string entry(const FunctionFindings& group, const ChangeReport& report,
                   const RenderOptions& options) {
-    const bool blocks = group.standing == Standing::blocks;
-    std::string out = std::string("- ") + (blocks ? k_block_symbol : k_warn_symbol) + " ";
+    const bool would = group.standing == Standing::would_block;
+    const bool blocks = group.standing == Standing::blocks || would;
+    std::string out = std::string("- ") +
+                      (group.standing == Standing::blocks ? k_block_symbol : k_warn_symbol) + " " +
+                      (would ? "would block: " : "");
     if (group.function.empty() && group.path.empty()) {
         out += "the whole change\n";
     } else {
@@ -134,19 +137,38 @@ std::string entry(const FunctionFindings& group, const ChangeReport& report,
     }
     if (blocks && !group.function.empty()) {
         out += "  - why: " +
-               data_code(explain_command(group.path, group.function), MarkdownPlace::inline_text) +
+               data_code(explain_command(group.path, group.function, report.base_commit,
+                                         report.head_commit),
+                         MarkdownPlace::inline_text) +
                "\n";
     }
     return out;
 }
 
+// Exemptions a change claims for itself stand right under the verdict, accepted or not.
+std::string exemptions_quote(const policy::Verdict& verdict) {
+    std::string out;
+    for (const auto& exemption : verdict.exemptions) {
+        const bool accepted = exemption.state == policy::ExemptionState::accepted;
+        out += std::string(out.empty() ? "" : ">\n") + "> " +
+               (accepted ? k_warn_symbol : k_block_symbol) + " " +
+               data_text(exemption_line(exemption)) + "\n";
+    }
+    return out.empty() ? out : out + "\n";
+}
+
 std::string heading(const ChangeReport& report, const policy::Verdict& verdict,
                     const ReadingOrder& order) {
     const std::size_t blocking = policy::count_blocking(verdict);
-    const std::size_t warnings = verdict.findings.size() - blocking;
+    const std::size_t would = policy::count_would_block(verdict);
+    const std::size_t warnings = verdict.findings.size() - blocking - would;
     std::vector<std::string> counts;
     std::string out;
-    if (verdict.outcome == policy::Outcome::blocked) {
+    if (verdict.outcome == policy::Outcome::would_block) {
+        out = fmt::format("### {} Tollgate would block this change (advisory run: it passes)",
+                          k_warn_symbol);
+        counts.push_back(count_text(would, "finding would block", "findings would block"));
+    } else if (verdict.outcome == policy::Outcome::blocked) {
         out = fmt::format("### {} Tollgate blocks this change", k_block_symbol);
         std::size_t functions = 0;
         bool whole = false;
@@ -196,7 +218,7 @@ std::string heading(const ChangeReport& report, const policy::Verdict& verdict,
     }
     out += " · policy " + data_text(verdict.policy_origin) + " · convention " +
            data_text(report.convention) + "\n\n";
-    return out;
+    return out + exemptions_quote(verdict);
 }
 
 std::string place_of(const delta::ChangeWarning& w) {
@@ -242,6 +264,7 @@ Parts make_parts(const ChangeReport& report, const policy::Verdict& verdict,
     Parts parts;
     const ReadingOrder order = order_for_reading(report, verdict);
     parts.heading = heading(report, verdict, order);
+    parts.advisory = verdict.enforcement == policy::Enforcement::advisory;
     parts.table_head = k_table_head;
     const auto list = [&parts](List which) -> std::vector<std::string>& {
         return parts.lists[static_cast<std::size_t>(which)];

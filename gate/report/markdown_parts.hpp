@@ -32,6 +32,7 @@ struct Parts {
     std::string diagnostics_head;            // the diagnostics fold's summary and hint, or empty
     std::string table_head;                  // the head of the table of other functions
     std::size_t shown_rows = 0;              // other rows before the rest is folded
+    bool advisory = false;                   // an advisory run: the blocking list would block
     std::vector<std::string> lists[k_lists]; // items, by List, each ending in a newline
 };
 

@@ -47,13 +47,15 @@ ReadingOrder order_for_reading(const delta::ChangeReport& report, const policy::
         group.findings.push_back(&finding);
         if (finding.blocks()) {
             group.standing = Standing::blocks;
+        } else if (finding.would_block() && group.standing != Standing::blocks) {
+            group.standing = Standing::would_block;
         }
     }
     ReadingOrder order;
     std::vector<bool> placed(groups.size(), false);
     const auto place = [&](std::size_t g) {
         placed[g] = true;
-        auto& list = groups[g].standing == Standing::blocks ? order.blocking : order.warning;
+        auto& list = groups[g].standing == Standing::warns ? order.warning : order.blocking;
         list.push_back(groups[g]);
     };
     for (const auto& f : report.functions) {
@@ -85,21 +87,69 @@ Standing standing_of(const FunctionFindings* group) {
     return group == nullptr ? Standing::clear : group->standing;
 }
 
+std::string exemption_line(const policy::ClaimedExemption& e) {
+    std::string rules;
+    for (const auto& rule : e.rules) {
+        rules += (rules.empty() ? "" : ", ") + rule;
+    }
+    const std::string place = e.source == policy::ExemptionSource::trailer
+                                  ? "trailer in commit " + e.where
+                                  : "comment at " + e.where;
+    const std::string head = e.state == policy::ExemptionState::accepted
+                                 ? std::string("exemption accepted")
+                                 : std::string("exemption REFUSED by the base policy "
+                                               "(change-exemptions: refuse), no effect");
+    std::string line = head + ": " + place + ": " + e.function + " (" + rules + "): " + e.reason;
+    if (e.state == policy::ExemptionState::accepted) {
+        line += "; covers " + count_text(e.findings, "finding", "findings");
+    } else if (e.findings > 0) {
+        line += "; would have covered " + count_text(e.findings, "finding", "findings");
+    }
+    return line;
+}
+
+// What the policy made of the exemption the change claims for `finding`, or nothing.
+static std::string exemption_suffix(const policy::Finding& finding) {
+    const std::string told = finding.exemption_reason + " (" + finding.exemption_where + ")";
+    switch (finding.exemption) {
+    case policy::ExemptionState::accepted:
+        return "; exemption accepted: " + told;
+    case policy::ExemptionState::refused:
+        return "; exemption refused by the base policy (change-exemptions: refuse): " + told;
+    case policy::ExemptionState::none:
+        return {};
+    }
+    return {};
+}
+
 std::string finding_detail(const policy::Finding& finding) {
     const std::string prefix =
         finding.function.empty() && finding.path.empty()
             ? std::string("the change: ")
             : fmt::format("{}:{}: {}({}): ", finding.path, finding.start_line, finding.function,
                           finding.signature);
-    if (finding.message.size() > prefix.size() &&
-        finding.message.compare(0, prefix.size(), prefix) == 0) {
-        return finding.message.substr(prefix.size());
+    std::string detail = finding.message;
+    if (detail.size() > prefix.size() && detail.compare(0, prefix.size(), prefix) == 0) {
+        detail = detail.substr(prefix.size());
     }
-    return finding.message;
+    if (finding.would_block()) {
+        detail = "would block: " + detail;
+    }
+    return detail + exemption_suffix(finding);
 }
 
-std::string explain_command(const std::string& path, const std::string& function) {
-    return "tollgate explain " + text::shell_word(path + ":" + function);
+std::string explain_command(const std::string& path, const std::string& function,
+                            const std::string& base_commit, const std::string& head_commit) {
+    // Ten hex digits name a commit of any but the largest histories without ambiguity.
+    const auto short_id = [](const std::string& id) { return id.substr(0, 10); };
+    std::string sides;
+    if (!base_commit.empty() && !head_commit.empty()) {
+        sides = "--change " +
+                text::shell_word(short_id(base_commit) + ".." + short_id(head_commit)) + " ";
+    } else if (!base_commit.empty()) {
+        sides = "--base " + text::shell_word(short_id(base_commit)) + " ";
+    }
+    return "tollgate explain " + sides + text::shell_word(path + ":" + function);
 }
 
 std::string missing_header_of(const std::string& message) {

@@ -14,9 +14,10 @@ namespace tollgate::report {
 
 // Where one function stands with the policy.
 enum class Standing {
-    blocks, // at least one finding blocks the change
-    warns,  // findings, none blocking (warnings, grandfathered ceilings)
-    clear,  // no finding
+    blocks,      // at least one finding blocks the change
+    would_block, // advisory run: at least one finding would block, none does
+    warns,       // findings, none blocking (warnings, tolerated ceilings, accepted exemptions)
+    clear,       // no finding
 };
 
 // The findings of one function, or of the whole change (budget rules), grouped.
@@ -30,7 +31,8 @@ struct FunctionFindings {
     Standing standing = Standing::warns;          // blocks or warns
 };
 
-// The change in the order a reviewer reads it: every function with a blocking finding, then
+// The change in the order a reviewer reads it: every function with a blocking finding (or, in
+// an advisory run, one that would block), then
 // every function with warnings only, then the other touched functions.
 struct ReadingOrder {
     std::vector<FunctionFindings> blocking; // in report order; findings on no function of the
@@ -50,13 +52,27 @@ Standing standing_of(const FunctionFindings* group);
 // Return `finding`'s message without the location its group already shows (the leading
 // "PATH:LINE: NAME(SIGNATURE): " or "the change: "), e.g. "effort +6,949 (+278%) exceeds the
 // limit +100% by 178 points (rule "effort-growth", blocking)"; the whole message otherwise.
+// A finding that would block in an advisory run starts with "would block: "; one the change
+// claims an exemption for ends with what the policy made of it and the author's reason
+// ("; exemption accepted: REASON (WHERE)" or "; exemption refused by the base policy: ...").
+// The text is the repository's: callers escape it for their output.
 std::string finding_detail(const policy::Finding& finding);
 
+// Return one line on an exemption the change claims, what the policy made of it and what it
+// covered: "exemption accepted: trailer in commit 3f2a91c: Kalman::update (effort-growth): the
+// second stage is reviewed; covers 1 finding", or "exemption REFUSED by the base policy
+// (change-exemptions: refuse), no effect: ...". The text is the repository's: callers escape it.
+std::string exemption_line(const policy::ClaimedExemption& exemption);
+
 // Return the command that shows why `function` (a name, or a line number) of `path` measures
-// as it does, its argument quoted for a POSIX shell when it needs it:
-// `tollgate explain 'src/a b.c:f'`. Quoting keeps a copied command from running anything the
-// names hold.
-std::string explain_command(const std::string& path, const std::string& function);
+// as it does, its arguments quoted for a POSIX shell when they need it:
+// `tollgate explain 'src/a b.c:f'`. With `base_commit` (and `head_commit`) it compares the two
+// sides token by token: `tollgate explain --change 3f2a91c0de..9b1c0de123 src/a.c:f`, or
+// `--base 3f2a91c0de` when the head is the working tree. Quoting keeps a copied command from
+// running anything the names hold.
+std::string explain_command(const std::string& path, const std::string& function,
+                            const std::string& base_commit = "",
+                            const std::string& head_commit = "");
 
 // One header the parser could not find, and the warnings it caused.
 struct MissingHeader {

@@ -5,6 +5,7 @@
 #include "gate/common/text_safety.hpp"
 #include "gate/policy/judge.hpp"
 #include "gate/report/marks.hpp"
+#include "gate/report/reading_order.hpp"
 
 #include <nlohmann/json.hpp>
 
@@ -76,6 +77,35 @@ json measure_json(policy::RuleKind kind, core::MeasureId measure) {
 
 const char* sarif_level(policy::Level level) {
     return level == policy::Level::blocking ? "error" : "warning";
+}
+
+// Every exemption the change claims, in the run's properties: one line each, as the other
+// reports show them.
+json exemptions_json(const policy::Verdict& verdict) {
+    json list = json::array();
+    for (const auto& exemption : verdict.exemptions) {
+        list.push_back(exemption_line(exemption));
+    }
+    return list;
+}
+
+// Mark a finding of an advisory run and an exemption the change claims for it on `result`.
+void mark_rollout(json& result, const policy::Finding& finding) {
+    if (finding.would_block()) {
+        result["message"]["text"] = "would block (advisory run): " + finding.message;
+        result["properties"]["wouldBlock"] = true;
+    }
+    if (finding.exemption == policy::ExemptionState::none) {
+        return;
+    }
+    // SARIF 2.1.0, 3.27.23 and 3.35 (from memory): a suppression with its kind, status and
+    // justification; a refused one is "rejected" and the result keeps its level.
+    const bool comment = finding.exemption_source == policy::ExemptionSource::comment;
+    const bool accepted = finding.exemption == policy::ExemptionState::accepted;
+    result["suppressions"] = json::array({{{"kind", comment ? "inSource" : "external"},
+                                           {"status", accepted ? "accepted" : "rejected"},
+                                           {"justification", finding.exemption_reason},
+                                           {"properties", {{"where", finding.exemption_where}}}}});
 }
 
 json physical_location(const std::string& path, unsigned start_line, unsigned end_line) {
@@ -198,9 +228,10 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
 
     json results = json::array();
     for (const auto& finding : verdict.findings) {
+        // An advisory run passes: a finding that would block is a warning there, and says so.
         json result = {
             {"ruleId", finding.rule_id},
-            {"level", sarif_level(finding.level)},
+            {"level", finding.would_block() ? "warning" : sarif_level(finding.level)},
             {"message", {{"text", finding.message}}},
             {"properties",
              {{"measure", measure_json(finding.kind, finding.measure)},
@@ -214,9 +245,10 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
                 result["ruleIndex"] = i;
             }
         }
-        if (finding.grandfathered) {
+        if (finding.tolerated) {
             result["baselineState"] = "unchanged";
         }
+        mark_rollout(result, finding);
         if (finding_parser_stopped(report, finding)) {
             result["message"]["text"] =
                 finding.message + " (measured lexically: the parser stopped on this file)";
@@ -275,6 +307,9 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
                                       {"toolExecutionNotifications", notifications(report)}}})},
         {"properties",
          {{"outcome", policy::outcome_name(verdict.outcome)},
+          {"enforcement",
+           verdict.enforcement == policy::Enforcement::advisory ? "advisory" : "blocking"},
+          {"exemptions", exemptions_json(verdict)},
           {"policyOrigin", verdict.policy_origin},
           {"baseCommit", report.base_commit},
           {"headCommit", report.head_commit},

@@ -12,7 +12,7 @@
 namespace tollgate::report {
 
 // Write `verdict` as a SARIF 2.1.0 log with one run: every rule of `policy` in tool.driver.rules,
-// one result per finding ("error" when blocking, "warning" otherwise; grandfathered findings
+// one result per finding ("error" when blocking, "warning" otherwise; tolerated findings
 // carry baselineState "unchanged"), located on the function's head lines relative to the
 // repository root (uriBaseId "SRCROOT"). A budget finding is placed on the in-scope function of
 // `report` whose measure grew most; with no such function it has no location. A verdict without

@@ -42,7 +42,7 @@ measure "check, no PCH, all cores" "$tollgate" check --base HEAD~1 --no-pch-cach
 "$tollgate" snapshot --rev HEAD~1 --out "$work/base-snapshot.json" --cache-dir "$cache" 2>/dev/null
 "$tollgate" snapshot --rev HEAD --out "$work/head-snapshot.json" --cache-dir "$cache" 2>/dev/null
 # The base is always parsed; a snapshot of the base is compared on every touched function (the
-# spot-check), one of another commit only grandfathers. The difference between the two is the
+# spot-check), one of another commit only tolerates existing findings. The difference between the two is the
 # comparison, the difference to "warm PCH cache, all cores" the snapshot's loading.
 measure "check, warm PCH, snapshot of the base (checked)" "$tollgate" check --base HEAD~1 --cache-dir "$cache" --baseline "$work/base-snapshot.json"
 checked=$(cat "$work/last")

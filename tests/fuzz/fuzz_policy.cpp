@@ -21,7 +21,7 @@ bool sound(const std::optional<double>& value) {
     return !value || sound(*value);
 }
 
-bool sound(const tollgate::policy::LimitOverride& limit) {
+bool sound(const tollgate::policy::ScopedLimit& limit) {
     return limit.setting != tollgate::policy::LimitSetting::set || sound(limit.value);
 }
 
@@ -39,8 +39,8 @@ bool numbers_are_sound(const tollgate::policy::Policy& policy) {
             return false;
         }
     }
-    for (const auto& path_override : policy.paths.overrides) {
-        for (const auto& change : path_override.rules) {
+    for (const auto& scope : policy.paths.scopes) {
+        for (const auto& change : scope.rules) {
             if (!sound(change.max_increase) || !sound(change.max_increase_percent) ||
                 !sound(change.ceiling)) {
                 return false;

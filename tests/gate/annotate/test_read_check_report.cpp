@@ -62,6 +62,32 @@ TEST_CASE("parse_check_report", "[annotate]") {
         document["verdict"]["outcome"] = "maybe";
         CHECK_THROWS_WITH(parse_check_report(document.dump(), "c.json"),
                           "report \"c.json\": $.verdict.outcome should be one of \"pass\", "
-                          "\"blocked\"");
+                          "\"blocked\", \"would-block\"");
+    }
+    SECTION("an advisory run and a claimed exemption read back as written") {
+        auto change = sample_change({{"Kalman::update", "src/filter.cpp", 120, 1000, 18400}}, true);
+        REQUIRE_FALSE(change.verdict.findings.empty());
+        auto& finding = change.verdict.findings[0];
+        finding.exemption = tollgate::policy::ExemptionState::refused;
+        finding.exemption_source = tollgate::policy::ExemptionSource::comment;
+        finding.exemption_reason = "clamps the sensor range";
+        finding.exemption_where = "src/filter.cpp:119";
+        tollgate::policy::ClaimedExemption claim;
+        claim.source = tollgate::policy::ExemptionSource::comment;
+        claim.where = "src/filter.cpp:119";
+        claim.function = "Kalman::update";
+        claim.path = "src/filter.cpp";
+        claim.start_line = 120;
+        claim.rules = {finding.rule_id};
+        claim.reason = "clamps the sensor range";
+        claim.findings = 1;
+        change.verdict.exemptions.push_back(claim);
+        tollgate::policy::make_advisory(change.verdict);
+        const std::string written = check_json(change);
+        const auto read = parse_check_report(written, "check.json");
+        CHECK(read.verdict.outcome == tollgate::policy::Outcome::would_block);
+        CHECK(read.verdict.findings == change.verdict.findings);
+        CHECK(read.verdict.exemptions == change.verdict.exemptions);
+        CHECK(check_json(read) == written);
     }
 }

@@ -447,7 +447,9 @@ TEST_CASE("check blocks a change that breaks the base commit's policy", "[check]
     // The finding under its function, then the command that explains it.
     CHECK(result.out.find("  block  grow  grow.c:1\n           effort +") != std::string::npos);
     CHECK(result.out.find("exceeds the limit +20% by") != std::string::npos);
-    CHECK(result.out.find("           why: tollgate explain grow.c:grow\n") != std::string::npos);
+    // The command compares the two sides of the change (explain --change BASE..HEAD).
+    CHECK(result.out.find("           why: tollgate explain --change " + base.substr(0, 10) + ".." +
+                          head.substr(0, 10) + " grow.c:grow\n") != std::string::npos);
 }
 
 TEST_CASE("check judges with the base's policy when the change loosens it", "[check][policy]") {

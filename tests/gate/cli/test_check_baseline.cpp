@@ -1,8 +1,8 @@
 // SPDX-License-Identifier: MIT
 // `tollgate check` with a baseline snapshot: where a trusted snapshot comes from (the pipeline's
 // --baseline file, or baseline.path in the base commit), the check of a snapshot of the base
-// against the parsed base, grandfathering, and --update-baseline; real temp repositories and
-// the real binary.
+// against the parsed base, tolerating existing findings, and --update-baseline; real temp
+// repositories and the real binary.
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -54,10 +54,10 @@ const char* const k_growth_rule = "  - id: effort-growth\n"
                                   "    max-increase-percent: 50\n"
                                   "    level: blocking\n";
 
-std::string policy_text(const std::string& rules, bool grandfather) {
+std::string policy_text(const std::string& rules, bool tolerate) {
     return "tollgate-policy: 1\nrules:\n" + rules +
-           "baseline:\n  path: baselines/snapshot.json\n  grandfather: " +
-           (grandfather ? "true\n" : "false\n");
+           "baseline:\n  path: baselines/snapshot.json\n  tolerate-existing: " +
+           (tolerate ? "true\n" : "false\n");
 }
 
 // The same FNV-1a digest a snapshot carries (gate/baseline/README.md): anyone can recompute it.
@@ -192,11 +192,12 @@ TEST_CASE("check never takes a change's own snapshot as its base", "[check][base
         const auto result =
             run_tollgate("check --no-pch-cache --baseline " + path + range, dir.path());
         CHECK(result.exit_code == 1);
-        const std::string expected_start = "the baseline snapshot " + path +
-                                           " disagrees with the parsed base " + base.substr(0, 7) +
-                                           " on 1 of 1 touched functions and is not used, "
-                                           "neither for the base nor for grandfathering: knot.c:1: "
-                                           "knot(int, int): the snapshot has unchanged, n1 ";
+        const std::string expected_start =
+            "the baseline snapshot " + path + " disagrees with the parsed base " +
+            base.substr(0, 7) +
+            " on 1 of 1 touched functions and is not used, "
+            "neither for the base nor for tolerating existing findings: knot.c:1: "
+            "knot(int, int): the snapshot has unchanged, n1 ";
         CHECK(result.err.rfind("tollgate: warning: " + expected_start, 0) == 0);
         CHECK(result.err.find("; the base parses to changed, n1 ") != std::string::npos);
         CHECK(result.err.find("(rebuild it: tollgate snapshot --rev " + base.substr(0, 7) +
@@ -234,10 +235,10 @@ namespace {
 
 // Commit knot.c (hard) with the policy, snapshot it into baselines/ and commit the snapshot (the
 // base then holds a snapshot of its parent, as on a main branch), then commit `head_text`.
-History history_with_committed_baseline(const TempDir& dir, bool grandfather,
+History history_with_committed_baseline(const TempDir& dir, bool tolerate,
                                         const std::string& head_text) {
     init_repo(dir.path());
-    dir.write(".tollgate.yaml", policy_text(k_ceiling_rule, grandfather));
+    dir.write(".tollgate.yaml", policy_text(k_ceiling_rule, tolerate));
     dir.write("knot.c", k_hard_base);
     commit_all(dir.path(), "knot");
     REQUIRE(run_tollgate("snapshot --no-pch-cache", dir.path()).exit_code == 0);
@@ -265,10 +266,10 @@ TEST_CASE("check parses the base when the base commit's snapshot is stale", "[ch
                           h.base.substr(0, 7) +
                           " is not used: it was measured with Stroud number 18, this run uses 5; "
                           "the base was parsed") != std::string::npos);
-    CHECK(result.out.find("grandfathered") == std::string::npos);
+    CHECK(result.out.find("tolerated") == std::string::npos);
 }
 
-TEST_CASE("check grandfathers a function already above a ceiling in a trusted baseline",
+TEST_CASE("check tolerates a function already above a ceiling in a trusted baseline",
           "[check][baseline]") {
     SECTION("no worse than the base commit's snapshot: reported, not blocking") {
         TempDir dir;
@@ -276,7 +277,7 @@ TEST_CASE("check grandfathers a function already above a ceiling in a trusted ba
         const auto result = run_tollgate(
             "check --no-pch-cache --no-color --base " + h.base + " --head " + h.head, dir.path());
         CHECK(result.exit_code == 0);
-        CHECK(result.out.find("grandfathered: the baseline has") != std::string::npos);
+        CHECK(result.out.find("tolerated: the baseline has") != std::string::npos);
     }
     SECTION("worse than the baseline: blocking") {
         TempDir dir;
@@ -285,13 +286,13 @@ TEST_CASE("check grandfathers a function already above a ceiling in a trusted ba
             "check --no-pch-cache --no-color --base " + h.base + " --head " + h.head, dir.path());
         CHECK(result.exit_code == 1);
     }
-    SECTION("grandfathering turned off in the policy: blocking even when no worse") {
+    SECTION("tolerate-existing turned off in the policy: blocking even when no worse") {
         TempDir dir;
         const auto h = history_with_committed_baseline(dir, false, k_hard_same);
         const auto result = run_tollgate(
             "check --no-pch-cache --no-color --base " + h.base + " --head " + h.head, dir.path());
         CHECK(result.exit_code == 1);
-        CHECK(result.out.find("grandfathered") == std::string::npos);
+        CHECK(result.out.find("tolerated") == std::string::npos);
     }
     SECTION("a bare repository reads it from the base commit too") {
         TempDir dir, bare;
@@ -301,9 +302,9 @@ TEST_CASE("check grandfathers a function already above a ceiling in a trusted ba
             run_tollgate("check --no-pch-cache --no-color --base " + h.base + " --head " + h.head,
                          bare.path() + "/repo.git");
         CHECK(result.exit_code == 0);
-        CHECK(result.out.find("grandfathered: the baseline has") != std::string::npos);
+        CHECK(result.out.find("tolerated: the baseline has") != std::string::npos);
     }
-    SECTION("a snapshot the change adds grandfathers nothing") {
+    SECTION("a snapshot the change adds tolerates nothing") {
         TempDir dir;
         init_repo(dir.path());
         dir.write(".tollgate.yaml", policy_text(k_ceiling_rule, true));
@@ -315,7 +316,7 @@ TEST_CASE("check grandfathers a function already above a ceiling in a trusted ba
         const auto result = run_tollgate(
             "check --no-pch-cache --no-color --base " + base + " --head " + head, dir.path());
         CHECK(result.exit_code == 1);
-        CHECK(result.out.find("grandfathered") == std::string::npos);
+        CHECK(result.out.find("tolerated") == std::string::npos);
     }
 }
 

@@ -78,6 +78,16 @@ struct PushSetup {
     }
 };
 
+// Write a pre-push hook into `setup`'s work repository that runs tollgate with `arguments`.
+void write_hook(const PushSetup& setup, const std::string& arguments) {
+    const std::string hook = setup.work + "/.git/hooks/pre-push";
+    setup.dir.write("work/.git/hooks/pre-push",
+                    "#!/bin/sh\nexec " +
+                        tollgate::test::shell_quote(tollgate::test::tollgate_binary()) + " " +
+                        arguments + " -- \"$@\"\n");
+    std::filesystem::permissions(hook, std::filesystem::perms::owner_all);
+}
+
 } // namespace
 
 TEST_CASE("parse_pushed_refs reads git's pre-push input", "[hook]") {
@@ -161,6 +171,78 @@ TEST_CASE("tollgate hook run blocks a real git push the policy blocks", "[hook]"
         CHECK(push.exit_code == 0);
         CHECK(push.err.find("nothing to judge (the ref is deleted)") != std::string::npos);
         CHECK(setup.remote_tip("old").empty());
+    }
+}
+
+TEST_CASE("tollgate hook run skips tag pushes, runs warn-only and lets one push through",
+          "[hook]") {
+    PushSetup setup;
+    const auto installed = run_tollgate("hook install", setup.work);
+    INFO(installed.err);
+    REQUIRE(installed.exit_code == 0);
+    git("checkout -q -b grow", setup.work);
+    setup.dir.write("work/src/scale.c", k_grown_source);
+    const std::string grown = commit_all(setup.work, "grow");
+
+    SECTION("a pushed tag is not judged by default") {
+        git("tag v2-candidate", setup.work);
+        const auto push = run_command("git push origin v2-candidate", setup.work);
+        INFO(push.err);
+        CHECK(push.exit_code == 0);
+        CHECK(push.err.find("refs/tags/v2-candidate: nothing to judge (a tag push; \"hook run "
+                            "--tags\" judges tags too)") != std::string::npos);
+        CHECK(run_command("git rev-parse --verify --quiet refs/tags/v2-candidate", setup.remote)
+                  .exit_code == 0);
+    }
+    SECTION("with --tags a pushed tag is judged like a branch") {
+        write_hook(setup, "hook run --tags");
+        git("tag v2-candidate", setup.work);
+        const auto push = run_command("git push origin v2-candidate", setup.work);
+        INFO(push.err);
+        CHECK(push.exit_code != 0);
+        CHECK(push.err.find("BLOCKED") != std::string::npos);
+    }
+    SECTION("TOLLGATE_HOOK=warn judges the push and lets it through") {
+        const auto push = run_command("TOLLGATE_HOOK=warn git push origin grow", setup.work);
+        INFO(push.err);
+        CHECK(push.exit_code == 0);
+        CHECK(push.err.find("would block: effort") != std::string::npos);
+        CHECK(push.err.find("verdict: pass (advisory run: 1 finding would block)") !=
+              std::string::npos);
+        CHECK(push.err.find("tollgate: warn-only: the push goes ahead whatever the findings") !=
+              std::string::npos);
+        CHECK(setup.remote_tip("grow") == grown + "\n");
+    }
+    SECTION("a hook written with --warn-only lets a blocked change through") {
+        write_hook(setup, "hook run --warn-only");
+        const auto push = run_command("git push origin grow", setup.work);
+        INFO(push.err);
+        CHECK(push.exit_code == 0);
+        CHECK(push.err.find("would block: effort") != std::string::npos);
+        CHECK(setup.remote_tip("grow") == grown + "\n");
+    }
+    SECTION("TOLLGATE_HOOK=off lets one push through unjudged") {
+        const auto stopped = run_command("git push origin grow", setup.work);
+        CHECK(stopped.exit_code != 0);
+        CHECK(stopped.err.find("tollgate: push stopped (bypass the hook once with \"git push "
+                               "--no-verify\" or \"TOLLGATE_HOOK=off git push\"; "
+                               "\"TOLLGATE_HOOK=warn git push\" judges without blocking)") !=
+              std::string::npos);
+        const auto push = run_command("TOLLGATE_HOOK=off git push origin grow", setup.work);
+        INFO(push.err);
+        CHECK(push.exit_code == 0);
+        CHECK(push.err.find("tollgate: TOLLGATE_HOOK=off: this push is not judged") !=
+              std::string::npos);
+        CHECK(push.err.find("verdict") == std::string::npos);
+        CHECK(setup.remote_tip("grow") == grown + "\n");
+    }
+    SECTION("an unknown TOLLGATE_HOOK value stops the push and names the values") {
+        const auto push = run_command("TOLLGATE_HOOK=of git push origin grow", setup.work);
+        CHECK(push.exit_code != 0);
+        CHECK(push.err.find("tollgate: error: TOLLGATE_HOOK must be \"judge\", \"warn\" or "
+                            "\"off\", not \"of\" (unset it to judge the push)") !=
+              std::string::npos);
+        CHECK(setup.remote_tip("grow").empty());
     }
 }
 

@@ -121,13 +121,13 @@ TEST_CASE("check judges a change to C++ and Java with one report and one verdict
     CHECK(markdown.find("convention c-family/2, java/1") != std::string::npos);
 }
 
-TEST_CASE("check applies the policy's path globs and overrides to Java paths", "[java]") {
-    SECTION("an override for **/*.java turns the Java finding into a warning") {
+TEST_CASE("check applies the policy's path globs and scopes to Java paths", "[java]") {
+    SECTION("a scope for **/*.java turns the Java finding into a warning") {
         TempDir dir;
         const History h =
             mixed_history(dir, std::string(k_policy) + "paths:\n"
-                                                       "  overrides:\n"
-                                                       "    - match: \"**/*.java\"\n"
+                                                       "  scopes:\n"
+                                                       "    - glob: \"**/*.java\"\n"
                                                        "      rules:\n"
                                                        "        effort-growth: {level: warning}\n");
         const auto result = run_tollgate(

@@ -39,11 +39,12 @@ TEST_CASE("tollgate policy validates a policy file", "[policy]") {
         CHECK(result.exit_code == 0);
         CHECK(result.err == "tollgate: ok.yaml is a valid policy\n");
         CHECK(result.out == "# effective policy: ok.yaml\n"
-                            "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules:\n"
+                            "tollgate-policy: 1\njudge-with: base\nadvisory: false\n"
+                            "change-exemptions: refuse\nnoise-floor: {}\nrules:\n"
                             "  - id: g\n    kind: growth\n    measure: volume\n"
                             "    max-increase-percent: 10\n    level: blocking\n"
-                            "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                            "waivers: []\nbaseline:\n  grandfather: true\n"
+                            "paths:\n  include: [\"**\"]\n  exclude: []\n  scopes: []\n"
+                            "waivers: []\nbaseline:\n  tolerate-existing: true\n"
                             "inactive-code: judge\nunmeasured-lines: off\n");
     }
     SECTION("without a file, .tollgate.yaml at the repository root is read") {

@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// judge: every rule kind, the noise floor, path scopes and overrides, waivers and the outcome,
+// judge: every rule kind, the noise floor, paths and their scopes, waivers and the outcome,
 // on change reports built by hand from Halstead counts (see policy_test_support.hpp).
 #include "gate/policy/judge.hpp"
 #include "gate/policy/policy.hpp"
@@ -253,7 +253,7 @@ TEST_CASE("judge keeps to the policy's include and exclude globs", "[policy]") {
           std::vector<std::string>{"4 functions are outside the policy's paths and not judged"});
 }
 
-TEST_CASE("judge applies path overrides", "[policy]") {
+TEST_CASE("judge applies path scopes", "[policy]") {
     const auto report =
         report_of({changed("test_grow", "tests/test_a.cpp", 7, small_measures(), large_measures()),
                    changed("grow", "src/a.cpp", 7, small_measures(), large_measures())});
@@ -264,11 +264,11 @@ TEST_CASE("judge applies path overrides", "[policy]") {
 
     SECTION("a relaxed limit and level apply to matched paths only") {
         const Verdict verdict = judge(policy_from(rules + R"(paths:
-  overrides:
-    - match: "tests/**"
+  scopes:
+    - glob: "tests/**"
       rules:
         effort-growth: {max-increase-percent: 200, level: warning}
-        difficulty-ceiling: off
+        difficulty-ceiling: skip
 )"),
                                       report, k_options);
         CHECK(messages(verdict) ==
@@ -282,9 +282,9 @@ TEST_CASE("judge applies path overrides", "[policy]") {
     }
     SECTION("a limit relaxed past the growth gives no finding") {
         const Verdict verdict = judge(policy_from(rules + R"(paths:
-  overrides:
-    - match: "tests/*.cpp"
-      rules: {effort-growth: {max-increase-percent: 400}, difficulty-ceiling: off}
+  scopes:
+    - glob: "tests/*.cpp"
+      rules: {effort-growth: {max-increase-percent: 400}, difficulty-ceiling: skip}
 )"),
                                       report, k_options);
         for (const auto& f : verdict.findings) {
@@ -292,13 +292,13 @@ TEST_CASE("judge applies path overrides", "[policy]") {
         }
         CHECK(verdict.findings.size() == 2);
     }
-    SECTION("a later override wins over an earlier one") {
+    SECTION("a later scope wins over an earlier one") {
         const Verdict verdict = judge(policy_from(rules + R"(paths:
-  overrides:
-    - match: "**"
-      rules: {effort-growth: off, difficulty-ceiling: off}
-    - match: "src/**"
-      rules: {effort-growth: on}
+  scopes:
+    - glob: "**"
+      rules: {effort-growth: skip, difficulty-ceiling: skip}
+    - glob: "src/**"
+      rules: {effort-growth: judge}
 )"),
                                       report, k_options);
         REQUIRE(verdict.findings.size() == 1);
@@ -397,7 +397,7 @@ TEST_CASE("judge decides the outcome from the findings' levels", "[policy]") {
     }
 }
 
-TEST_CASE("judge grandfathers ceiling findings already in the baseline", "[policy]") {
+TEST_CASE("judge tolerates ceiling findings already in the baseline", "[policy]") {
     const auto report =
         report_of({changed("old", "src/a.c", 1, large_measures(), large_measures()),
                    changed("worse", "src/a.c", 30, small_measures(), large_measures())});
@@ -411,23 +411,23 @@ TEST_CASE("judge grandfathers ceiling findings already in the baseline", "[polic
     };
     const std::string rules =
         "rules:\n  - {id: difficulty-ceiling, kind: ceiling, measure: difficulty, ceiling: 10}\n";
-    SECTION("with grandfathering on, a finding no worse than the baseline does not block") {
+    SECTION("with tolerate-existing on, a finding no worse than the baseline does not block") {
         const Verdict verdict =
-            judge(policy_from(rules + "baseline: {grandfather: true}\n"), report, options);
+            judge(policy_from(rules + "baseline: {tolerate-existing: true}\n"), report, options);
         REQUIRE(verdict.findings.size() == 2);
         CHECK(verdict.findings[0].function == "worse");
-        CHECK_FALSE(verdict.findings[0].grandfathered);
-        CHECK(verdict.findings[1].grandfathered);
+        CHECK_FALSE(verdict.findings[0].tolerated);
+        CHECK(verdict.findings[1].tolerated);
         CHECK(verdict.findings[1].message ==
               "src/a.c:1: old(): difficulty 12 (base 12) exceeds the ceiling 10 by 2 (rule "
-              "\"difficulty-ceiling\", blocking, grandfathered: the baseline has 12)");
+              "\"difficulty-ceiling\", blocking, tolerated: the baseline has 12)");
         CHECK(verdict.outcome == Outcome::blocked);
     }
-    SECTION("with grandfathering off, the lookup is not used") {
+    SECTION("with tolerate-existing off, the lookup is not used") {
         const Verdict verdict =
-            judge(policy_from(rules + "baseline: {grandfather: false}\n"), report, options);
+            judge(policy_from(rules + "baseline: {tolerate-existing: false}\n"), report, options);
         for (const auto& f : verdict.findings) {
-            CHECK_FALSE(f.grandfathered);
+            CHECK_FALSE(f.tolerated);
         }
     }
 }

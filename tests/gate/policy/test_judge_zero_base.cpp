@@ -105,7 +105,7 @@ TEST_CASE("judge treats growth from a zero base as growth", "[policy]") {
     }
 }
 
-TEST_CASE("judge has no zero-base hole in ceilings, budgets and grandfathering", "[policy]") {
+TEST_CASE("judge has no zero-base hole in ceilings, budgets and tolerated findings", "[policy]") {
     const auto report =
         report_of({changed("stub", "src/stub.c", 7, empty_function(), large_measures())});
 
@@ -127,21 +127,21 @@ TEST_CASE("judge has no zero-base hole in ceilings, budgets and grandfathering",
         REQUIRE(verdict.findings.size() == 1);
         CHECK(verdict.findings[0].value == 3072.0);
     }
-    SECTION("a baseline value of zero grandfathers nothing") {
+    SECTION("a baseline value of zero tolerates nothing") {
         JudgeOptions o = options();
         o.baseline_lookup = [](const std::string&) -> std::optional<core::Measures> {
             return empty_function();
         };
         const Verdict verdict = judge(policy_from(R"(rules:
   - {id: effort-ceiling, kind: ceiling, measure: effort, ceiling: 0}
-baseline: {grandfather: true}
+baseline: {tolerate-existing: true}
 )"),
                                       report, o);
         REQUIRE(verdict.findings.size() == 1);
-        CHECK_FALSE(verdict.findings[0].grandfathered);
+        CHECK_FALSE(verdict.findings[0].tolerated);
         CHECK(verdict.outcome == Outcome::blocked);
     }
-    SECTION("a baseline value that is not a finite number grandfathers nothing") {
+    SECTION("a baseline value that is not a finite number tolerates nothing") {
         const double odd = GENERATE(std::nan(""), HUGE_VAL);
         JudgeOptions o = options();
         o.baseline_lookup = [odd](const std::string&) -> std::optional<core::Measures> {
@@ -151,11 +151,11 @@ baseline: {grandfather: true}
         };
         const Verdict verdict = judge(policy_from(R"(rules:
   - {id: effort-ceiling, kind: ceiling, measure: effort, ceiling: 100}
-baseline: {grandfather: true}
+baseline: {tolerate-existing: true}
 )"),
                                       report, o);
         REQUIRE(verdict.findings.size() == 1);
-        CHECK_FALSE(verdict.findings[0].grandfathered);
+        CHECK_FALSE(verdict.findings[0].tolerated);
     }
 }
 

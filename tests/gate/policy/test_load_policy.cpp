@@ -43,11 +43,11 @@ rules:
 paths:
   include: ["**"]
   exclude: ["third_party/**", "**/generated/**"]
-  overrides:
-    - match: "tests/**"
+  scopes:
+    - glob: "tests/**"
       rules:
-        effort-growth: {max-increase-percent: 100, max-increase: off, level: warning}
-        bugs-ceiling: off
+        effort-growth: {max-increase-percent: 100, max-increase: none, level: warning}
+        bugs-ceiling: skip
 waivers:
   - file: "src/legacy/**"
     function: "Parser::*"
@@ -56,7 +56,7 @@ waivers:
     expires: 2027-03-31
 baseline:
   path: baselines/snapshot.json
-  grandfather: true
+  tolerate-existing: true
 )",
                                       "full.yaml");
     CHECK(policy.judge_with == JudgeWith::head);
@@ -78,19 +78,19 @@ baseline:
     CHECK(policy.rules[3].max_total_increase == 20000.0);
     CHECK(policy.paths.include == std::vector<std::string>{"**"});
     CHECK(policy.paths.exclude == std::vector<std::string>{"third_party/**", "**/generated/**"});
-    REQUIRE(policy.paths.overrides.size() == 1);
-    const auto& rules = policy.paths.overrides[0].rules;
+    REQUIRE(policy.paths.scopes.size() == 1);
+    const auto& rules = policy.paths.scopes[0].rules;
     REQUIRE(rules.size() == 2);
     CHECK(rules[0].rule_id == "effort-growth");
-    CHECK(rules[0].max_increase_percent == LimitOverride{LimitSetting::set, 100});
+    CHECK(rules[0].max_increase_percent == ScopedLimit{LimitSetting::set, 100});
     CHECK(rules[0].max_increase.setting == LimitSetting::remove);
     CHECK(rules[0].level == Level::warning);
-    CHECK(rules[1].state == RuleSwitch::off);
+    CHECK(rules[1].state == RuleSwitch::skip);
     REQUIRE(policy.waivers.size() == 1);
     CHECK(policy.waivers[0].expires == "2027-03-31");
     CHECK(policy.waivers[0].rules == std::vector<std::string>{"effort-growth"});
     CHECK(policy.baseline.path == "baselines/snapshot.json");
-    CHECK(policy.baseline.grandfather == Grandfathering::on);
+    CHECK(policy.baseline.tolerate_existing == Tolerance::on);
 }
 
 TEST_CASE("load_policy fills defaults for keys left out", "[policy]") {
@@ -100,8 +100,41 @@ TEST_CASE("load_policy fills defaults for keys left out", "[policy]") {
     CHECK(policy.noise_floor.empty());
     CHECK(policy.paths.include == std::vector<std::string>{"**"});
     CHECK(policy.paths.exclude.empty());
-    // Grandfathering is on unless turned off: it only acts when a baseline snapshot is used.
-    CHECK(policy.baseline.grandfather == Grandfathering::on);
+    // Tolerating existing findings is on unless turned off: it only acts when a baseline
+    // snapshot is used.
+    CHECK(policy.baseline.tolerate_existing == Tolerance::on);
+}
+
+TEST_CASE("load_policy names the new key when a key of an earlier draft is used", "[policy]") {
+    const std::string rules =
+        "tollgate-policy: 1\nrules: [{id: g, kind: growth, measure: effort, max-increase: 1}]\n";
+    SECTION("the per-path block and its glob key") {
+        CHECK(
+            problems(rules + "paths:\n  overrides:\n    - {match: \"t/**\", rules: {g: skip}}\n") ==
+            std::vector<std::string>{".tollgate.yaml:4:3: unknown key \"overrides\" in \"paths\" "
+                                     "(it is now called \"scopes\")"});
+        CHECK(problems(rules + "paths:\n  scopes:\n    - {match: \"t/**\", rules: {g: skip}}\n") ==
+              std::vector<std::string>{".tollgate.yaml:5:8: unknown key \"match\" in a scope (it "
+                                       "is now called \"glob\")"});
+    }
+    SECTION("the rule values of a scope") {
+        CHECK(problems(rules + "paths:\n  scopes:\n    - {glob: \"t/**\", rules: {g: off}}\n") ==
+              std::vector<std::string>{".tollgate.yaml:5:33: \"g\" must be \"skip\" or "
+                                       "\"judge\", not \"off\" (write \"skip\")"});
+        CHECK(problems(rules + "paths:\n  scopes:\n    - {glob: \"t/**\", rules: {g: on}}\n") ==
+              std::vector<std::string>{".tollgate.yaml:5:33: \"g\" must be \"skip\" or "
+                                       "\"judge\", not \"on\" (write \"judge\")"});
+        CHECK(problems(rules + "paths:\n  scopes:\n    - {glob: \"t/**\", rules: {g: "
+                               "{max-increase: off}}}\n") ==
+              std::vector<std::string>{".tollgate.yaml:5:48: \"max-increase\" must be a number "
+                                       "or \"none\", not \"off\" (write \"none\" to remove the "
+                                       "limit on these paths)"});
+    }
+    SECTION("the baseline's switch") {
+        CHECK(problems("tollgate-policy: 1\nbaseline: {grandfather: true}\n") ==
+              std::vector<std::string>{".tollgate.yaml:2:12: unknown key \"grandfather\" in "
+                                       "\"baseline\" (it is now called \"tolerate-existing\")"});
+    }
 }
 
 TEST_CASE("load_policy reports broken policies with file:line:column", "[policy]") {
@@ -113,7 +146,7 @@ TEST_CASE("load_policy reports broken policies with file:line:column", "[policy]
     SECTION("an unknown key with no near name lists the expected keys") {
         CHECK(problems("tollgate-policy: 1\npaths:\n  zzzzzz: []\n") ==
               std::vector<std::string>{".tollgate.yaml:3:3: unknown key \"zzzzzz\" in \"paths\" "
-                                       "(expected \"include\", \"exclude\" or \"overrides\")"});
+                                       "(expected \"include\", \"exclude\" or \"scopes\")"});
     }
     SECTION("an unknown measure gets a did-you-mean") {
         CHECK(problems("tollgate-policy: 1\nrules:\n  - id: effort-growth\n    kind: growth\n"
@@ -170,13 +203,13 @@ waivers:
 )") == std::vector<std::string>{".tollgate.yaml:4:5: a waiver has no \"reason\" (say why the "
                                 "function is exempt; a waiver needs a reason)"});
     }
-    SECTION("a waiver or override naming an unknown rule gets a did-you-mean") {
+    SECTION("a waiver or scope naming an unknown rule gets a did-you-mean") {
         CHECK(problems(R"(tollgate-policy: 1
 rules: [{id: effort-growth, kind: growth, measure: effort, max-increase: 1}]
 paths:
-  overrides:
-    - match: "tests/**"
-      rules: {efort-growth: off}
+  scopes:
+    - glob: "tests/**"
+      rules: {efort-growth: skip}
 waivers:
   - {file: "a/**", function: f, rules: [effort-grwth], reason: r}
 )") == std::vector<std::string>{".tollgate.yaml:6:15: unknown rule \"efort-growth\" (did you mean "
@@ -262,12 +295,14 @@ rules:
 paths:
   include: ["src/**", "lib/*.c"]
   exclude: ["**/gen erated/**"]
-  overrides:
-    - {match: "*", rules: {g: {max-increase: off, level: warning}, b: off}}
-    - {match: "t/**", rules: {g: on}}
+  scopes:
+    - {glob: "*", rules: {g: {max-increase: none, level: warning}, b: skip}}
+    - {glob: "t/**", rules: {g: judge}}
 waivers:
   - {file: "x/**", function: "A::*", rules: [g, b], reason: "it's: \"quoted\"", expires: 2028-02-29}
-baseline: {path: "snap shot.json", grandfather: false}
+baseline: {path: "snap shot.json", tolerate-existing: false}
+advisory: true
+change-exemptions: accept
 )",
                                       "p.yaml");
     const std::string text = describe_policy(policy);
@@ -277,9 +312,10 @@ baseline: {path: "snap shot.json", grandfather: false}
     }
     SECTION("every default is written out") {
         const std::string minimal = describe_policy(load_policy("tollgate-policy: 1\n", "m"));
-        CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules: []\n"
-                         "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                         "waivers: []\nbaseline:\n  grandfather: true\n"
+        CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nadvisory: false\n"
+                         "change-exemptions: refuse\nnoise-floor: {}\nrules: []\n"
+                         "paths:\n  include: [\"**\"]\n  exclude: []\n  scopes: []\n"
+                         "waivers: []\nbaseline:\n  tolerate-existing: true\n"
                          "inactive-code: judge\nunmeasured-lines: off\n");
     }
 }
@@ -326,7 +362,7 @@ TEST_CASE("load_policy refuses numbers that are not finite or are negative", "[p
                      odd + "\n") ==
             std::vector<std::string>{".tollgate.yaml:6:27: \"max-increase-percent" + column_text});
     }
-    SECTION("as a ceiling, a budget and an override's limit") {
+    SECTION("as a ceiling, a budget and a scope's limit") {
         CHECK(problems("tollgate-policy: 1\nrules:\n  - {id: c, kind: ceiling, measure: volume, "
                        "ceiling: " +
                        odd + "}\n")
@@ -336,7 +372,7 @@ TEST_CASE("load_policy refuses numbers that are not finite or are negative", "[p
                        odd + "}\n")
                   .size() == 1);
         CHECK(problems("tollgate-policy: 1\nrules:\n  - {id: g, kind: growth, measure: effort, "
-                       "max-increase: 5}\npaths:\n  overrides:\n    - match: \"a/**\"\n"
+                       "max-increase: 5}\npaths:\n  scopes:\n    - glob: \"a/**\"\n"
                        "      rules: {g: {max-increase: " +
                        odd + "}}\n") ==
               std::vector<std::string>{".tollgate.yaml:7:33: \"max-increase" + column_text});

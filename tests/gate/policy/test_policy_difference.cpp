@@ -51,12 +51,12 @@ waivers:
                   "\"just this once\", expires never)"});
     }
     SECTION("an override turning a rule off is shown") {
-        const Policy head = load_policy(std::string(k_base) + R"(  overrides:
-    - {match: "src/**", rules: {effort-growth: off}}
+        const Policy head = load_policy(std::string(k_base) + R"(  scopes:
+    - {glob: "src/**", rules: {effort-growth: skip}}
 )",
                                         "head");
         CHECK(policy_difference(base, head) ==
-              std::vector<std::string>{"paths.overrides[\"src/**\"]: only in head (match "
-                                       "\"src/**\", effort-growth off)"});
+              std::vector<std::string>{"paths.scopes[\"src/**\"]: only in head (glob "
+                                       "\"src/**\", effort-growth skip)"});
     }
 }

@@ -33,8 +33,8 @@ TEST_CASE("the ready policies load with their documented values", "[policy]") {
         CHECK(rule(policy, "effort-growth").max_increase_percent == 50.0);
         CHECK(rule(policy, "effort-growth").max_increase == 20000.0);
         CHECK(rule(policy, "new-function-volume").level == Level::warning);
-        REQUIRE(policy.paths.overrides.size() == 1);
-        CHECK(policy.paths.overrides[0].match == "tests/**");
+        REQUIRE(policy.paths.scopes.size() == 1);
+        CHECK(policy.paths.scopes[0].glob == "tests/**");
         CHECK(policy.waivers.empty());
     }
     SECTION("strict") {
@@ -47,7 +47,7 @@ TEST_CASE("the ready policies load with their documented values", "[policy]") {
     }
     SECTION("legacy") {
         const Policy policy = ready("legacy.yaml");
-        CHECK(policy.baseline.grandfather == Grandfathering::on);
+        CHECK(policy.baseline.tolerate_existing == Tolerance::on);
         CHECK_FALSE(rule(policy, "effort-growth").max_increase_percent.has_value());
         CHECK(rule(policy, "effort-growth-percent").level == Level::warning);
         CHECK(policy.paths.include == std::vector<std::string>{"src/**", "lib/**", "include/**"});

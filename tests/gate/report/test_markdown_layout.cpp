@@ -133,8 +133,9 @@ TEST_CASE("write_change_markdown shows a blocked function first whatever its gro
                              0) == 0);
         // One entry per function: the blocked one appears once as a name, once in its command.
         CHECK(test::occurrences(markdown, s.blocked) == 2);
-        CHECK(markdown.find("why: `tollgate explain src/filters/dense.cpp:" + s.blocked + "`") !=
-              std::string::npos);
+        CHECK(markdown.find("why: `tollgate explain --change 1111111111..2222222222 "
+                            "src/filters/dense.cpp:" +
+                            s.blocked + "`") != std::string::npos);
     }
     const auto html = test::render_gfm(markdown);
     if (!html) {

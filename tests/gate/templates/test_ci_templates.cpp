@@ -234,6 +234,45 @@ TEST_CASE("tollgate-gate.sh gates a real repository", "[templates]") {
         REQUIRE(sarif["runs"][0]["results"].size() == 1);
         CHECK(sarif["runs"][0]["results"][0]["ruleId"] == "effort-growth");
     }
+    SECTION("a restored baselines/snapshot.json is passed with --baseline") {
+        dir.write("repo/gain.c", "int gain(int v, int k) {\n    return v * k;\n}\n");
+        const std::string head = commit_all(repo, "rename");
+        // As a job restores the default branch's snapshot from its cache: untracked, and of
+        // another commit than the change's base.
+        const auto snapshot =
+            run_command(shell_quote(TOLLGATE_BINARY) + " snapshot --no-pch-cache --rev " + head +
+                            " --out baselines/snapshot.json",
+                        repo);
+        REQUIRE(snapshot.exit_code == 0);
+        const auto result =
+            run_command(env + "bash " + script + " --base " + base + " --out ../out", repo);
+        INFO(result.err);
+        CHECK(result.exit_code == 0);
+        CHECK(result.out.find("note: the baseline snapshot baselines/snapshot.json is of commit " +
+                              head.substr(0, 7) + ", not the base " + base.substr(0, 7)) !=
+              std::string::npos);
+    }
+    SECTION("--advisory and TOLLGATE_ADVISORY=yes report what would block and pass") {
+        dir.write("repo/gain.c", "int gain(int x, int k) {\n"
+                                 "    int y = x * k + 3;\n"
+                                 "    if (y > 100 || y < -100) {\n"
+                                 "        y = y > 0 ? 100 : -100;\n"
+                                 "    }\n"
+                                 "    return y - x % 5;\n"
+                                 "}\n");
+        commit_all(repo, "grow");
+        for (const std::string& way : {"TOLLGATE_ADVISORY=yes bash " + script + " --base " + base,
+                                       "bash " + script + " --advisory --base " + base}) {
+            const auto result = run_command(env + way + " --out ../out", repo);
+            INFO(way << "\n" << result.err);
+            CHECK(result.exit_code == 0);
+            CHECK(read_text(dir.path() + "/out/tollgate.md")
+                      .find("#### Would block the merge (advisory run: it passes)") !=
+                  std::string::npos);
+            const auto json = nlohmann::json::parse(read_text(dir.path() + "/out/tollgate.json"));
+            CHECK(json["verdict"]["outcome"] == "would-block");
+        }
+    }
     SECTION("an unknown option is a usage error") {
         const auto result = run_command(env + "bash " + script + " --bogus", repo);
         CHECK(result.exit_code == 2);
