@@ -173,7 +173,7 @@ std::string describe_policy(const Policy& policy) {
         out << YAML::Key << "level" << YAML::Value << level_name(policy.unmeasured_lines.level);
         out << YAML::EndMap;
     } else {
-        out << "off";
+        out << "none";
     }
 
     out << YAML::EndMap;
@@ -230,7 +230,7 @@ std::vector<Setting> flatten(const Policy& policy) {
         policy.unmeasured_lines.limit
             ? "{limit " + plain_number(*policy.unmeasured_lines.limit) + ", level " +
                   level_name(policy.unmeasured_lines.level) + "}"
-            : std::string("off"));
+            : std::string("none"));
     for (const auto& rule : policy.rules) {
         const std::string group = "rules[" + quote(rule.id) + "]";
         add(group, "kind", rule_kind_name(rule.kind));

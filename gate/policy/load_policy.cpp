@@ -432,11 +432,11 @@ Policy PolicyReader::read(const YAML::Node& root) {
 }
 
 void PolicyReader::read_unmeasured_lines(const YAML::Node& node, Policy& policy) {
-    if (node.IsScalar() && node.Scalar() == "off") {
+    if (node.IsScalar() && node.Scalar() == "none") {
         return; // the default: the reports list such lines, nothing more
     }
     if (!node.IsMap()) {
-        error(node.Mark(), "\"unmeasured-lines\" must be \"off\" or a map with \"limit\" and "
+        error(node.Mark(), "\"unmeasured-lines\" must be \"none\" or a map with \"limit\" and "
                            "\"level\", not " +
                                shape_of(node));
         return;

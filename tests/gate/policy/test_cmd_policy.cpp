@@ -45,7 +45,7 @@ TEST_CASE("tollgate policy validates a policy file", "[policy]") {
                             "    max-increase-percent: 10\n    level: blocking\n"
                             "paths:\n  include: [\"**\"]\n  exclude: []\n  scopes: []\n"
                             "waivers: []\nbaseline:\n  tolerate-existing: true\n"
-                            "inactive-code: judge\nunmeasured-lines: off\n");
+                            "inactive-code: judge\nunmeasured-lines: none\n");
     }
     SECTION("without a file, .tollgate.yaml at the repository root is read") {
         dir.write(".tollgate.yaml", "tollgate-policy: 1\njudge-with: head\n");

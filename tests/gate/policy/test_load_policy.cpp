@@ -316,7 +316,7 @@ change-exemptions: accept
                          "change-exemptions: refuse\nnoise-floor: {}\nrules: []\n"
                          "paths:\n  include: [\"**\"]\n  exclude: []\n  scopes: []\n"
                          "waivers: []\nbaseline:\n  tolerate-existing: true\n"
-                         "inactive-code: judge\nunmeasured-lines: off\n");
+                         "inactive-code: judge\nunmeasured-lines: none\n");
     }
 }
 
