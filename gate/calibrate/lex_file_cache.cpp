@@ -334,4 +334,9 @@ CacheCounts LexFileCache::counts() const {
     return m_counts;
 }
 
+std::vector<std::string> LexFileCache::blob_keys() const {
+    std::lock_guard<std::mutex> lock(m_mutex);
+    return {m_blobs.begin(), m_blobs.end()};
+}
+
 } // namespace tollgate::calibrate

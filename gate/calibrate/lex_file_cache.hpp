@@ -12,6 +12,7 @@
 #include <set>
 #include <string>
 #include <thread>
+#include <vector>
 
 namespace tollgate::calibrate {
 
@@ -67,6 +68,8 @@ public:
 
     // Return the counts so far.
     CacheCounts counts() const;
+    // Return the content keys (content_key) of the distinct file contents visited so far, sorted.
+    std::vector<std::string> blob_keys() const;
     // Return the folder.
     const std::string& dir() const { return m_dir; }
 

@@ -4,11 +4,14 @@
 #include "gate/calibrate/distribution.hpp"
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "gate/calibrate/replay.hpp"
+#include "gate/calibrate/shard_replay.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/run_cli.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/shard_spec.hpp"
+#include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
@@ -52,6 +55,8 @@ struct CalibrateOptions {
     bool no_pch_cache = false;         // --no-pch-cache
     double stroud = 18.0;              // --stroud
     std::size_t rename_limit = 400;    // --rename-limit
+    std::string shard;                 // --shard K/N
+    std::vector<std::string> merge;    // --merge PART...
 };
 
 // Raised by SIGINT; the replay's workers take no new commit once it is set.
@@ -159,15 +164,53 @@ private:
     std::chrono::steady_clock::time_point m_start;
 };
 
+int report_replay(const CalibrateOptions& options, const calibrate::Replay& replay,
+                  const calibrate::CacheCounts& cache_counts, double seconds, unsigned threads);
+
+// The options and settings that decide a replay's result; every shard of one run must agree.
+std::map<std::string, std::string> replay_identity(const CalibrateOptions& options,
+                                                   const calibrate::ReplaySettings& settings) {
+    return {{"range", options.range},
+            {"default-branch", options.default_branch},
+            {"max-commits", std::to_string(options.max_commits)},
+            {"since", options.since},
+            {"convention", java::build_fingerprint(settings.measure.convention)},
+            {"stroud", fmt::format("{}", options.stroud)},
+            {"rename-limit", std::to_string(options.rename_limit)},
+            {"compile-commands", calibrate::content_key(settings.measure.compile_commands_json)}};
+}
+
+// calibrate --merge: the parts' replays joined, then reported as one run reports.
+int run_calibrate_merge(const CalibrateOptions& options) {
+    std::vector<calibrate::ReplayPart> parts;
+    for (const auto& path : options.merge) {
+        parts.push_back(calibrate::read_replay_part(path));
+    }
+    const calibrate::MergedReplay merged =
+        calibrate::merge_replay_parts(std::move(parts), options.merge);
+    return report_replay(options, merged.replay, merged.cache, merged.seconds, merged.threads);
+}
+
 int run_calibrate(const CalibrateOptions& options) {
     apply_isolation_options(options.isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
     }
-    const auto measures = parse_measures(options.measures);
-    std::optional<policy::Policy> draft;
+    // Checked before the replay, so a mistake costs nothing.
+    (void)parse_measures(options.measures);
     if (!options.policy_path.empty()) {
-        draft = policy::load_policy_file(options.policy_path);
+        (void)policy::load_policy_file(options.policy_path);
+    }
+    if (!options.merge.empty()) {
+        return run_calibrate_merge(options);
+    }
+    std::optional<ShardSpec> shard;
+    if (!options.shard.empty()) {
+        shard = parse_shard_spec(options.shard, "--shard");
+        if (options.suggest || !options.policy_path.empty() || !options.html.empty()) {
+            throw UsageError("--shard writes a partial result: give --policy, --suggest and "
+                             "--html to \"tollgate calibrate --merge\" instead");
+        }
     }
     const std::string repository_path = std::filesystem::current_path().string();
     const auto repository = walker::Repository::open(repository_path);
@@ -179,7 +222,9 @@ int run_calibrate(const CalibrateOptions& options) {
     if (!options.since.empty()) {
         query.since = parse_since(options.since);
     }
-    const walker::History history = walker::first_parent_history(repository, query);
+    const walker::History full_history = walker::first_parent_history(repository, query);
+    const walker::History history =
+        shard ? calibrate::shard_history(full_history, *shard) : full_history;
 
     // Without a cache folder ($HOME unset and no $TOLLGATE_CACHE_DIR) the system's temporary
     // folder still lets repeated runs share parses.
@@ -222,13 +267,42 @@ int run_calibrate(const CalibrateOptions& options) {
     }
     progress.finish();
 
+    const double seconds =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    if (shard) { // a partial result for calibrate --merge, on stdout
+        calibrate::ReplayPart part;
+        part.shard = *shard;
+        part.tool_version = TOLLGATE_VERSION;
+        part.settings = replay_identity(options, settings);
+        part.history = full_history;
+        part.replay = std::move(replay);
+        part.cache = cache.counts();
+        part.blobs = cache.blob_keys();
+        part.seconds = seconds;
+        part.threads = settings.threads;
+        std::cout << calibrate::replay_part_to_json(part);
+        return part.replay.end == calibrate::ReplayEnd::interrupted
+                   ? 130
+                   : static_cast<int>(ExitCode::pass);
+    }
+    return report_replay(options, replay, cache.counts(), seconds, settings.threads);
+}
+
+// Judge, summarise and write a finished replay as `options` ask; shared by a whole run and
+// calibrate --merge.
+int report_replay(const CalibrateOptions& options, const calibrate::Replay& replay,
+                  const calibrate::CacheCounts& cache_counts, double seconds, unsigned threads) {
+    const auto measures = parse_measures(options.measures);
+    std::optional<policy::Policy> draft;
+    if (!options.policy_path.empty()) {
+        draft = policy::load_policy_file(options.policy_path);
+    }
     calibrate::Calibration calibration;
     calibration.replay = &replay;
     calibration.distributions = calibrate::distribute(replay, measures);
-    calibration.cache = cache.counts();
-    calibration.seconds =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    calibration.threads = settings.threads;
+    calibration.cache = cache_counts;
+    calibration.seconds = seconds;
+    calibration.threads = threads;
     if (draft) {
         policy::JudgeOptions judge_options;
         judge_options.today = policy::current_date();
@@ -277,17 +351,20 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
         "check does, show percentiles and histograms of the deltas, count what a draft policy "
         "would have blocked, and suggest a policy at a percentile of the history. Progress goes "
         "to stderr on a terminal; Ctrl-C stops and prints the partial result (exit 130).");
-    sub.add_option("--range", options->range,
-                   "A..B: the first-parent commits of B not reachable from A (default: the "
-                   "default branch)");
-    sub.add_option("--default-branch", options->default_branch,
-                   "Branch replayed when --range is not given (default: the remote's HEAD, else "
-                   "main, else master)");
-    sub.add_option("--max-commits", options->max_commits,
-                   "Replay only the newest N commits (0 = all)")
-        ->capture_default_str();
-    sub.add_option("--since", options->since,
-                   "Replay only commits made on or after this date (YYYY-MM-DD, UTC)");
+    auto* range =
+        sub.add_option("--range", options->range,
+                       "A..B: the first-parent commits of B not reachable from A (default: the "
+                       "default branch)");
+    auto* branch = sub.add_option(
+        "--default-branch", options->default_branch,
+        "Branch replayed when --range is not given (default: the remote's HEAD, else "
+        "main, else master)");
+    auto* max_commits = sub.add_option("--max-commits", options->max_commits,
+                                       "Replay only the newest N commits (0 = all)")
+                            ->capture_default_str();
+    auto* since =
+        sub.add_option("--since", options->since,
+                       "Replay only commits made on or after this date (YYYY-MM-DD, UTC)");
     sub.add_option("--measure", options->measures,
                    "Measure to show, repeatable (default: volume, difficulty, effort)");
     sub.add_option("--policy", options->policy_path,
@@ -317,13 +394,28 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--rename-limit", options->rename_limit,
                    "Candidates compared per added file when looking for renames")
         ->capture_default_str();
+    auto* shard = sub.add_option("--shard", options->shard,
+                                 "Replay only the K-th of N contiguous blocks of the history and "
+                                 "write a partial result (JSON) on stdout for --merge")
+                      ->type_name("K/N");
+    sub.add_option("--merge", options->merge,
+                   "Join the partial results of every shard and report them as one whole run "
+                   "would (no repository needed)")
+        ->type_name("PART...")
+        ->excludes(shard)
+        ->excludes(range)
+        ->excludes(branch)
+        ->excludes(max_commits)
+        ->excludes(since);
     sub.footer("Examples:\n"
                "  tollgate calibrate                                 the last 300 commits of "
                "the default branch\n"
                "  tollgate calibrate --policy .tollgate.yaml         what it would have blocked\n"
                "  tollgate calibrate --suggest 95 --out draft.yaml   limits at the 95th "
                "percentile\n"
-               "  tollgate calibrate --range v1.0..main --format json --html calibrate.html");
+               "  tollgate calibrate --range v1.0..main --format json --html calibrate.html\n"
+               "  tollgate calibrate --shard 2/4 > part-2.json       one of four CI jobs\n"
+               "  tollgate calibrate --merge part-*.json --suggest 95   their joined result");
     sub.callback(
         [options, &selected] { selected = [options] { return run_calibrate(*options); }; });
 }

@@ -9,6 +9,8 @@
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
+#include <algorithm>
+
 namespace tollgate {
 
 SnapshotResult snapshot_revision(const SnapshotRequest& request) {
@@ -17,8 +19,19 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.compile_commands = request.compile_commands;
     sources.cache_dir = request.cache_dir;
     sources.no_cache = request.no_cache;
-    const LoadedSources loaded = load_sources(sources);
-    const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs);
+    LoadedSources loaded = load_sources(sources);
+    if (request.shard) { // the shard's files only; every header stays in the context
+        auto& selected = loaded.selected;
+        selected.erase(std::remove_if(selected.begin(), selected.end(),
+                                      [&](const SourceFile& file) {
+                                          return shard_of_path(file.path, request.shard->count) !=
+                                                 request.shard->index - 1;
+                                      }),
+                       selected.end());
+    }
+    const auto files = loaded.selected.empty()
+                           ? std::vector<lexer::FileFunctions>()
+                           : lexer::lex_files(loaded.selected, loaded.context, request.jobs);
 
     core::MeasureSettings settings;
     settings.stroud = request.stroud;

@@ -4,20 +4,23 @@
 #pragma once
 
 #include "gate/baseline/snapshot.hpp"
+#include "gate/common/shard_spec.hpp"
 
 #include <cstddef>
+#include <optional>
 #include <string>
 
 namespace tollgate {
 
 // What to measure, and how.
 struct SnapshotRequest {
-    std::string commit;           // full id of the commit to measure
-    std::string compile_commands; // compile_commands.json path, or empty for the default search
-    std::string cache_dir;        // precompiled-header cache; empty picks the default
-    bool no_cache = false;        // parse without the precompiled-header cache
-    unsigned jobs = 0;            // parser threads, 0 = all cores
-    double stroud = 18.0;         // Stroud number for T
+    std::string commit;             // full id of the commit to measure
+    std::string compile_commands;   // compile_commands.json path, or empty for the default search
+    std::string cache_dir;          // precompiled-header cache; empty picks the default
+    bool no_cache = false;          // parse without the precompiled-header cache
+    unsigned jobs = 0;              // parser threads, 0 = all cores
+    double stroud = 18.0;           // Stroud number for T
+    std::optional<ShardSpec> shard; // measure only the files of this shard (shard_of_path)
 };
 
 // The snapshot with what a summary line needs.
