@@ -12,6 +12,7 @@
 #include "gate/common/errors.hpp"
 #include "gate/common/shard_spec.hpp"
 #include "gate/java/java_front_end.hpp"
+#include "gate/lexer/isolation.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
@@ -55,6 +56,7 @@ struct CalibrateOptions {
     bool no_pch_cache = false;         // --no-pch-cache
     double stroud = 18.0;              // --stroud
     std::size_t rename_limit = 400;    // --rename-limit
+    unsigned preamble_units = 4;       // --preamble-units
     std::string shard;                 // --shard K/N
     std::vector<std::string> merge;    // --merge PART...
 };
@@ -193,6 +195,9 @@ int run_calibrate_merge(const CalibrateOptions& options) {
 
 int run_calibrate(const CalibrateOptions& options) {
     apply_isolation_options(options.isolation);
+    lexer::IsolationSettings isolation = lexer::current_isolation();
+    isolation.preamble_units = options.preamble_units;
+    lexer::set_isolation(isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
     }
@@ -393,6 +398,10 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     add_stroud_option(sub, options->stroud);
     sub.add_option("--rename-limit", options->rename_limit,
                    "Candidates compared per added file when looking for renames")
+        ->capture_default_str();
+    sub.add_option("--preamble-units", options->preamble_units,
+                   "Translation units each parser process keeps to reparse the next version of "
+                   "a file with its precompiled preamble (0 = parse every version from scratch)")
         ->capture_default_str();
     auto* shard = sub.add_option("--shard", options->shard,
                                  "Replay only the K-th of N contiguous blocks of the history and "

@@ -117,11 +117,14 @@ bool set_up(std::uint64_t memory_mib) {
 
 int run_lex_worker(int argc, char** argv) {
     std::uint64_t memory_mib = 0;
+    std::size_t preamble_units = 0;
     bool verbose = false;
     for (int i = 2; i < argc; ++i) {
         const std::string arg = argv[i];
         if (arg == "--memory-mib" && i + 1 < argc) {
             memory_mib = std::strtoull(argv[++i], nullptr, 10);
+        } else if (arg == "--preamble-units" && i + 1 < argc) {
+            preamble_units = std::strtoull(argv[++i], nullptr, 10);
         } else if (arg == "--verbose") {
             verbose = true;
         }
@@ -135,6 +138,7 @@ int run_lex_worker(int argc, char** argv) {
     }
     try {
         Lexer lexer;
+        lexer.keep_preambles(preamble_units);
         if (!isolate::write_frame(k_worker_socket_fd, encode_ready())) {
             return 0;
         }
