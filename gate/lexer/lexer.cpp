@@ -31,7 +31,7 @@ struct PreparedContext {
     std::vector<std::string> virtual_paths; // one per header, under k_virtual_root
     std::vector<CXUnsavedFile> unsaved;     // points into the context's headers
     std::vector<std::string> include_flags; // -I for every include folder
-    std::string header_digest;              // of every header's path and content
+    std::string header_digest;              // of every header's path
 };
 
 // A translation unit kept for reparsing, with what it was built from.
@@ -374,19 +374,18 @@ struct Lexer::Impl {
         if (entry.include_flags.empty()) {
             entry.include_flags.push_back("-I" + std::string(k_virtual_root));
         }
-        // Two 64-bit digests of every header: a preamble is reused only when both agree.
-        std::uint64_t first = 0xcbf29ce484222325ULL;
-        std::uint64_t second = context.headers.size();
+        // A digest of the header paths: a unit is reused only with the same set of in-memory
+        // files. Their contents may differ: libclang checks every file its preamble read
+        // (size and MD5 of each unsaved buffer) and builds the preamble anew when one changed;
+        // the headers after the preamble are read from the new buffers on every reparse.
+        std::uint64_t digest = 0xcbf29ce484222325ULL;
         for (const SourceFile& header : context.headers) {
-            for (const std::string* text : {&header.path, &header.content}) {
-                for (const unsigned char c : *text) {
-                    first = (first ^ c) * 0x100000001b3ULL;
-                }
-                first = (first ^ 0xffu) * 0x100000001b3ULL;
-                second = second * 31 + std::hash<std::string>()(*text);
+            for (const unsigned char c : header.path) {
+                digest = (digest ^ c) * 0x100000001b3ULL;
             }
+            digest = (digest ^ 0xffu) * 0x100000001b3ULL;
         }
-        entry.header_digest = std::to_string(first) + "." + std::to_string(second);
+        entry.header_digest = std::to_string(context.headers.size()) + "." + std::to_string(digest);
         return entry;
     }
 };
