@@ -12,6 +12,7 @@
 
 #include <algorithm>
 #include <atomic>
+#include <cstdlib>
 #include <deque>
 #include <exception>
 #include <filesystem>
@@ -139,6 +140,18 @@ isolate::WorkerLaunch launch_of(const IsolationSettings& settings) {
     }
     // A clean environment: no include paths from variables, crashes end the process.
     launch.environment = {"LIBCLANG_DISABLE_CRASH_RECOVERY=1"};
+    if (settings.preamble_units > 0) {
+        // libclang keeps each precompiled preamble in a temporary file: give the parser a
+        // private folder (0700, made once per run) where it may write them, and nothing else.
+        static const std::string folder = [] {
+            std::string pattern =
+                (std::filesystem::temp_directory_path() / "tollgate-preambles-XXXXXX").string();
+            return ::mkdtemp(pattern.data()) != nullptr ? pattern : std::string();
+        }();
+        if (!folder.empty()) {
+            launch.environment.push_back("TMPDIR=" + folder);
+        }
+    }
     launch.show_errors = settings.show_worker_errors;
     return launch;
 }
