@@ -56,7 +56,7 @@ struct CalibrateOptions {
     bool no_pch_cache = false;         // --no-pch-cache
     double stroud = 18.0;              // --stroud
     std::size_t rename_limit = 400;    // --rename-limit
-    unsigned preamble_units = 8;       // --preamble-units
+    unsigned preamble_units = 0;       // --preamble-units
     std::string shard;                 // --shard K/N
     std::vector<std::string> merge;    // --merge PART...
 };
