@@ -143,11 +143,25 @@ isolate::WorkerLaunch launch_of(const IsolationSettings& settings) {
     if (settings.preamble_units > 0) {
         // libclang keeps each precompiled preamble in a temporary file: give the parser a
         // private folder (0700, made once per run) where it may write them, and nothing else.
-        static const std::string folder = [] {
-            std::string pattern =
-                (std::filesystem::temp_directory_path() / "tollgate-preambles-XXXXXX").string();
-            return ::mkdtemp(pattern.data()) != nullptr ? pattern : std::string();
-        }();
+        // Removed with whatever is left in it when the program ends.
+        struct PrivateFolder {
+            std::string path;
+            PrivateFolder() {
+                std::string pattern =
+                    (std::filesystem::temp_directory_path() / "tollgate-preambles-XXXXXX").string();
+                if (::mkdtemp(pattern.data()) != nullptr) {
+                    path = pattern;
+                }
+            }
+            ~PrivateFolder() {
+                std::error_code ignored;
+                if (!path.empty()) {
+                    std::filesystem::remove_all(path, ignored);
+                }
+            }
+        };
+        static const PrivateFolder made;
+        const std::string& folder = made.path;
         if (!folder.empty()) {
             launch.environment.push_back("TMPDIR=" + folder);
         }
