@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// The counting convention c-family/1, rule by rule (see core/README.md).
+// The counting convention c-family/2, rule by rule (see core/README.md).
 #include "tollgate/core/classify.hpp"
 
 #include <array>

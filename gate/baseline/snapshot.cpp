@@ -36,6 +36,8 @@ Snapshot make_snapshot(const std::vector<lexer::FileFunctions>& files, const std
             function.signature = span.signature;
             function.mode = span.mode;
             function.token_hash = span.token_hash;
+            function.inactive = span.inactive;
+            function.brace_extent = span.brace_extent;
             // The same two calls as measure_span, so that snapshot and `measure` agree exactly.
             function.measures = core::compute_measures(core::count_tokens(span.tokens),
                                                        span.potential_operands, settings);

@@ -31,14 +31,17 @@ struct SnapshotFunction {
     std::string qualified_name; // e.g. "skyline::RingBuffer::push"
     std::string signature;      // parameter types as written
     lexer::ExtentMode mode = lexer::ExtentMode::syntax_tree; // how the extent was found
-    std::string token_hash;  // FunctionSpan::token_hash: digest of the counted tokens
-    core::Measures measures; // n1 n2 N1 N2, n2* and every measure
+    std::string token_hash;    // FunctionSpan::token_hash: digest of the counted tokens
+    bool inactive = false;     // FunctionSpan::inactive: in a branch the preprocessor skipped
+    bool brace_extent = false; // FunctionSpan::brace_extent: extent taken from brace matching
+    core::Measures measures;   // n1 n2 N1 N2, n2* and every measure
 
     bool operator==(const SnapshotFunction& other) const {
         return path == other.path && start_line == other.start_line && end_line == other.end_line &&
                usr == other.usr && fallback_key == other.fallback_key &&
                qualified_name == other.qualified_name && signature == other.signature &&
-               mode == other.mode && token_hash == other.token_hash && measures == other.measures;
+               mode == other.mode && token_hash == other.token_hash && measures == other.measures &&
+               inactive == other.inactive && brace_extent == other.brace_extent;
     }
 };
 

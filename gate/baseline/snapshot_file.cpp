@@ -4,17 +4,10 @@
 
 #include "gate/baseline/snapshot_text.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/common/text_safety.hpp"
 
-#include <cerrno>
-#include <chrono>
-#include <cstdlib>
-#include <fcntl.h>
 #include <filesystem>
-#include <signal.h>
-#include <sys/stat.h>
-#include <thread>
-#include <unistd.h>
 
 namespace fs = std::filesystem;
 
@@ -23,8 +16,6 @@ namespace tollgate::baseline {
 using namespace snapshot_text;
 
 namespace {
-
-constexpr const char* k_temp_marker = ".tollgate-tmp-";
 
 // The exact bytes of `f`'s text keys that are not valid UTF-8, by key; empty when all are.
 Json exact_json(const SnapshotFunction& f) {
@@ -52,6 +43,16 @@ Json function_json(const SnapshotFunction& f) {
     object["signature"] = f.signature;
     object["extent"] = lexer::extent_name(f.mode);
     object["token_hash"] = f.token_hash;
+    if (f.inactive || f.brace_extent) {
+        Json marks = Json::array();
+        if (f.inactive) {
+            marks.push_back("inactive");
+        }
+        if (f.brace_extent) {
+            marks.push_back("brace-extent");
+        }
+        object["marks"] = std::move(marks);
+    }
     object["counts"] = {
         {"n1", f.measures.n1}, {"n2", f.measures.n2}, {"N1", f.measures.N1}, {"N2", f.measures.N2}};
     object["potential_operands"] = f.measures.potential_operands;
@@ -60,44 +61,6 @@ Json function_json(const SnapshotFunction& f) {
         object["exact"] = std::move(exact);
     }
     return object;
-}
-
-// Remove temporary files of `target`'s pattern whose writer no longer runs.
-void remove_stale_temporaries(const fs::path& folder, const std::string& name) {
-    const std::string prefix = "." + name + k_temp_marker;
-    std::error_code ec;
-    for (fs::directory_iterator it(folder, ec), end; !ec && it != end; it.increment(ec)) {
-        const std::string entry = it->path().filename().string();
-        if (entry.rfind(prefix, 0) != 0) {
-            continue;
-        }
-        const std::string rest = entry.substr(prefix.size());
-        const std::size_t dash = rest.find('-');
-        if (dash == 0 || dash == std::string::npos ||
-            rest.find_first_not_of("0123456789") != dash) {
-            continue;
-        }
-        const long pid = std::strtol(rest.substr(0, dash).c_str(), nullptr, 10);
-        if (pid == static_cast<long>(getpid())) {
-            continue;
-        }
-        if (kill(static_cast<pid_t>(pid), 0) == -1 && errno == ESRCH) {
-            std::error_code remove_error;
-            fs::remove(it->path(), remove_error);
-        }
-    }
-}
-
-[[noreturn]] void write_failure(const std::string& path, int error) {
-    throw Failure("cannot write snapshot \"" + path + "\": " + lowercase_error(error));
-}
-
-// Sleep when the test hook asks for it (see k_pause_before_rename_variable).
-void pause_for_tests() {
-    const char* seconds = std::getenv(k_pause_before_rename_variable);
-    if (seconds != nullptr && *seconds != '\0') {
-        std::this_thread::sleep_for(std::chrono::duration<double>(std::strtod(seconds, nullptr)));
-    }
 }
 
 } // namespace
@@ -132,64 +95,7 @@ void check_replaceable(const std::string& path, Overwrite overwrite) {
 
 void save_snapshot(const Snapshot& snapshot, const std::string& path, Overwrite overwrite) {
     check_replaceable(path, overwrite);
-    std::error_code ec;
-    if (fs::is_directory(path, ec)) {
-        throw UsageError("cannot write snapshot \"" + path + "\": it is a folder");
-    }
-    // Write beside the file the path finally names, so the rename stays on one file system.
-    const fs::path target = fs::weakly_canonical(fs::absolute(path));
-    const fs::path folder = target.parent_path();
-    fs::create_directories(folder, ec);
-    if (ec) {
-        throw Failure("cannot create folder \"" + folder.string() + "\": " + ec.message());
-    }
-    const std::string name = target.filename().string();
-    remove_stale_temporaries(folder, name);
-
-    const std::string text = snapshot_to_json(snapshot);
-    std::string temporary =
-        (folder / ("." + name + k_temp_marker + std::to_string(getpid()) + "-XXXXXX")).string();
-    const int fd = mkstemp(temporary.data());
-    if (fd == -1) {
-        write_failure(path, errno);
-    }
-    auto fail = [&](int error) {
-        close(fd);
-        unlink(temporary.c_str());
-        write_failure(path, error);
-    };
-    for (std::size_t written = 0; written < text.size();) {
-        const ssize_t n = write(fd, text.data() + written, text.size() - written);
-        if (n < 0) {
-            if (errno == EINTR) {
-                continue;
-            }
-            fail(errno);
-        }
-        written += static_cast<std::size_t>(n);
-    }
-    const mode_t mask = umask(0);
-    umask(mask);
-    if (fchmod(fd, 0666 & ~mask) != 0 || fsync(fd) != 0) {
-        fail(errno);
-    }
-    if (close(fd) != 0) {
-        const int error = errno;
-        unlink(temporary.c_str());
-        write_failure(path, error);
-    }
-    pause_for_tests();
-    if (std::rename(temporary.c_str(), target.c_str()) != 0) {
-        const int error = errno;
-        unlink(temporary.c_str());
-        write_failure(path, error);
-    }
-    // Make the rename itself durable.
-    const int folder_fd = open(folder.c_str(), O_RDONLY | O_DIRECTORY);
-    if (folder_fd != -1) {
-        fsync(folder_fd);
-        close(folder_fd);
-    }
+    write_output_file("snapshot", path, snapshot_to_json(snapshot));
 }
 
 std::string confine_to_repository(const std::string& path, const std::string& repository_root) {

@@ -3,6 +3,7 @@
 #pragma once
 
 #include "gate/baseline/snapshot.hpp"
+#include "gate/common/output_file.hpp"
 
 #include <optional>
 #include <string>
@@ -22,10 +23,10 @@ enum class Overwrite {
     anything,       // replace whatever is there (--force)
 };
 
-// Environment variable of the test hook: when set to a number of seconds, save_snapshot sleeps
-// that long after the temporary file is written and synced and before it is renamed over the
-// target, so that a test can kill the writer at the worst moment. For tests only.
-inline constexpr const char* k_pause_before_rename_variable = "TOLLGATE_TEST_PAUSE_BEFORE_RENAME";
+// Environment variable of the test hook that pauses save_snapshot (every output file's writer)
+// between syncing its temporary file and renaming it; see gate/common/output_file.hpp.
+inline constexpr const char* k_pause_before_rename_variable =
+    tollgate::k_pause_before_rename_variable;
 
 // Return the JSON text of `snapshot` (2-space indent, fixed key order, trailing newline): the
 // same snapshot gives the same bytes.
@@ -43,12 +44,10 @@ Snapshot parse_snapshot(const std::string& text, const std::string& display_path
 // given). Throws UsageError as parse_snapshot does and when the file is missing or unreadable.
 Snapshot load_snapshot(const std::string& path, const SnapshotExpectations& expectations = {});
 
-// Write `snapshot` to `path` atomically: a temporary file in the same folder (named
-// ".NAME.tollgate-tmp-PID-XXXXXX"), written, flushed and fsynced, then renamed over `path` and
-// the folder fsynced; a killed writer leaves the previous file intact. Creates missing folders.
-// Removes stale temporary files of that pattern left by writers that no longer run. Throws
-// UsageError when `path` exists and is not a Tollgate snapshot and `overwrite` is
-// Overwrite::snapshots_only, or is a folder; Failure when the file system refuses.
+// Write `snapshot` to `path` atomically with write_output_file (a killed writer leaves the
+// previous file intact; missing folders are created). Throws UsageError when `path` exists and is
+// not a Tollgate snapshot and `overwrite` is Overwrite::snapshots_only; Failure `cannot write
+// snapshot "PATH": REASON` when the file system refuses, or `path` is a folder.
 void save_snapshot(const Snapshot& snapshot, const std::string& path,
                    Overwrite overwrite = Overwrite::snapshots_only);
 

@@ -275,6 +275,7 @@ private:
                             "\"parser-stopped\", found \"" + extent + "\"");
         }
         f.token_hash = string_at(object, "token_hash", pointer);
+        read_marks(object, pointer, f);
         const Json& counts = member(object, "counts", pointer);
         const std::string counts_pointer = pointer + "/counts";
         if (!counts.is_object()) {
@@ -297,6 +298,27 @@ private:
         }
         read_exact(object, pointer, f);
         return f;
+    }
+
+    // Read the optional "marks": "inactive" and "brace-extent".
+    void read_marks(const Json& object, const std::string& pointer, SnapshotFunction& f) const {
+        const auto it = object.find("marks");
+        if (it == object.end()) {
+            return;
+        }
+        if (!it->is_array()) {
+            throw corrupted(ill_typed(pointer + "/marks", "an array", *it));
+        }
+        for (const Json& mark : *it) {
+            if (mark == "inactive") {
+                f.inactive = true;
+            } else if (mark == "brace-extent") {
+                f.brace_extent = true;
+            } else {
+                throw corrupted(pointer +
+                                "/marks: expected only \"inactive\" and \"brace-extent\"");
+            }
+        }
     }
 
     // Take the exact bytes of text keys that are not valid UTF-8 from "exact", checking that

@@ -37,6 +37,7 @@ std::string snapshot_part_to_json(const SnapshotPart& part) {
     const json doc = {{"schema", k_snapshot_part_schema},
                       {"shard", part.shard.text()},
                       {"files", part.files},
+                      {"settings", part.settings},
                       {"snapshot", snapshot_to_json(part.snapshot)}};
     return text::dump_json(doc, 1) + "\n";
 }
@@ -59,11 +60,12 @@ SnapshotPart parse_snapshot_part(const std::string& text, const std::string& nam
     try {
         part.shard = parse_shard_spec(doc.at("shard").get<std::string>(), "shard");
         doc.at("files").get_to(part.files);
+        doc.at("settings").get_to(part.settings);
         inner = doc.at("snapshot").get<std::string>();
     } catch (const std::exception&) {
         throw UsageError(quoted(name) +
-                         " is damaged: a missing or mistyped shard, files or "
-                         "snapshot" +
+                         " is damaged: a missing or mistyped shard, files, "
+                         "settings or snapshot" +
                          remedy);
     }
     part.snapshot = parse_snapshot(inner, name);
@@ -143,6 +145,16 @@ Snapshot merge_snapshot_parts(std::vector<SnapshotPart> parts,
         if (s.stroud != first.snapshot.stroud) {
             disagree("the Stroud number", number_text(s.stroud),
                      number_text(first.snapshot.stroud));
+        }
+        for (const auto& [key, value] : first.settings) {
+            const auto other = parts[i].settings.find(key);
+            if (other == parts[i].settings.end() || other->second != value) {
+                disagree(key, other == parts[i].settings.end() ? "" : other->second, value);
+            }
+        }
+        if (parts[i].settings.size() != first.settings.size()) {
+            throw UsageError("the parts disagree on their settings: " + name(i) + " has others " +
+                             "than " + name(0) + " (run every shard with the same options)");
         }
         if (parts[i].shard.count != first.shard.count) {
             throw UsageError(name(i) + " is shard " + parts[i].shard.text() + " but " + name(0) +

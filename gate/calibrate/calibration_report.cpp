@@ -2,10 +2,12 @@
 // Text, JSON and HTML views of a calibration; every number comes from the Calibration value.
 #include "gate/calibrate/calibration_report.hpp"
 
+#include "gate/calibrate/suggested_policy.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/delta/function_delta.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <fmt/format.h>
 #include <nlohmann/json.hpp>
 #include <string>
@@ -64,6 +66,76 @@ std::string header_line(const Calibration& c) {
                        c.cache.distinct_blobs);
 }
 
+std::string percent_text(std::size_t count, std::size_t total) {
+    return policy::plain_number(std::round(rate_percent(count, total) * 100) / 100) + "%";
+}
+
+// The lines that say what was counted: the policy honoured and the folders left out.
+std::vector<std::string> scope_lines(const Calibration& c) {
+    std::vector<std::string> lines;
+    if (c.scope == nullptr) {
+        return lines;
+    }
+    const auto& scope = *c.scope;
+    lines.push_back("counted: functions inside the paths and above the noise floor of " +
+                    scope.origin);
+    if (scope.vendored.empty()) {
+        lines.push_back("vendored: no folder looks like bundled third-party code");
+        return lines;
+    }
+    const bool excluded = scope.handling == VendoredHandling::exclude;
+    lines.push_back(excluded ? "vendored: left out, not parsed (--keep-vendored keeps them):"
+                             : "vendored: kept (--keep-vendored):");
+    for (const auto& folder : scope.vendored) {
+        lines.push_back("  " + folder.path + "/ (" + vendored_sign_text(folder.sign) + ")" +
+                        (excluded
+                             ? fmt::format(": {} changed {} in {} {} left out", folder.files,
+                                           folder.files == 1 ? "file" : "files", folder.commits,
+                                           folder.commits == 1 ? "commit" : "commits")
+                             : std::string()));
+    }
+    return lines;
+}
+
+// The lines of a block-rate suggestion: its replayed rates, sample and limits.
+std::vector<std::string> suggestion_lines(const BlockRateSuggestion& s) {
+    std::vector<std::string> lines;
+    const auto& w = s.replayed;
+    lines.push_back(fmt::format("replayed with the suggestion: {} of {} commits blocked ({}), {} "
+                                "passed with warnings ({})",
+                                w.blocked, w.judged, percent_text(w.blocked, w.judged), w.warned,
+                                percent_text(w.warned, w.judged)));
+    lines.push_back(fmt::format("sample: {} commits, {} functions inside the paths and above "
+                                "the noise floor",
+                                s.commits, s.functions));
+    for (const auto& limit : s.limits) {
+        lines.push_back("  " + limit.rule_id + " " + limit_key_name(limit.key) + ": " +
+                        policy::plain_number(limit.value) +
+                        (limit.searched
+                             ? fmt::format(" ({} of {} commits with a value are above it)",
+                                           limit.commits_above, limit.commits_with_values)
+                             : std::string(" (kept: no replayed value)")));
+    }
+    for (const auto* target : {&s.blocking, &s.warning}) {
+        if (!target->reached) {
+            lines.push_back(fmt::format("not reached: even the loosest {} limits flag more than "
+                                        "{}% of commits",
+                                        target == &s.blocking ? "blocking" : "warning",
+                                        policy::plain_number(target->percent)));
+        }
+    }
+    if (s.small_sample) {
+        lines.push_back("warning: " + small_sample_warning(s));
+    }
+    return lines;
+}
+
+std::string suggestion_title(const BlockRateSuggestion& s) {
+    return fmt::format("suggestion: at most {}% of commits blocked, {}% passed with warnings",
+                       policy::plain_number(s.blocking.percent),
+                       policy::plain_number(s.warning.percent));
+}
+
 } // namespace
 
 void write_calibration_text(std::ostream& out, const Calibration& c) {
@@ -71,6 +143,9 @@ void write_calibration_text(std::ostream& out, const Calibration& c) {
     out << "tollgate calibrate: " << terminal_text(header_line(c)) << "\n";
     for (const auto& note : r.notes) {
         out << "note: " << terminal_text(note) << "\n";
+    }
+    for (const auto& line : scope_lines(c)) {
+        out << terminal_text(line) << "\n";
     }
     out << "percentiles: linear interpolation between closest ranks; changed functions counted "
            "with zero and negative changes\n";
@@ -128,6 +203,12 @@ void write_calibration_text(std::ostream& out, const Calibration& c) {
             out << fmt::format("  {} {:<8} {}  ({})\n", commit.id.short_hex(),
                                j.outcome == policy::Outcome::blocked ? "blocked" : "warned",
                                short_subject(commit.subject), terminal_text(rules));
+        }
+    }
+    if (c.suggestion) {
+        out << "\n== " << suggestion_title(*c.suggestion) << " ==\n";
+        for (const auto& line : suggestion_lines(*c.suggestion)) {
+            out << terminal_text(line) << "\n";
         }
     }
 }
@@ -215,6 +296,44 @@ void write_calibration_json(std::ostream& out, const Calibration& c) {
                           {"blocked", w.blocked},      {"warned", w.warned},
                           {"rules", w.rule_commits},   {"flagged", flagged}};
     }
+    if (c.scope != nullptr) {
+        json vendored = json::array();
+        for (const auto& folder : c.scope->vendored) {
+            vendored.push_back({{"path", folder.path},
+                                {"sign", vendored_sign_text(folder.sign)},
+                                {"excluded", c.scope->handling == VendoredHandling::exclude},
+                                {"changed_files", folder.files},
+                                {"commits", folder.commits}});
+        }
+        doc["scope"] = {{"policy", c.scope->origin},
+                        {"include", c.scope->policy.paths.include},
+                        {"exclude", c.scope->policy.paths.exclude},
+                        {"vendored", vendored}};
+    }
+    if (c.suggestion) {
+        const auto& s = *c.suggestion;
+        json limits = json::array();
+        for (const auto& limit : s.limits) {
+            limits.push_back({{"rule", limit.rule_id},
+                              {"key", limit_key_name(limit.key)},
+                              {"value", limit.value},
+                              {"searched", limit.searched},
+                              {"commits_with_values", limit.commits_with_values},
+                              {"commits_above", limit.commits_above}});
+        }
+        doc["suggestion"] = {{"block_rate_target", s.blocking.percent},
+                             {"warning_rate_target", s.warning.percent},
+                             {"block_target_reached", s.blocking.reached},
+                             {"warning_target_reached", s.warning.reached},
+                             {"judged", s.replayed.judged},
+                             {"blocked", s.replayed.blocked},
+                             {"warned", s.replayed.warned},
+                             {"block_rate", rate_percent(s.replayed.blocked, s.replayed.judged)},
+                             {"warning_rate", rate_percent(s.replayed.warned, s.replayed.judged)},
+                             {"sample", {{"commits", s.commits}, {"functions", s.functions}}},
+                             {"small_sample", s.small_sample},
+                             {"limits", limits}};
+    }
     out << text::dump_json(doc, 2) << "\n";
 }
 
@@ -290,6 +409,9 @@ void write_calibration_html(std::ostream& out, const Calibration& c) {
     for (const auto& note : r.notes) {
         out << "<p class=\"note\">" << escape(note) << "</p>\n";
     }
+    for (const auto& line : scope_lines(c)) {
+        out << "<p class=\"note scope\">" << escape(line) << "</p>\n";
+    }
     out << "<p class=\"note\">Percentiles: linear interpolation between closest ranks. Changed "
            "functions are counted with zero and negative changes.</p>\n";
     out << "<p class=\"note legend\"><span style=\"color:" << k_bin_colour
@@ -346,6 +468,12 @@ void write_calibration_html(std::ostream& out, const Calibration& c) {
                 << escape(commit.subject) << "</td><td>" << escape(rules) << "</td></tr>\n";
         }
         out << "</table>\n";
+    }
+    if (c.suggestion) {
+        out << "<h2 id=\"suggestion\">" << escape(suggestion_title(*c.suggestion)) << "</h2>\n";
+        for (const auto& line : suggestion_lines(*c.suggestion)) {
+            out << "<p>" << escape(line) << "</p>\n";
+        }
     }
     out << "</body></html>\n";
 }

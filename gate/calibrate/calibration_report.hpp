@@ -2,6 +2,8 @@
 // Renderers of a calibration: terminal text, JSON and a self-contained HTML page.
 #pragma once
 
+#include "gate/calibrate/block_rate.hpp"
+#include "gate/calibrate/calibration_scope.hpp"
 #include "gate/calibrate/distribution.hpp"
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "gate/calibrate/replay.hpp"
@@ -15,8 +17,11 @@ namespace tollgate::calibrate {
 // Everything a calibration report shows.
 struct Calibration {
     const Replay* replay = nullptr;                 // the replayed history (not owned)
+    const CalibrationScope* scope = nullptr;        // policy honoured, vendored folders (not
+                                                    // owned); may be null
     std::vector<MeasureDistribution> distributions; // one per measure asked for
     std::optional<WhatIf> what_if;                  // with --policy
+    std::optional<BlockRateSuggestion> suggestion;  // with --suggest-block-rate
     CacheCounts cache;                              // lexed-file cache use
     double seconds = 0;                             // wall time of the replay
     unsigned threads = 1;                           // worker threads used

@@ -99,7 +99,8 @@ void finish(Series& series) {
 } // namespace
 
 std::vector<MeasureDistribution> distribute(const Replay& replay,
-                                            const std::vector<core::MeasureId>& measures) {
+                                            const std::vector<core::MeasureId>& measures,
+                                            const policy::Policy* honour) {
     std::vector<MeasureDistribution> out;
     for (const auto measure : measures) {
         MeasureDistribution d;
@@ -108,6 +109,10 @@ std::vector<MeasureDistribution> distribute(const Replay& replay,
             const auto& functions = replay.commits[c].report.functions;
             for (std::size_t f = 0; f < functions.size(); ++f) {
                 const auto& fn = functions[f];
+                if (honour != nullptr && (!policy::in_scope(honour->paths, fn.shown_side().path) ||
+                                          policy::below_noise_floor(honour->noise_floor, fn))) {
+                    continue;
+                }
                 const auto change = fn.delta(measure);
                 if (fn.label == delta::DeltaLabel::added) {
                     d.added.samples.push_back({change.head, c, f});
@@ -170,97 +175,6 @@ std::string replay_span(const Replay& replay) {
     }
     return replay.commits.front().commit.id.short_hex() + ".." +
            replay.commits.back().commit.id.short_hex();
-}
-
-namespace {
-
-double percentile_of(const Series& series, double p) {
-    std::vector<double> values;
-    for (const auto& s : series.samples) {
-        values.push_back(s.value);
-    }
-    std::sort(values.begin(), values.end());
-    return percentile(values, p);
-}
-
-// A limit as the policy file shows it: two decimals, never negative.
-std::string limit_text(double value) {
-    return fmt::format("{:.2f}", std::max(0.0, value));
-}
-
-std::string origin_comment(double p, const char* what, core::MeasureId measure, const Series& s,
-                           const Replay& replay, double value, const char* unit) {
-    std::string text = fmt::format("p{:g} of {} {} over {} functions in {} commits {}: {}{}", p,
-                                   core::measure_name(measure), what, s.summary.count,
-                                   replay.commits.size(), replay_span(replay),
-                                   std::string(what) == "growth" ? fmt::format("{:+.2f}", value)
-                                                                 : fmt::format("{:.2f}", value),
-                                   unit);
-    if (value < 0) {
-        text += " (raised to 0: a limit cannot be negative)";
-    }
-    return text;
-}
-
-} // namespace
-
-std::string suggest_policy(const Replay& replay,
-                           const std::vector<MeasureDistribution>& distributions, double p) {
-    if (!(p >= 0 && p <= 100)) {
-        throw UsageError(
-            fmt::format("percentile \"{}\" is out of range (give a number from 0 to 100)", p));
-    }
-    std::ostringstream out;
-    out << "# Tollgate policy suggested by \"tollgate calibrate --suggest "
-        << fmt::format("{:g}", p) << "\" from " << replay.commits.size() << " replayed commits "
-        << replay_span(replay)
-        << "\n# of "
-        // A name with a line break must not end the comment and write policy keys.
-        << (replay.history.tip_name.empty()
-                ? "the history"
-                : "\"" + text::terminal_text(replay.history.tip_name) + "\"")
-        << ". Each limit is the p" << fmt::format("{:g}", p)
-        << " of the team's own past changes\n# (linear interpolation between closest ranks), "
-           "rounded to two decimals: review before use.\n\n";
-    out << "tollgate-policy: 1\n\njudge-with: base              # the target branch's policy "
-           "judges a change\n\nrules:\n";
-    bool any = false;
-    for (const auto& d : distributions) {
-        const std::string name(core::measure_name(d.measure));
-        if (d.growth.summary.count > 0) {
-            any = true;
-            const double absolute = percentile_of(d.growth, p);
-            out << "  - id: " << name << "-growth\n"
-                << "    kind: growth              # changed functions: head minus base; a finding "
-                   "when either limit is exceeded\n"
-                << "    measure: " << name << "\n";
-            if (d.growth_percent.summary.count > 0) {
-                const double percent = percentile_of(d.growth_percent, p);
-                out << "    max-increase-percent: " << limit_text(percent) << "   # "
-                    << origin_comment(p, "growth", d.measure, d.growth_percent, replay, percent,
-                                      "%")
-                    << "\n";
-            }
-            out << "    max-increase: " << limit_text(absolute) << "   # "
-                << origin_comment(p, "growth", d.measure, d.growth, replay, absolute, "") << "\n"
-                << "    level: blocking\n\n";
-        }
-        if (d.added.summary.count > 0) {
-            any = true;
-            const double ceiling = percentile_of(d.added, p);
-            out << "  - id: new-function-" << name << "\n"
-                << "    kind: added-ceiling       # added functions: their head value\n"
-                << "    measure: " << name << "\n"
-                << "    ceiling: " << limit_text(ceiling) << "   # "
-                << origin_comment(p, "value of added functions", d.measure, d.added, replay,
-                                  ceiling, "")
-                << "\n    level: warning\n\n";
-        }
-    }
-    if (!any) {
-        out << "  []                            # the history had no changed or added function\n";
-    }
-    return out.str();
 }
 
 } // namespace tollgate::calibrate

@@ -72,9 +72,11 @@ struct MeasureDistribution {
     Series added;          // head value of added functions
 };
 
-// Return the distributions of `measures` over `replay`.
+// Return the distributions of `measures` over `replay`. With `honour`, only functions inside its
+// paths (include and exclude) and not below its noise floor count; null counts every function.
 std::vector<MeasureDistribution> distribute(const Replay& replay,
-                                            const std::vector<core::MeasureId>& measures);
+                                            const std::vector<core::MeasureId>& measures,
+                                            const policy::Policy* honour = nullptr);
 
 // What a policy would have said about one replayed commit.
 struct CommitJudgement {
@@ -98,14 +100,6 @@ struct WhatIf {
 // waivers). Never throws for a valid policy.
 WhatIf what_if(const Replay& replay, const policy::Policy& policy,
                const policy::JudgeOptions& options);
-
-// Return the text of a policy whose limits sit at the `p`-th percentile of `distributions`
-// (growth rules with max-increase and max-increase-percent, blocking; added-ceiling rules,
-// warning), with a comment beside each number saying where it came from. A percentile below zero
-// is raised to zero (the policy format allows no negative limit) and the comment says so. A
-// measure without samples gets no rule. Throws UsageError when `p` is not in [0, 100].
-std::string suggest_policy(const Replay& replay,
-                           const std::vector<MeasureDistribution>& distributions, double p);
 
 // Return "a1b2c3d..f4e5d6a" for the replayed commits (first..last), or "no commits".
 std::string replay_span(const Replay& replay);

@@ -9,6 +9,7 @@
 #include "gate/lexer/file_functions_json.hpp"
 
 #include <algorithm>
+#include <cctype>
 #include <chrono>
 #include <cstdlib>
 #include <filesystem>
@@ -28,9 +29,14 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-// Version 2: the entry's lexed file is lexer::file_functions_to_json, every text kept losslessly
-// with text::store_bytes (source text need not be UTF-8, JSON strings must be).
-constexpr const char* k_format = "tollgate.lexcache/2";
+// Version 3: the entry's lexed file is lexer::file_functions_to_json, every text kept losslessly
+// with text::store_bytes (source text need not be UTF-8, JSON strings must be), with each
+// function's inactive and brace_extent marks.
+constexpr const char* k_format = "tollgate.lexcache/3";
+
+// Numbers temporary files; one counter for the process, so that two caches on one folder in one
+// process never write the same temporary file.
+std::atomic<std::uint64_t> g_temp_serial{0};
 
 __extension__ typedef unsigned __int128 Hash128;
 
@@ -206,8 +212,11 @@ LexFileCache::LexFileCache(std::string dir) : m_dir(std::move(dir)) {
     std::error_code error;
     fs::create_directories(m_dir, error);
     if (error) {
-        throw Failure("cannot create cache folder \"" + m_dir + "\": " + error.message() +
-                      " (pass --cache-dir)");
+        std::string reason = error.message();
+        if (!reason.empty()) {
+            reason[0] = static_cast<char>(std::tolower(static_cast<unsigned char>(reason[0])));
+        }
+        throw Failure("cannot create cache folder \"" + m_dir + "\": " + reason);
     }
     if (const char* pause = std::getenv("TOLLGATE_TEST_PAUSE_AFTER_CACHE_WRITES")) {
         m_pause_after = std::strtoull(pause, nullptr, 10);
@@ -221,7 +230,8 @@ std::string LexFileCache::entry_path(const std::string& key) const {
 std::optional<lexer::FileFunctions> LexFileCache::read_entry(const std::string& key,
                                                              bool& damaged) const {
     damaged = false;
-    std::ifstream in(entry_path(key), std::ios::binary);
+    const std::string path = entry_path(key);
+    std::ifstream in(path, std::ios::binary);
     if (!in) {
         return std::nullopt;
     }
@@ -231,7 +241,12 @@ std::optional<lexer::FileFunctions> LexFileCache::read_entry(const std::string& 
             entry.at("key").get<std::string>() != key) {
             throw std::runtime_error("key mismatch");
         }
-        return lexer::file_functions_from_json(entry.at("lexed"));
+        lexer::FileFunctions functions = lexer::file_functions_from_json(entry.at("lexed"));
+        // The modification time records the last use, for evict(); failing to stamp it is
+        // harmless.
+        std::error_code stamp_error;
+        fs::last_write_time(path, fs::file_time_type::clock::now(), stamp_error);
+        return functions;
     } catch (const std::exception&) {
         damaged = true;
         return std::nullopt;
@@ -240,8 +255,19 @@ std::optional<lexer::FileFunctions> LexFileCache::read_entry(const std::string& 
 
 lexer::Lookup LexFileCache::lookup(const SourceFile& file, const lexer::ParseContext& context) {
     const std::string blob = content_key(file.content);
-    const std::string key = lex_cache_key(file, context);
     lexer::Lookup result;
+    if (m_dir.empty()) {
+        // No folder: nothing is claimed or kept, every lookup is a counted miss.
+        std::lock_guard<std::mutex> lock(m_mutex);
+        ++m_counts.visits;
+        ++m_counts.parses;
+        if (m_blobs.insert(blob).second) {
+            ++m_counts.distinct_blobs;
+        }
+        result.state = lexer::LookupState::claimed;
+        return result;
+    }
+    const std::string key = lex_cache_key(file, context);
     {
         std::lock_guard<std::mutex> lock(m_mutex);
         ++m_counts.visits;
@@ -328,13 +354,16 @@ void LexFileCache::release(const std::string& key, const lexer::FileFunctions* f
 
 void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& context,
                          const lexer::FileFunctions& functions) {
+    if (m_dir.empty()) {
+        return;
+    }
     const std::string key = lex_cache_key(file, context);
     const fs::path final_path = entry_path(key);
     const json entry = {
         {"format", k_format}, {"key", key}, {"lexed", lexer::file_functions_to_json(functions)}};
     const std::string serialised = text::dump_json(entry, -1);
     const fs::path temp_path = fs::path(m_dir) / ("tmp." + std::to_string(::getpid()) + "." +
-                                                  std::to_string(m_temp_serial++) + ".part");
+                                                  std::to_string(g_temp_serial++) + ".part");
     std::error_code error;
     fs::create_directories(final_path.parent_path(), error);
     bool written = false;
@@ -372,6 +401,77 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
             std::this_thread::sleep_for(std::chrono::seconds(1));
         }
     }
+}
+
+Eviction LexFileCache::evict(const CacheLimits& limits) {
+    Eviction result;
+    if (m_dir.empty()) {
+        return result;
+    }
+    struct Entry {
+        fs::path path;
+        std::uint64_t bytes = 0;
+        fs::file_time_type used;
+    };
+    const auto now = fs::file_time_type::clock::now();
+    std::vector<Entry> entries;
+    std::error_code error;
+    for (fs::directory_iterator top(m_dir, error), end; !error && top != end;
+         top.increment(error)) {
+        const std::string name = top->path().filename().string();
+        std::error_code entry_error;
+        const bool temporary = name.rfind("tmp.", 0) == 0 && name.size() > 9 &&
+                               name.compare(name.size() - 5, 5, ".part") == 0;
+        if (temporary) {
+            const auto written = top->last_write_time(entry_error);
+            if (!entry_error && now - written > std::chrono::hours(1)) {
+                fs::remove(top->path(), entry_error);
+            }
+            continue;
+        }
+        // Only the two-hex-digit fan-out folders hold entries; anything else is not ours.
+        if (name.size() != 2 || !std::isxdigit(static_cast<unsigned char>(name[0])) ||
+            !std::isxdigit(static_cast<unsigned char>(name[1])) ||
+            !top->is_directory(entry_error)) {
+            continue;
+        }
+        for (fs::directory_iterator it(top->path(), entry_error); !entry_error && it != end;
+             it.increment(entry_error)) {
+            std::error_code stat_error;
+            if (it->path().extension() != ".json" || !it->is_regular_file(stat_error)) {
+                continue;
+            }
+            Entry entry{it->path(), it->file_size(stat_error), it->last_write_time(stat_error)};
+            if (!stat_error) {
+                entries.push_back(std::move(entry));
+            }
+        }
+    }
+    // Oldest use first: entries past the age go, then the least recently used until the rest fit.
+    std::sort(entries.begin(), entries.end(),
+              [](const Entry& a, const Entry& b) { return a.used < b.used; });
+    std::uint64_t total = 0;
+    for (const auto& entry : entries) {
+        total += entry.bytes;
+    }
+    const auto max_age = std::chrono::hours(24) * limits.max_age_days;
+    for (const auto& entry : entries) {
+        const bool too_old = limits.max_age_days != 0 && now - entry.used > max_age;
+        const bool too_big = limits.max_bytes != 0 && total > limits.max_bytes;
+        if (too_old || too_big) {
+            // Gone either way when no error: removed here, or by another process just before.
+            std::error_code remove_error;
+            fs::remove(entry.path, remove_error);
+            if (!remove_error) {
+                ++result.removed_entries;
+                total -= entry.bytes;
+                continue;
+            }
+        }
+        ++result.kept_entries;
+    }
+    result.kept_bytes = total;
+    return result;
 }
 
 void LexFileCache::abandon(const SourceFile& file, const lexer::ParseContext& context) {

@@ -43,19 +43,54 @@ struct CacheCounts {
     }
 };
 
-// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/2", every
+// The default bound on a cache folder's size: 512 MiB holds about 15,000 entries of 34 KB, the
+// mean measured on Tollgate's own history (see DEVELOPERS.md), over a thousand commits.
+inline constexpr std::uint64_t k_default_cache_bytes = std::uint64_t{512} << 20;
+
+// The default bound on an entry's age since it was last used: 30 days, so a history replayed
+// monthly keeps its cache.
+inline constexpr unsigned k_default_cache_days = 30;
+
+// How far evict() trims a cache folder.
+struct CacheLimits {
+    std::uint64_t max_bytes = k_default_cache_bytes; // total size of the entries; 0: no bound
+    unsigned max_age_days = k_default_cache_days;    // days since an entry was last used; 0: no
+                                                     // bound
+};
+
+// What evict() did.
+struct Eviction {
+    std::uint64_t removed_entries = 0; // entries removed, for age or for size
+    std::uint64_t kept_entries = 0;    // entries left
+    std::uint64_t kept_bytes = 0;      // their total size
+};
+
+// A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/3", every
 // text kept losslessly with text::store_bytes, so a file of any bytes reads back the same),
 // written to a temporary file and renamed into place, so a killed run leaves whole entries or
-// none, and processes may share the folder. Entries that do not parse or whose recorded key
-// differs are ignored and rewritten.
+// none, and processes may share the folder: entries appear by rename and vanish by unlink, so a
+// reader sees a whole entry or none, and a removed entry is only parsed again. Entries that do not
+// parse or whose recorded key differs are ignored and rewritten. A hit stamps the entry's
+// modification time, which evict() reads as its last use.
 // Thread-safe, and each key is parsed at most once per instance: the first lookup of a key
 // claims it (even while it reads the disk); a later lookup of a claimed key answers pending
 // instead of parsing it again, and await hands it the holder's result (kept in memory only until
 // every waiter has it).
 class LexFileCache : public lexer::LexCache {
 public:
-    // Use folder `dir` (created when missing). Throws Failure when it cannot be created.
+    // Use folder `dir` (created when missing). Throws Failure `cannot create cache folder "DIR":
+    // REASON` when it cannot be created.
     explicit LexFileCache(std::string dir);
+
+    // Use no folder: every lookup is a counted miss and nothing is kept (calibrate's fallback
+    // when its folder cannot be created).
+    LexFileCache() = default;
+
+    // Remove entries unused for longer than `limits.max_age_days`, then the least recently used
+    // until the rest fit in `limits.max_bytes`, and temporary files older than an hour (a writer
+    // renames its own within milliseconds). Safe while other processes use the folder. Never
+    // throws: what cannot be removed is left. Does nothing without a folder.
+    Eviction evict(const CacheLimits& limits);
 
     // Return the entry of `file` under `context`'s key, or nothing when there is none or it is
     // damaged (counted, and rewritten by the next store).
@@ -96,7 +131,6 @@ private:
     std::map<std::string, lexer::FileFunctions> m_handoff; // results for those waiters
     CacheCounts m_counts;
     std::set<std::string> m_blobs;
-    std::atomic<std::uint64_t> m_temp_serial{0};
     std::uint64_t m_writes = 0;      // entries written this run
     std::uint64_t m_pause_after = 0; // test hook: stop after this many writes (0: never)
 };

@@ -27,6 +27,26 @@ walker::ResolvedRange range_of(const walker::HistoryCommit& commit) {
     return range;
 }
 
+// Remove the files `keep` refuses from `changes` before anything is read or parsed; return
+// their paths.
+std::vector<std::string> drop_files(walker::ChangeSet& changes,
+                                    const std::function<bool(const walker::ChangedFile&)>& keep) {
+    std::vector<std::string> dropped;
+    if (!keep) {
+        return dropped;
+    }
+    std::vector<walker::ChangedFile> kept;
+    for (auto& file : changes.files) {
+        if (keep(file)) {
+            kept.push_back(std::move(file));
+        } else {
+            dropped.push_back(file.head_path.empty() ? file.base_path : file.head_path);
+        }
+    }
+    changes.files = std::move(kept);
+    return dropped;
+}
+
 } // namespace
 
 Replay replay_history(const std::string& repository_path, const walker::History& history,
@@ -44,6 +64,7 @@ Replay replay_history(const std::string& repository_path, const walker::History&
     }
 
     std::vector<std::optional<delta::ChangeReport>> results(history.commits.size());
+    std::vector<std::vector<std::string>> dropped_of(history.commits.size());
     std::atomic<std::size_t> next{0};
     std::size_t done = 0;
     std::mutex mutex;
@@ -59,11 +80,13 @@ Replay replay_history(const std::string& repository_path, const walker::History&
                     break;
                 }
                 const auto& commit = history.commits[todo[k]];
-                const auto changes =
+                auto changes =
                     walker::collect_changes(repository, range_of(commit), settings.changes);
+                std::vector<std::string> dropped = drop_files(changes, settings.keep_file);
                 auto report = delta::measure_change(repository, changes, measure);
                 std::lock_guard<std::mutex> lock(mutex);
                 results[todo[k]] = std::move(report);
+                dropped_of[todo[k]] = std::move(dropped);
                 ++done;
                 if (settings.on_progress) {
                     settings.on_progress(done, todo.size());
@@ -86,7 +109,8 @@ Replay replay_history(const std::string& repository_path, const walker::History&
     }
     for (std::size_t i = 0; i < history.commits.size(); ++i) {
         if (results[i]) {
-            replay.commits.push_back({history.commits[i], std::move(*results[i])});
+            replay.commits.push_back(
+                {history.commits[i], std::move(*results[i]), std::move(dropped_of[i])});
         }
     }
     if (replay.commits.size() < todo.size()) {

@@ -23,12 +23,17 @@ struct ReplaySettings {
     // Called (serialised, from worker threads) after each commit with the commits done so far
     // and the total; may be empty.
     std::function<void(std::size_t done, std::size_t total)> on_progress;
+    // Return whether a changed file is measured; a file it refuses is never read nor parsed and
+    // is listed in ReplayedCommit::dropped. Called from worker threads; empty keeps every file.
+    std::function<bool(const walker::ChangedFile& file)> keep_file;
 };
 
 // One commit, measured against its first parent exactly as check measures a change.
 struct ReplayedCommit {
-    walker::HistoryCommit commit; // the commit
-    delta::ChangeReport report;   // its touched functions (measure_change's report)
+    walker::HistoryCommit commit;     // the commit
+    delta::ChangeReport report;       // its touched functions (measure_change's report)
+    std::vector<std::string> dropped; // changed files that keep_file refused (head path, else
+                                      // base path), not parsed
 };
 
 // How a replay ended.

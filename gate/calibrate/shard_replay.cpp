@@ -5,6 +5,7 @@
 #include "gate/calibrate/shard_report_json.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/policy/policy.hpp"
 
 #include <algorithm>
 #include <fstream>
@@ -72,6 +73,45 @@ CacheCounts cache_from_json(const json& j) {
     return c;
 }
 
+json scope_to_json(const CalibrationScope& scope) {
+    json vendored = json::array();
+    for (const auto& folder : scope.vendored) {
+        vendored.push_back(
+            {{"path", store_bytes(folder.path)},
+             {"sign",
+              folder.sign == VendoredSign::test_framework ? "test_framework" : "licensed_bundle"}});
+    }
+    return {{"policy", store_bytes(policy::describe_policy(scope.policy))},
+            {"origin", store_bytes(scope.origin)},
+            {"draft", scope.draft},
+            {"keep_vendored", scope.handling == VendoredHandling::keep},
+            {"vendored", vendored}};
+}
+
+CalibrationScope scope_from_json(const json& j) {
+    CalibrationScope scope;
+    scope.origin = stored_text(j.at("origin"));
+    try {
+        scope.policy = policy::load_policy(stored_text(j.at("policy")), scope.origin);
+    } catch (const std::exception&) {
+        throw std::runtime_error("its policy does not load");
+    }
+    j.at("draft").get_to(scope.draft);
+    scope.handling =
+        j.at("keep_vendored").get<bool>() ? VendoredHandling::keep : VendoredHandling::exclude;
+    for (const auto& folder : j.at("vendored")) {
+        const std::string sign = folder.at("sign").get<std::string>();
+        if (sign != "test_framework" && sign != "licensed_bundle") {
+            throw std::runtime_error("unknown vendored sign");
+        }
+        scope.vendored.push_back({stored_text(folder.at("path")),
+                                  sign == "test_framework" ? VendoredSign::test_framework
+                                                           : VendoredSign::licensed_bundle,
+                                  0, 0});
+    }
+    return scope;
+}
+
 bool same_history(const walker::History& a, const walker::History& b) {
     return a.tip_name == b.tip_name && a.commits == b.commits;
 }
@@ -96,8 +136,13 @@ std::string replay_part_to_json(const ReplayPart& part) {
     }
     json commits = json::array();
     for (const auto& rc : part.replay.commits) {
-        commits.push_back(
-            {{"commit", rc.commit.id.hex}, {"report", change_report_to_json(rc.report)}});
+        json dropped = json::array();
+        for (const auto& path : rc.dropped) {
+            dropped.push_back(store_bytes(path));
+        }
+        commits.push_back({{"commit", rc.commit.id.hex},
+                           {"report", change_report_to_json(rc.report)},
+                           {"dropped", dropped}});
     }
     json notes = json::array();
     for (const auto& note : part.replay.notes) {
@@ -113,6 +158,7 @@ std::string replay_part_to_json(const ReplayPart& part) {
                       {"settings", settings},
                       {"tip", store_bytes(part.history.tip_name)},
                       {"history", history},
+                      {"scope", scope_to_json(part.scope)},
                       {"complete", part.replay.end == ReplayEnd::complete},
                       {"notes", notes},
                       {"commits", commits},
@@ -149,6 +195,7 @@ ReplayPart parse_replay_part(const std::string& text, const std::string& name) {
         for (const auto& c : doc.at("history")) {
             part.history.commits.push_back(commit_from_json(c));
         }
+        part.scope = scope_from_json(doc.at("scope"));
         part.replay.history = shard_history(part.history, part.shard);
         const auto& block = part.replay.history.commits;
         std::size_t next = 0; // commits come in history order, each once
@@ -160,7 +207,11 @@ ReplayPart parse_replay_part(const std::string& text, const std::string& name) {
             if (next == block.size()) {
                 throw std::runtime_error("a commit outside the shard's block");
             }
-            part.replay.commits.push_back({block[next], change_report_from_json(c.at("report"))});
+            ReplayedCommit replayed{block[next], change_report_from_json(c.at("report")), {}};
+            for (const auto& path : c.at("dropped")) {
+                replayed.dropped.push_back(stored_text(path));
+            }
+            part.replay.commits.push_back(std::move(replayed));
             ++next;
         }
         for (const auto& note : doc.at("notes")) {
@@ -261,6 +312,7 @@ MergedReplay merge_replay_parts(std::vector<ReplayPart> parts,
 
     MergedReplay merged;
     merged.replay.history = first.history;
+    merged.scope = first.scope;
     std::set<std::string> blobs;
     for (const ReplayPart* part : by_shard) {
         for (const auto& rc : part->replay.commits) {

@@ -3,6 +3,7 @@
 // merge of all parts into the replay one unsharded run would have made.
 #pragma once
 
+#include "gate/calibrate/calibration_scope.hpp"
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "gate/calibrate/replay.hpp"
 #include "gate/common/shard_spec.hpp"
@@ -15,7 +16,7 @@
 namespace tollgate::calibrate {
 
 // The schema of a partial replay ("schema" key).
-inline constexpr const char* k_replay_part_schema = "tollgate.calibrate-part/1";
+inline constexpr const char* k_replay_part_schema = "tollgate.calibrate-part/2";
 
 // Return the commits of `history` that shard `shard` replays: the K-th of N contiguous blocks
 // of nearly equal size, oldest first (consecutive commits share blobs, so a block reparses
@@ -29,6 +30,8 @@ struct ReplayPart {
     std::map<std::string, std::string> settings; // every option that decides the result, by name
                                                  // (range, limits, convention, ...)
     walker::History history;                     // the whole history every shard selected
+    CalibrationScope scope;         // the policy and vendored folders chosen for that whole history
+                                    // (the folders' counts are left to the merge)
     Replay replay;                  // this shard's replay (its history is the shard's block)
     CacheCounts cache;              // lexed-file cache use of this shard
     std::vector<std::string> blobs; // content keys of the file contents it visited, sorted
@@ -49,10 +52,12 @@ ReplayPart read_replay_part(const std::string& path);
 
 // The merge of every part of one sharded run.
 struct MergedReplay {
-    Replay replay;        // as one unsharded run replays it: the whole history, commits in order
-    CacheCounts cache;    // summed cache use; distinct_blobs counted over the union of the parts
-    double seconds = 0;   // summed wall time of the shards' replays
-    unsigned threads = 0; // summed worker threads of the shards
+    Replay replay;          // as one unsharded run replays it: the whole history, commits in order
+    CalibrationScope scope; // the scope the parts were measured under (the first part's; every
+                            // part's settings name it)
+    CacheCounts cache;      // summed cache use; distinct_blobs counted over the union of the parts
+    double seconds = 0;     // summed wall time of the shards' replays
+    unsigned threads = 0;   // summed worker threads of the shards
 };
 
 // Merge `parts` (read from `names`, same order, named in messages) into one replay. Throws

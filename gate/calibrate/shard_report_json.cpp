@@ -88,6 +88,8 @@ json side_to_json(const std::optional<delta::FunctionSide>& side) {
             {"end_line", side->end_line},
             {"lexical", side->lexical},
             {"parser_stopped", side->parser_stopped},
+            {"inactive", side->inactive},
+            {"brace_extent", side->brace_extent},
             {"token_hash", store_bytes(side->token_hash)},
             {"measures", measures_to_json(side->measures)}};
 }
@@ -102,6 +104,8 @@ std::optional<delta::FunctionSide> side_from_json(const json& j) {
     j.at("end_line").get_to(side.end_line);
     j.at("lexical").get_to(side.lexical);
     j.at("parser_stopped").get_to(side.parser_stopped);
+    j.at("inactive").get_to(side.inactive);
+    j.at("brace_extent").get_to(side.brace_extent);
     side.token_hash = stored_text(j.at("token_hash"));
     side.measures = measures_from_json(j.at("measures"));
     return side;
@@ -146,6 +150,33 @@ delta::Totals totals_from_json(const json& j) {
     return t;
 }
 
+json optional_text_to_json(const std::optional<std::string>& text) {
+    return text ? json(store_bytes(*text)) : json(nullptr);
+}
+
+std::optional<std::string> optional_text_from_json(const json& j) {
+    if (j.is_null()) {
+        return std::nullopt;
+    }
+    return stored_text(j);
+}
+
+json line_ranges_to_json(const std::vector<std::pair<unsigned, unsigned>>& ranges) {
+    json list = json::array();
+    for (const auto& [first, last] : ranges) {
+        list.push_back({first, last});
+    }
+    return list;
+}
+
+std::vector<std::pair<unsigned, unsigned>> line_ranges_from_json(const json& list) {
+    std::vector<std::pair<unsigned, unsigned>> ranges;
+    for (const auto& range : list) {
+        ranges.emplace_back(range.at(0).get<unsigned>(), range.at(1).get<unsigned>());
+    }
+    return ranges;
+}
+
 } // namespace
 
 json change_report_to_json(const delta::ChangeReport& r) {
@@ -156,7 +187,9 @@ json change_report_to_json(const delta::ChangeReport& r) {
                              {"identity", store_bytes(f.identity)},
                              {"label", delta::label_name(f.label)},
                              {"base", side_to_json(f.base)},
-                             {"head", side_to_json(f.head)}});
+                             {"head", side_to_json(f.head)},
+                             {"base_name", optional_text_to_json(f.base_name)},
+                             {"base_signature", optional_text_to_json(f.base_signature)}});
     }
     json files = json::array();
     for (const auto& f : r.files) {
@@ -173,6 +206,13 @@ json change_report_to_json(const delta::ChangeReport& r) {
                             {"line", w.line},
                             {"message", store_bytes(w.message)}});
     }
+    json unmeasured = json::array();
+    for (const auto& u : r.unmeasured) {
+        unmeasured.push_back({{"path", store_bytes(u.path)},
+                              {"base", line_ranges_to_json(u.base)},
+                              {"head", line_ranges_to_json(u.head)},
+                              {"count", u.count}});
+    }
     return {{"base_label", store_bytes(r.base_label)},
             {"head_label", store_bytes(r.head_label)},
             {"base_commit", store_bytes(r.base_commit)},
@@ -186,7 +226,9 @@ json change_report_to_json(const delta::ChangeReport& r) {
             {"warnings", warnings},
             {"measured_files", r.measured_files},
             {"compile_database", r.compile_database},
-            {"files_without_compile_flags", r.files_without_compile_flags}};
+            {"files_without_compile_flags", r.files_without_compile_flags},
+            {"unmeasured", unmeasured},
+            {"unmeasured_lines", r.unmeasured_lines}};
 }
 
 delta::ChangeReport change_report_from_json(const json& j) {
@@ -205,6 +247,8 @@ delta::ChangeReport change_report_from_json(const json& j) {
         d.label = label_from(f.at("label").get<std::string>());
         d.base = side_from_json(f.at("base"));
         d.head = side_from_json(f.at("head"));
+        d.base_name = optional_text_from_json(f.at("base_name"));
+        d.base_signature = optional_text_from_json(f.at("base_signature"));
         if (!d.base && !d.head) {
             throw std::runtime_error("a function without sides");
         }
@@ -228,6 +272,15 @@ delta::ChangeReport change_report_from_json(const json& j) {
     j.at("measured_files").get_to(r.measured_files);
     j.at("compile_database").get_to(r.compile_database);
     j.at("files_without_compile_flags").get_to(r.files_without_compile_flags);
+    for (const auto& u : j.at("unmeasured")) {
+        delta::UnmeasuredLines lines;
+        lines.path = stored_text(u.at("path"));
+        lines.base = line_ranges_from_json(u.at("base"));
+        lines.head = line_ranges_from_json(u.at("head"));
+        u.at("count").get_to(lines.count);
+        r.unmeasured.push_back(std::move(lines));
+    }
+    j.at("unmeasured_lines").get_to(r.unmeasured_lines);
     return r;
 }
 

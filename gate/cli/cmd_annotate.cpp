@@ -5,6 +5,7 @@
 #include "gate/annotate/comment_body.hpp"
 #include "gate/annotate/read_check_report.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/run_cli.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/hook/process.hpp"
@@ -75,9 +76,6 @@ void validate(const AnnotateOptions& options) {
     }
     if (options.body_limit != 0 && options.body_limit < 1000) {
         throw UsageError("--body-limit should be 0 (the platform's limit) or at least 1000 bytes");
-    }
-    if (options.timeout == 0 || options.timeout > 600) {
-        throw UsageError("--timeout should be 1 to 600 seconds");
     }
 }
 
@@ -300,7 +298,9 @@ void attach_annotate(CLI::App& sub, const GlobalOptions& global, std::function<i
                    "environment)");
     sub.add_option("--number", options->target.number,
                    "Pull request number or merge request iid (default: from the CI's "
-                   "environment)");
+                   "environment)")
+        // Up to 2^53 - 1, the largest whole number a JSON reader keeps exactly (RFC 8259, 6).
+        ->check(whole_number(1, (std::uint64_t{1} << 53) - 1));
     sub.add_option("--token-env", options->token_variable,
                    "Name of the environment variable that holds the API token")
         ->capture_default_str();
@@ -314,14 +314,17 @@ void attach_annotate(CLI::App& sub, const GlobalOptions& global, std::function<i
                    "Link file:line cells as check does (default: the platform's file view)");
     sub.add_option("--markdown-rows", options->markdown_rows,
                    "Rows of the table shown before the rest is folded")
+        ->check(whole_number(0, 100000))
         ->capture_default_str();
     sub.add_flag("--line-notes", options->line_notes,
                  "Also put a note on the first line of each function with a blocking finding "
                  "(GitHub review comments, GitLab diff threads)");
     sub.add_option("--body-limit", options->body_limit,
                    "Largest comment in bytes (default 0: the platform's documented limit)")
+        ->check(whole_number(0, std::uint64_t{1} << 30))
         ->capture_default_str();
     sub.add_option("--timeout", options->timeout, "Seconds one request may take")
+        ->check(whole_number(1, 600))
         ->capture_default_str();
     sub.add_option("--ca-file", options->ca_file,
                    "PEM file of the CA certificates to trust instead of the system's");

@@ -3,6 +3,7 @@
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/cli/baseline_source.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/policy_source.hpp"
 #include "gate/cli/report_targets.hpp"
@@ -10,6 +11,7 @@
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/cli/sources.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/progress.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/delta/measure_change.hpp"
 #include "gate/java/java_front_end.hpp"
@@ -49,6 +51,9 @@ struct CheckOptions {
     bool no_cache = false;            // --no-pch-cache
     double stroud = 18.0;             // --stroud
     std::size_t rename_limit = 400;   // --rename-limit
+    std::string progress = "auto";    // --progress
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    std::vector<std::string> include_dirs;                 // --include-dir
 };
 
 // After a passing run, write the head's snapshot where the baseline lives: --baseline, else the
@@ -80,8 +85,10 @@ void update_baseline(const CheckOptions& options, const policy::Verdict& verdict
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
+    request.max_file_size = options.max_file_size;
     const SnapshotResult result = snapshot_revision(request);
     baseline::save_snapshot(result.snapshot, path);
     std::fprintf(stderr, "tollgate: baseline updated: %s (%zu functions of %s)\n",
@@ -96,6 +103,7 @@ int run_check(const CheckOptions& options) {
 
     walker::ChangeOptions change_options;
     change_options.rename_limit = options.rename_limit;
+    change_options.max_file_size = options.max_file_size;
     delta::MeasureChangeSettings settings;
     settings.measures.stroud = options.stroud;
     settings.jobs = options.jobs;
@@ -106,6 +114,7 @@ int run_check(const CheckOptions& options) {
                                            ? lexer::DatabaseOrigin::found
                                            : lexer::DatabaseOrigin::given;
     settings.cache_dir = resolve_cache_dir(options.no_cache, options.cache_dir);
+    settings.include_dirs = resolve_include_dirs(options.include_dirs, repository.workdir());
 
     const walker::ResolvedRange range = walker::resolve_range(repository, options.range);
     const SelectedPolicy selected = select_policy(repository, range, options.policy_path);
@@ -114,8 +123,19 @@ int run_check(const CheckOptions& options) {
     judge_options.policy_origin = selected.origin;
 
     CheckBaseline baseline(options.baseline_path, selected.policy, repository, range, settings);
+
+    // A report that cannot be written fails now, not after the parsing.
+    check_report_targets(targets);
     const walker::ChangeSet changes = walker::collect_changes(repository, range, change_options);
+    const ProgressMode progress_mode = parse_progress_mode(options.progress);
+    ProgressMeter progress("check", "file sides", progress_mode,
+                           progress_style(progress_mode, stderr_is_terminal()), std::cerr,
+                           progress_interval_seconds());
+    settings.on_progress = [&progress](std::size_t done, std::size_t total) {
+        progress.update(done, total);
+    };
     delta::ChangeReport report = delta::measure_change(repository, changes, settings);
+    progress.finish();
     baseline.apply(range, report, judge_options);
     policy::Verdict verdict = policy::judge(selected.policy, report, judge_options);
     verdict.policy_changes = selected.changes;
@@ -177,6 +197,7 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
                    "\"https://git.example/team/repo/blob/{commit}/{path}#L{line}\"");
     sub.add_option("--markdown-rows", options->markdown_rows,
                    "Rows of the Markdown table shown before the rest is folded")
+        ->check(whole_number(0, 100000))
         ->capture_default_str();
     add_jobs_option(sub, options->jobs);
     add_isolation_options(sub, options->isolation);
@@ -187,10 +208,11 @@ void attach_check(CLI::App& sub, const GlobalOptions& global, std::function<int(
                    "Folder for the precompiled standard-library headers");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
+    add_include_dir_option(sub, options->include_dirs);
     add_stroud_option(sub, options->stroud);
-    sub.add_option("--rename-limit", options->rename_limit,
-                   "Candidates compared per added file when looking for renames")
-        ->capture_default_str();
+    add_progress_option(sub, options->progress);
+    add_rename_limit_option(sub, options->rename_limit);
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate check                                  this branch against its merge "
                "base with main\n"

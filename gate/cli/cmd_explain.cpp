@@ -4,6 +4,7 @@
 #include "gate/cli/measure_span.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/sources.hpp"
+#include "gate/common/byte_size.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
@@ -13,17 +14,19 @@
 #include <fmt/format.h>
 #include <iostream>
 #include <memory>
+#include <optional>
 
 namespace tollgate {
 
 namespace {
 
 struct ExplainOptions {
-    std::string target;          // PATH:FUNCTION or PATH:LINE
-    SourceOptions sources;       // --rev and parsing options
-    std::string format = "text"; // text or json
-    double stroud = 18.0;        // Stroud number
-    IsolationOptions isolation;  // --parse-timeout, --parse-memory
+    std::string target;                                    // PATH:FUNCTION or PATH:LINE
+    SourceOptions sources;                                 // --rev and parsing options
+    std::string format = "text";                           // text or json
+    double stroud = 18.0;                                  // Stroud number
+    IsolationOptions isolation;                            // --parse-timeout, --parse-memory
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
 };
 
 // Return true when `name` is `wanted` or ends with "::" + `wanted` (C++) or "." + `wanted`
@@ -46,18 +49,78 @@ bool all_digits(const std::string& text) {
            std::all_of(text.begin(), text.end(), [](unsigned char c) { return std::isdigit(c); });
 }
 
-// Pick the function `wanted` (a name or a line number) names among `spans`.
+// Return the number of lines of `content`; a last line without a newline counts.
+std::uint64_t line_count(const std::string& content) {
+    const auto newlines =
+        static_cast<std::uint64_t>(std::count(content.begin(), content.end(), '\n'));
+    return newlines + (content.empty() || content.back() == '\n' ? 0 : 1);
+}
+
+// Return the line `digits` names, or nothing when it is past any line a file can have.
+std::optional<std::uint64_t> parse_line(const std::string& digits) {
+    std::uint64_t line = 0;
+    for (const char c : digits) {
+        const auto digit = static_cast<std::uint64_t>(c - '0');
+        if (line > (UINT64_MAX - digit) / 10) {
+            return std::nullopt;
+        }
+        line = line * 10 + digit;
+    }
+    return line;
+}
+
+// Return the text of the hint that lists a file's functions: the command with the --rev the user
+// gave (`revision`, empty for the working tree).
+std::string measure_hint(const std::string& path, const std::string& revision) {
+    return "tollgate measure " + (revision.empty() ? "" : "--rev " + revision + " ") + path;
+}
+
+// Return the functions of `spans` holding line `wanted` (digits) of `path`, a file of `lines`
+// lines; `revision` as for measure_hint. Throws UsageError for line 0 and a line past the end of
+// the file.
+std::vector<const lexer::FunctionSpan*>
+functions_at_line(const std::vector<lexer::FunctionSpan>& spans, const std::string& path,
+                  const std::string& wanted, std::uint64_t lines, const std::string& revision) {
+    const std::optional<std::uint64_t> line = parse_line(wanted);
+    if (line && *line == 0) {
+        throw UsageError("there is no line 0 in \"" + path + "\" (lines count from 1)");
+    }
+    if (!line || *line > lines) {
+        throw UsageError(fmt::format("line {} is past the end of \"{}\" (it has {} line{})", wanted,
+                                     path, lines, lines == 1 ? "" : "s"));
+    }
+    std::vector<const lexer::FunctionSpan*> matches;
+    for (const auto& span : spans) {
+        if (span.start_line <= *line && *line <= span.end_line) {
+            matches.push_back(&span);
+        }
+    }
+    if (matches.empty()) {
+        throw UsageError(fmt::format("no function holds line {} of \"{}\" (run \"{}\" to list its "
+                                     "functions)",
+                                     *line, path, measure_hint(path, revision)));
+    }
+    return matches;
+}
+
+// Pick the function `wanted` (a name or a line number) names among `spans` of `path`, a file of
+// `lines` lines; `revision` is the --rev the user gave (empty for the working tree), repeated in
+// the hint.
 const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>& spans,
-                                         const std::string& path, const std::string& wanted) {
+                                         const std::string& path, const std::string& wanted,
+                                         std::uint64_t lines, const std::string& revision) {
     std::vector<const lexer::FunctionSpan*> matches;
     if (all_digits(wanted)) {
-        const unsigned line = static_cast<unsigned>(std::stoul(wanted));
+        matches = functions_at_line(spans, path, wanted, lines, revision);
+    } else {
+        // A name made by a test macro holds parentheses itself: "TEST(Suite, Name)".
         for (const auto& span : spans) {
-            if (span.start_line <= line && line <= span.end_line) {
+            if (name_matches(span.qualified_name, wanted)) {
                 matches.push_back(&span);
             }
         }
-    } else {
+    }
+    if (matches.empty() && !all_digits(wanted)) {
         std::string name = wanted;
         const auto paren = name.find('(');
         std::string signature;
@@ -87,10 +150,11 @@ const lexer::FunctionSpan& pick_function(const std::vector<lexer::FunctionSpan>&
             }
         }
         const std::string suggestion = closest_match(wanted, names);
-        throw UsageError(fmt::format(
-            "no function \"{}\" in \"{}\"{}", wanted, path,
-            suggestion.empty() ? " (run \"tollgate measure " + path + "\" to list its functions)"
-                               : " (did you mean \"" + suggestion + "\"?)"));
+        throw UsageError(fmt::format("no function \"{}\" in \"{}\"{}", wanted, path,
+                                     suggestion.empty()
+                                         ? " (run \"" + measure_hint(path, revision) +
+                                               "\" to list its functions)"
+                                         : " (did you mean \"" + suggestion + "\"?)"));
     }
     std::string candidates;
     for (const auto* span : matches) {
@@ -121,13 +185,23 @@ int run_explain(const ExplainOptions& options) {
 
     ExplainOptions adjusted = options;
     adjusted.sources.paths = {path};
-    const LoadedSources loaded = load_sources(to_request(adjusted.sources));
+    SourceRequest request = to_request(adjusted.sources);
+    request.max_file_size = options.max_file_size;
+    const LoadedSources loaded = load_sources(request);
+    if (loaded.selected.empty() && loaded.oversized.size() == 1) {
+        throw UsageError(fmt::format(
+            "\"{}\" was not read: {} is over the {} limit (raise it with --max-file-size)", path,
+            format_byte_size(loaded.oversized.front().size),
+            format_byte_size(options.max_file_size)));
+    }
     if (loaded.selected.size() != 1) {
         throw UsageError("\"" + path + "\" names " + std::to_string(loaded.selected.size()) +
                          " files (explain takes one file)");
     }
     const auto files = lexer::lex_files(loaded.selected, loaded.context, 1);
-    const auto& span = pick_function(files.front().functions, path, wanted);
+    const auto& span =
+        pick_function(files.front().functions, path, wanted,
+                      line_count(loaded.selected.front().content), options.sources.revision);
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
     const auto measured = measure_span(span, settings);
@@ -156,6 +230,7 @@ void attach_explain(CLI::App& sub, const GlobalOptions& /*global*/,
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
     add_stroud_option(sub, options->stroud);
+    add_max_file_size_option(sub, options->max_file_size);
     add_isolation_options(sub, options->isolation);
     sub.footer("Examples:\n"
                "  tollgate explain src/filter.cpp:Kalman::update\n"

@@ -7,7 +7,9 @@
 #include "gate/hook/hook_file.hpp"
 #include "gate/hook/pre_push.hpp"
 #include "gate/hook/process.hpp"
+#include "gate/walker/repository.hpp"
 
+#include <filesystem>
 #include <iostream>
 #include <iterator>
 #include <memory>
@@ -28,7 +30,14 @@ struct HookOptions {
     IsolationOptions isolation; // run --parse-timeout, --parse-memory
 };
 
+// Open the repository around the current folder, for its errors: none outside a repository
+// (with the -C hint), git's words for one owned by another user.
+void require_repository() {
+    walker::Repository::open(std::filesystem::current_path().string());
+}
+
 int run_install(const HookOptions& options) {
+    require_repository();
     const hook::ExistingHook existing = options.chain   ? hook::ExistingHook::chain
                                         : options.force ? hook::ExistingHook::replace
                                                         : hook::ExistingHook::refuse;
@@ -41,6 +50,7 @@ int run_install(const HookOptions& options) {
 }
 
 int run_uninstall() {
+    require_repository();
     std::cerr << ("tollgate: " + text::terminal_text(hook::uninstall_hook(hook::hooks_folder())) +
                   "\n");
     return static_cast<int>(ExitCode::pass);

@@ -25,11 +25,14 @@ struct MeasureOptions {
     unsigned jobs = 0;           // parser threads, 0 = all cores
     IsolationOptions isolation;  // --parse-timeout, --parse-memory
     double stroud = 18.0;        // Stroud number for T
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
 };
 
 int run_measure(const MeasureOptions& options) {
     apply_isolation_options(options.isolation);
-    const LoadedSources loaded = load_sources(to_request(options.sources));
+    SourceRequest request = to_request(options.sources);
+    request.max_file_size = options.max_file_size;
+    const LoadedSources loaded = load_sources(request);
     const auto files = lexer::lex_files(loaded.selected, loaded.context, options.jobs);
     core::MeasureSettings settings;
     settings.stroud = options.stroud;
@@ -39,7 +42,11 @@ int run_measure(const MeasureOptions& options) {
             functions.push_back(measure_span(span, settings));
         }
     }
-    const auto warnings = collect_warnings(files);
+    auto warnings = collect_warnings(files);
+    for (const auto& file : loaded.oversized) {
+        warnings.push_back(
+            {file.path, 0, "not measured, " + oversized_reason(file.size, request.max_file_size)});
+    }
     if (options.format == "json") {
         report::write_measure_json(std::cout, functions, warnings, loaded.label,
                                    java::build_fingerprint(loaded.context.convention));
@@ -73,6 +80,7 @@ void attach_measure(CLI::App& sub, const GlobalOptions& /*global*/,
     add_jobs_option(sub, options->jobs);
     add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate measure src/filter.cpp            the working tree's file\n"
                "  tollgate measure --rev HEAD~3 src/         every file under src/ three commits "

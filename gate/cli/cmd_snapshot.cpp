@@ -5,9 +5,12 @@
 #include "gate/baseline/snapshot_shard.hpp"
 #include "gate/baseline/snapshot_trend.hpp"
 #include "gate/cli/commands.hpp"
+#include "gate/cli/number_options.hpp"
 #include "gate/cli/options.hpp"
 #include "gate/cli/snapshot_revision.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
+#include "gate/common/progress.hpp"
 #include "gate/common/shard_spec.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
@@ -17,6 +20,7 @@
 #include <filesystem>
 #include <fmt/format.h>
 #include <iostream>
+#include <map>
 #include <memory>
 #include <optional>
 #include <spdlog/spdlog.h>
@@ -42,6 +46,9 @@ struct SnapshotOptions {
     std::size_t top = 10;             // grown functions listed by --compare
     std::string shard;                // --shard K/N
     std::vector<std::string> merge;   // --merge PART...
+    std::string progress = "auto";    // --progress
+    std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    std::vector<std::string> include_dirs;                 // --include-dir
     // Where the snapshot goes without --out and without a baseline.path in the revision's
     // policy, relative to the repository root. Always confined to the repository.
     std::string configured_path = baseline::k_default_snapshot_path;
@@ -56,6 +63,18 @@ std::string display_path(const fs::path& absolute) {
     return relative.string();
 }
 
+// The options besides commit, convention and Stroud number that decide a snapshot's functions;
+// every shard of one run must agree on them.
+std::map<std::string, std::string> snapshot_identity(const SnapshotOptions& options) {
+    std::string include_dirs;
+    for (const auto& folder : options.include_dirs) {
+        include_dirs += (include_dirs.empty() ? "" : "\n") + folder;
+    }
+    return {{"compile-commands", options.compile_commands},
+            {"include-dir", include_dirs},
+            {"max-file-size", std::to_string(options.max_file_size)}};
+}
+
 // snapshot --merge: the parts joined into the snapshot one run writes.
 int run_snapshot_merge(const SnapshotOptions& options) {
     if (options.out.empty()) {
@@ -63,6 +82,7 @@ int run_snapshot_merge(const SnapshotOptions& options) {
     }
     const baseline::Overwrite overwrite =
         options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
+    check_writable("snapshot", options.out);
     baseline::check_replaceable(options.out, overwrite);
     std::vector<baseline::SnapshotPart> parts;
     std::size_t files = 0;
@@ -118,6 +138,7 @@ int run_snapshot(const SnapshotOptions& options) {
     const baseline::Overwrite overwrite =
         options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
     // Refuse before the expensive part, not after (a part replaces whatever is there).
+    check_writable("snapshot", out_path);
     if (!shard) {
         baseline::check_replaceable(out_path, overwrite);
     }
@@ -127,13 +148,25 @@ int run_snapshot(const SnapshotOptions& options) {
     request.compile_commands = options.compile_commands;
     request.cache_dir = options.cache_dir;
     request.no_cache = options.no_cache;
+    request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
     request.shard = shard;
+    const ProgressMode progress_mode = parse_progress_mode(options.progress);
+    ProgressMeter progress("snapshot", "files", progress_mode,
+                           progress_style(progress_mode, stderr_is_terminal()), std::cerr,
+                           progress_interval_seconds());
+    request.on_progress = [&progress](std::size_t done, std::size_t total) {
+        progress.update(done, total);
+    };
+
+    request.max_file_size = options.max_file_size;
     const SnapshotResult measured = snapshot_revision(request);
+    progress.finish();
     const baseline::Snapshot& snapshot = measured.snapshot;
     if (shard) {
-        baseline::save_snapshot_part({*shard, measured.files, snapshot}, out_path);
+        baseline::save_snapshot_part({*shard, measured.files, snapshot, snapshot_identity(options)},
+                                     out_path);
         std::cerr << fmt::format("tollgate: wrote part {} of commit {} to {}: {} functions in {} "
                                  "files\n",
                                  shard->text(), commit.short_hex(), text::terminal_text(out_path),
@@ -150,6 +183,10 @@ int run_snapshot(const SnapshotOptions& options) {
                                            : fmt::format(" ({} parse warnings: tollgate measure "
                                                          "--rev {} shows them)",
                                                          warnings, commit.short_hex()));
+    for (const auto& file : measured.oversized) {
+        std::cerr << fmt::format("tollgate: skipped {} ({})\n", file.path,
+                                 oversized_reason(file.size, options.max_file_size));
+    }
     return 0;
 }
 
@@ -190,6 +227,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     add_jobs_option(sub, options->jobs);
     add_isolation_options(sub, options->isolation);
     add_stroud_option(sub, options->stroud);
+    add_progress_option(sub, options->progress);
     sub.add_option("--compile-commands", options->compile_commands,
                    "compile_commands.json to take -D/-I/-std flags from (default: the "
                    "repository's own, if any, at its root or in build/)");
@@ -198,6 +236,7 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
                    "$XDG_CACHE_HOME/tollgate or ~/.cache/tollgate)");
     sub.add_flag("--no-pch-cache", options->no_cache,
                  "Parse without the precompiled standard-library headers");
+    add_include_dir_option(sub, options->include_dirs);
     auto* compare = sub.add_option("--compare", options->compare,
                                    "Compare two snapshot files, BASE then HEAD, instead of "
                                    "writing one")
@@ -219,7 +258,10 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.add_option("--format", options->format, "Output format of --compare")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
-    sub.add_option("--top", options->top, "Grown functions --compare lists")->capture_default_str();
+    sub.add_option("--top", options->top, "Grown functions --compare lists")
+        ->check(whole_number(0, 100000))
+        ->capture_default_str();
+    add_max_file_size_option(sub, options->max_file_size);
     sub.footer("Examples:\n"
                "  tollgate snapshot                          HEAD into baselines/snapshot.json\n"
                "  tollgate snapshot --rev v1.2 --out v1.2.json\n"

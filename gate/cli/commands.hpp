@@ -11,7 +11,8 @@ namespace tollgate {
 
 // Options every command shares.
 struct GlobalOptions {
-    bool verbose = false; // log stage by stage on stderr
+    bool verbose = false;                 // log stage by stage on stderr
+    std::vector<std::string> directories; // -C DIR, in order: run as if started there
 };
 
 // One command of the table.

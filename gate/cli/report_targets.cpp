@@ -3,6 +3,7 @@
 #include "gate/cli/report_targets.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/report/sarif.hpp"
 
 #include <cstdio>
@@ -53,30 +54,6 @@ void render(std::ostream& out, ReportFormat format, const Judged& judged,
     }
 }
 
-void write_file_atomically(const std::string& path, const std::string& content) {
-    namespace fs = std::filesystem;
-    const fs::path target(path);
-    if (target.has_parent_path()) {
-        std::error_code ec;
-        fs::create_directories(target.parent_path(), ec);
-    }
-    const std::string temporary = path + ".tmp-" + std::to_string(::getpid());
-    {
-        std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
-        out << content;
-        out.flush();
-        if (!out) {
-            throw Failure("cannot write report \"" + path + "\"");
-        }
-    }
-    std::error_code ec;
-    fs::rename(temporary, target, ec);
-    if (ec) {
-        fs::remove(temporary, ec);
-        throw Failure("cannot write report \"" + path + "\": " + ec.message());
-    }
-}
-
 } // namespace
 
 std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& specs) {
@@ -107,6 +84,14 @@ std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& s
         targets.push_back({*format, path});
     }
     return targets;
+}
+
+void check_report_targets(const std::vector<ReportTarget>& targets) {
+    for (const auto& target : targets) {
+        if (target.path != "-") {
+            check_writable("report", target.path);
+        }
+    }
 }
 
 std::size_t terminal_width() {
@@ -150,7 +135,7 @@ void write_reports(const delta::ChangeReport& report, const policy::Verdict& ver
             options.colour = report::Colour::off;
             options.width = 100;
             render(buffer, target.format, judged, options);
-            write_file_atomically(target.path, buffer.str());
+            write_output_file("report", target.path, buffer.str());
         }
     }
     if (!stdout_used) {

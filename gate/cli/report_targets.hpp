@@ -25,15 +25,20 @@ struct ReportTarget {
 // the bad spec, with "did you mean" for a misspelled format.
 std::vector<ReportTarget> parse_report_targets(const std::vector<std::string>& specs);
 
+// Check before any work that every file target can be written (see check_writable). Throws
+// Failure `cannot write report "PATH": REASON` for the first that cannot.
+void check_report_targets(const std::vector<ReportTarget>& targets);
+
 // Return the columns the terminal report on stdout fits in: the COLUMNS environment variable
 // when it is a whole number from 20 to 10,000, else the terminal's width (TIOCGWINSZ on stdout)
 // when stdout is a terminal, else 100.
 std::size_t terminal_width();
 
 // Write `report` to every target; with no target on stdout, the terminal table goes to stdout.
-// Files are written whole to a temporary name and renamed into place. Colour is used on stdout
-// when it is a terminal, NO_COLOR is unset and `no_colour` is false. Text on stdout fits
-// terminal_width(), text in a file 100 columns (unless `options.fit` is Fit::wide).
+// Files are written whole by write_output_file (a temporary name renamed into place); a failure
+// throws its Failure. Colour is used on stdout when it is a terminal, NO_COLOR is unset and
+// `no_colour` is false. Text on stdout fits terminal_width(), text in a file 100 columns (unless
+// `options.fit` is Fit::wide).
 void write_reports(const delta::ChangeReport& report, const policy::Verdict& verdict,
                    const policy::Policy& policy, const std::vector<ReportTarget>& targets,
                    report::RenderOptions options, bool no_colour);

@@ -10,17 +10,58 @@
 #include "gate/policy/policy.hpp"
 
 #include <CLI/CLI.hpp>
+#include <algorithm>
+#include <cctype>
+#include <cerrno>
 #include <cstdio>
+#include <cstring>
 #include <exception>
 #include <memory>
 #include <spdlog/formatter.h>
 #include <spdlog/sinks/stdout_color_sinks.h>
 #include <spdlog/spdlog.h>
 #include <string>
+#include <unistd.h>
 
 namespace tollgate {
 
 namespace {
+
+constexpr const char* k_directory_help =
+    "Run as if tollgate was started in DIR (paths given on the command line are then taken from "
+    "there); accepted before or after the command, and repeatable: each DIR is taken from the one "
+    "before, as git's -C";
+
+// Add -C/--repo to `app` and to every command below it, appending to `directories`.
+void add_directory_option(CLI::App& app, std::vector<std::string>& directories) {
+    app.add_option_function<std::string>(
+           "-C,--repo", [&directories](const std::string& dir) { directories.push_back(dir); },
+           k_directory_help)
+        ->type_name("DIR")
+        ->multi_option_policy(CLI::MultiOptionPolicy::TakeAll);
+    for (CLI::App* sub : app.get_subcommands([](CLI::App*) { return true; })) {
+        add_directory_option(*sub, directories);
+    }
+}
+
+// Change to each -C folder in turn. Throws UsageError naming the folder and the reason.
+void enter_directories(const std::vector<std::string>& directories) {
+    for (const std::string& dir : directories) {
+        if (::chdir(dir.c_str()) != 0) {
+            const int error = errno;
+            std::string reason = std::strerror(error);
+            if (!reason.empty()) {
+                reason[0] = static_cast<char>(std::tolower(static_cast<unsigned char>(reason[0])));
+            }
+            throw UsageError("cannot run in \"" + dir + "\" (-C): " + reason);
+        }
+    }
+}
+
+// Return true when `message` ends with a remedy in parentheses already.
+bool has_remedy(const std::string& message) {
+    return !message.empty() && message.back() == ')';
+}
 
 // Log lines as "tollgate: LEVEL: MESSAGE", the message made visible: logs quote paths and names.
 class VisibleFormatter : public spdlog::formatter {
@@ -64,6 +105,7 @@ int run_cli(int argc, char** argv) {
         CLI::App* sub = app.add_subcommand(entry.name, entry.summary);
         entry.attach(*sub, global, selected);
     }
+    add_directory_option(app, global.directories);
 
     try {
         app.parse(argc, argv);
@@ -74,8 +116,9 @@ int run_cli(int argc, char** argv) {
     } catch (const CLI::CallForVersion& e) {
         return app.exit(e);
     } catch (const CLI::ParseError& e) {
-        std::fprintf(stderr, "tollgate: error: %s (run \"tollgate --help\")\n",
-                     text::terminal_text(e.what()).c_str());
+        // Tollgate's own checks name the accepted values; CLI11's own messages get the hint.
+        std::fprintf(stderr, "tollgate: error: %s%s\n", text::terminal_text(e.what()).c_str(),
+                     has_remedy(e.what()) ? "" : " (run \"tollgate --help\")");
         return static_cast<int>(ExitCode::usage);
     }
 
@@ -85,6 +128,7 @@ int run_cli(int argc, char** argv) {
     spdlog::set_default_logger(logger);
 
     try {
+        enter_directories(global.directories);
         return selected ? selected() : static_cast<int>(ExitCode::usage);
     } catch (const policy::PolicyError& e) {
         // A broken policy carries one message per fault; each gets its line and the prefix.
@@ -99,7 +143,8 @@ int run_cli(int argc, char** argv) {
         return static_cast<int>(ExitCode::usage);
     } catch (const Failure& e) {
         std::fprintf(stderr, "tollgate: error: %s%s\n", text::terminal_text(e.what()).c_str(),
-                     global.verbose ? "" : " (run with --verbose for details)");
+                     global.verbose || has_remedy(e.what()) ? ""
+                                                            : " (run with --verbose for details)");
         return static_cast<int>(ExitCode::failure);
     } catch (const std::exception& e) {
         std::fprintf(stderr, "tollgate: internal error: %s (run with --verbose and report it)\n",

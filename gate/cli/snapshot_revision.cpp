@@ -10,6 +10,7 @@
 #include "tollgate/core/convention.hpp"
 
 #include <algorithm>
+#include <atomic>
 
 namespace tollgate {
 
@@ -19,6 +20,8 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.compile_commands = request.compile_commands;
     sources.cache_dir = request.cache_dir;
     sources.no_cache = request.no_cache;
+    sources.max_file_size = request.max_file_size;
+    sources.include_dirs = request.include_dirs;
     LoadedSources loaded = load_sources(sources);
     if (request.shard) { // the shard's files only; every header stays in the context
         auto& selected = loaded.selected;
@@ -29,9 +32,16 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
                                       }),
                        selected.end());
     }
-    const auto files = loaded.selected.empty()
-                           ? std::vector<lexer::FileFunctions>()
-                           : lexer::lex_files(loaded.selected, loaded.context, request.jobs);
+    std::atomic<std::size_t> done{0};
+    const auto files =
+        loaded.selected.empty()
+            ? std::vector<lexer::FileFunctions>()
+            : lexer::lex_files(loaded.selected, loaded.context, request.jobs,
+                               [&](const lexer::FileFunctions&) {
+                                   if (request.on_progress) {
+                                       request.on_progress(++done, loaded.selected.size());
+                                   }
+                               });
 
     core::MeasureSettings settings;
     settings.stroud = request.stroud;
@@ -41,6 +51,7 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
                                               settings, baseline::current_utc_time());
     result.files = files.size();
     result.warnings = collect_warnings(files).size();
+    result.oversized = loaded.oversized;
     return result;
 }
 

@@ -4,6 +4,7 @@
 
 #include "gate/common/disk_file.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/input_file.hpp"
 #include "gate/walker/repository.hpp"
 
 #include <algorithm>
@@ -19,16 +20,6 @@ namespace tollgate {
 
 namespace {
 
-std::string read_disk_file(const fs::path& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw UsageError("cannot read \"" + path.string() + "\"");
-    }
-    std::ostringstream buffer;
-    buffer << in.rdbuf();
-    return buffer.str();
-}
-
 // Return `path` relative to `root` with '/' separators, or nothing when it lies outside.
 std::optional<std::string> relative_inside(const fs::path& path, const fs::path& root) {
     const fs::path absolute = fs::weakly_canonical(fs::absolute(path));
@@ -41,8 +32,9 @@ std::optional<std::string> relative_inside(const fs::path& path, const fs::path&
     return text == "." ? std::string() : text;
 }
 
-// Every C/C++ and Java file under `root` (skipping hidden folders and build folders), from disk.
-std::vector<SourceFile> read_disk_tree(const fs::path& root) {
+// Every C/C++ and Java file under `root` (skipping hidden folders and build folders), from disk;
+// files over `limit` are listed there instead of read.
+std::vector<SourceFile> read_disk_tree(const fs::path& root, const SizeLimit& limit) {
     std::vector<SourceFile> files;
     std::error_code ec;
     fs::recursive_directory_iterator it(root, fs::directory_options::skip_permission_denied, ec);
@@ -57,9 +49,13 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
             continue;
         }
         // Never follow a symlink or open a FIFO or device named like a source file.
-        DiskFile file = read_regular_file(p.string());
+        DiskFile file = read_regular_file(p.string(), limit.max_bytes);
         if (file.entry == DiskEntry::unreadable) {
             throw UsageError("cannot read \"" + p.string() + "\"");
+        }
+        if (file.entry == DiskEntry::oversized) {
+            limit.oversized->push_back({p.lexically_relative(root).generic_string(), file.size});
+            continue;
         }
         if (file.entry != DiskEntry::regular) {
             if (file.entry != DiskEntry::missing) {
@@ -75,26 +71,37 @@ std::vector<SourceFile> read_disk_tree(const fs::path& root) {
     return files;
 }
 
-// Keep the files of `all` that `paths` select (a file, or every file under a folder).
+// Return true when `path` is `wanted` or lies under the folder `wanted` ("" is the root).
+bool selects(const std::string& wanted, const std::string& path) {
+    return path == wanted || wanted.empty() ||
+           (path.size() > wanted.size() && path.compare(0, wanted.size(), wanted) == 0 &&
+            path[wanted.size()] == '/');
+}
+
+// Keep the files of `all` that `paths` select (a file, or every file under a folder), and in
+// `oversized` only the files left unread that they select.
 std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
+                                     std::vector<OversizedFile>& oversized,
                                      const std::vector<std::string>& relative_paths,
                                      const std::vector<std::string>& as_given) {
     if (relative_paths.empty()) {
         return all;
     }
     std::vector<SourceFile> selected;
+    std::vector<OversizedFile> selected_oversized;
     for (std::size_t i = 0; i < relative_paths.size(); ++i) {
         const std::string& wanted = relative_paths[i];
         bool found = false;
         for (const auto& file : all) {
-            const bool same = file.path == wanted;
-            const bool under =
-                wanted.empty() || (file.path.size() > wanted.size() &&
-                                   file.path.compare(0, wanted.size(), wanted) == 0 &&
-                                   file.path[wanted.size()] == '/');
-            if (same || under) {
+            if (selects(wanted, file.path)) {
                 found = true;
                 selected.push_back(file);
+            }
+        }
+        for (const auto& file : oversized) {
+            if (selects(wanted, file.path)) {
+                found = true;
+                selected_oversized.push_back(file);
             }
         }
         if (!found) {
@@ -109,6 +116,11 @@ std::vector<SourceFile> select_files(const std::vector<SourceFile>& all,
         std::unique(selected.begin(), selected.end(),
                     [](const SourceFile& a, const SourceFile& b) { return a.path == b.path; }),
         selected.end());
+    std::sort(selected_oversized.begin(), selected_oversized.end(),
+              [](const OversizedFile& a, const OversizedFile& b) { return a.path < b.path; });
+    selected_oversized.erase(std::unique(selected_oversized.begin(), selected_oversized.end()),
+                             selected_oversized.end());
+    oversized = std::move(selected_oversized);
     return selected;
 }
 
@@ -131,10 +143,7 @@ std::optional<std::string> read_found_database(const fs::path& path) {
 
 std::string read_compile_commands(const std::string& given, const std::string& root) {
     if (!given.empty()) {
-        if (!fs::exists(given)) {
-            throw UsageError("compile database \"" + given + "\" does not exist");
-        }
-        return read_disk_file(given);
+        return read_named_file("compile database", given, "give a compile_commands.json file");
     }
     if (root.empty()) {
         return {};
@@ -145,6 +154,23 @@ std::string read_compile_commands(const std::string& given, const std::string& r
         }
     }
     return {};
+}
+
+std::vector<std::string> resolve_include_dirs(const std::vector<std::string>& given,
+                                              const std::string& root) {
+    std::vector<std::string> folders;
+    for (const std::string& folder : given) {
+        if (const auto inside = root.empty() ? std::nullopt : relative_inside(folder, root)) {
+            folders.push_back(std::string(lexer::k_virtual_root) + *inside);
+            continue;
+        }
+        const fs::path absolute = fs::weakly_canonical(fs::absolute(folder));
+        if (!fs::is_directory(absolute)) {
+            throw UsageError("include folder \"" + folder + "\" does not exist");
+        }
+        folders.push_back(absolute.string());
+    }
+    return folders;
 }
 
 std::string resolve_cache_dir(bool no_cache, const std::string& given) {
@@ -172,28 +198,34 @@ LoadedSources load_sources(const SourceRequest& request) {
     std::vector<SourceFile> all;
     fs::path root;
 
-    std::optional<walker::Repository> repository;
-    try {
+    // Outside a repository the working tree is a plain folder; a repository that cannot be
+    // opened (owned by another user) is an error, never read as a folder.
+    std::optional<walker::Repository> repository =
+        walker::Repository::find(fs::current_path().string());
+    if (!repository && !request.revision.empty()) {
         repository.emplace(walker::Repository::open(fs::current_path().string()));
-    } catch (const UsageError&) {
-        if (!request.revision.empty()) {
-            throw;
-        }
     }
 
+    const SizeLimit limit{request.max_file_size, &loaded.oversized};
     if (repository) {
-        root = repository->is_bare() ? fs::current_path() : fs::path(repository->workdir());
+        // Without a working tree around the current folder (a bare repository, or inside the git
+        // folder) paths name files of the revision from the current folder.
+        const bool in_git_dir =
+            relative_inside(fs::current_path(), repository->git_dir()).has_value();
+        root = repository->is_bare() || (in_git_dir && !request.revision.empty())
+                   ? fs::current_path()
+                   : fs::path(repository->workdir());
         if (!request.revision.empty()) {
             const walker::ObjectId commit = repository->resolve_commit(request.revision);
-            all = repository->read_c_family_files(commit);
+            all = repository->read_c_family_files(commit, limit);
             loaded.label = "revision " + commit.short_hex() + " (" + request.revision + ")";
         } else {
-            all = repository->read_worktree_c_family_files();
+            all = repository->read_worktree_c_family_files(limit);
             loaded.label = "working tree";
         }
     } else {
         root = fs::current_path();
-        all = read_disk_tree(root);
+        all = read_disk_tree(root, limit);
         loaded.label = "folder " + root.string();
     }
     loaded.root = root.string();
@@ -211,7 +243,7 @@ LoadedSources load_sources(const SourceRequest& request) {
         }
         relative.push_back(rel);
     }
-    loaded.selected = select_files(all, relative, request.paths);
+    loaded.selected = select_files(all, loaded.oversized, relative, request.paths);
 
     const std::string compile_db = read_compile_commands(request.compile_commands, root.string());
     loaded.context =
@@ -219,6 +251,8 @@ LoadedSources load_sources(const SourceRequest& request) {
                                   request.compile_commands.empty() ? lexer::DatabaseOrigin::found
                                                                    : lexer::DatabaseOrigin::given);
     loaded.context.force_language = request.force_language;
+    lexer::add_include_dirs(loaded.context, all,
+                            resolve_include_dirs(request.include_dirs, root.string()));
     loaded.context.cache_dir = resolve_cache_dir(request.no_cache, request.cache_dir);
     spdlog::debug("{}: {} C/C++ files, {} selected, {} headers", loaded.label, all.size(),
                   loaded.selected.size(), loaded.context.headers.size());

@@ -21,11 +21,13 @@ const char* disk_entry_text(DiskEntry entry) {
         return "not a regular file";
     case DiskEntry::unreadable:
         return "unreadable";
+    case DiskEntry::oversized:
+        return "too large";
     }
     return "unreadable";
 }
 
-DiskFile read_regular_file(const std::string& path) {
+DiskFile read_regular_file(const std::string& path, std::uint64_t max_bytes) {
     DiskFile file;
     struct stat before {};
     if (::lstat(path.c_str(), &before) != 0) {
@@ -53,11 +55,18 @@ DiskFile read_regular_file(const std::string& path) {
         file.entry = DiskEntry::special; // replaced between the two looks
         return file;
     }
+    file.size = static_cast<std::uint64_t>(after.st_size);
+    if (max_bytes != 0 && file.size > max_bytes) {
+        ::close(fd);
+        file.entry = DiskEntry::oversized;
+        return file;
+    }
     ::fcntl(fd, F_SETFL, ::fcntl(fd, F_GETFL) & ~O_NONBLOCK);
     std::string content;
     content.reserve(static_cast<std::size_t>(after.st_size));
     char buffer[65536];
-    for (;;) {
+    // Stop at the bound even when the file grows while it is read.
+    while (max_bytes == 0 || content.size() <= max_bytes) {
         const ssize_t got = ::read(fd, buffer, sizeof buffer);
         if (got == 0) {
             break;
@@ -73,7 +82,13 @@ DiskFile read_regular_file(const std::string& path) {
         content.append(buffer, static_cast<std::size_t>(got));
     }
     ::close(fd);
+    if (max_bytes != 0 && content.size() > max_bytes) {
+        file.entry = DiskEntry::oversized;
+        file.size = content.size();
+        return file;
+    }
     file.entry = DiskEntry::regular;
+    file.size = content.size();
     file.content = std::move(content);
     return file;
 }

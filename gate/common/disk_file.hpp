@@ -3,6 +3,7 @@
 // file is ever opened; a symlink is never followed, a FIFO or device never opened.
 #pragma once
 
+#include <cstdint>
 #include <optional>
 #include <string>
 
@@ -15,6 +16,7 @@ enum class DiskEntry {
     symlink,    // a symbolic link (not followed)
     special,    // a FIFO, device, socket or folder (not opened)
     unreadable, // a regular file that could not be opened or read
+    oversized,  // a regular file over the size bound (not read)
 };
 
 // Return the name of `entry` for a skip reason ("symlink", "not a regular file", ...).
@@ -24,11 +26,13 @@ const char* disk_entry_text(DiskEntry entry);
 struct DiskFile {
     DiskEntry entry = DiskEntry::missing; // what was found
     std::string content;                  // the bytes, when `entry` is regular
+    std::uint64_t size = 0;               // its size, when `entry` is regular or oversized
 };
 
 // Read the file at `path` when it is a regular file: the path is examined with lstat first, then
 // opened without following a symlink and without blocking, and checked again on the open file,
-// so a FIFO or device put there in between is never read. Never throws.
-DiskFile read_regular_file(const std::string& path);
+// so a FIFO or device put there in between is never read. A file larger than `max_bytes` (0: no
+// bound) by the open file's own size is not read (DiskEntry::oversized). Never throws.
+DiskFile read_regular_file(const std::string& path, std::uint64_t max_bytes = 0);
 
 } // namespace tollgate

@@ -1,5 +1,5 @@
 // SPDX-License-Identifier: MIT
-// "Did you mean" suggestions by edit distance.
+// Message helpers: "did you mean" suggestions by edit distance, shell words for remedies.
 #include "gate/common/errors.hpp"
 
 #include <algorithm>
@@ -27,6 +27,21 @@ std::size_t edit_distance(const std::string& a, const std::string& b) {
 }
 
 } // namespace
+
+std::string shell_word(const std::string& text) {
+    const bool plain =
+        !text.empty() && text.find_first_not_of("abcdefghijklmnopqrstuvwxyz"
+                                                "ABCDEFGHIJKLMNOPQRSTUVWXYZ"
+                                                "0123456789_./-+:@=,") == std::string::npos;
+    if (plain) {
+        return text;
+    }
+    std::string quoted = "'";
+    for (const char c : text) {
+        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    }
+    return quoted + "'";
+}
 
 std::string closest_match(const std::string& word, const std::vector<std::string>& candidates) {
     const std::size_t limit = std::max<std::size_t>(2, word.size() / 3);

@@ -21,6 +21,10 @@ public:
     using std::runtime_error::runtime_error;
 };
 
+// Return `text` as one word of a shell command shown in a message: unchanged when it holds only
+// characters a shell leaves alone, else in single quotes.
+std::string shell_word(const std::string& text);
+
 // Return the candidate in `candidates` closest to `word` by edit distance, or an empty string
 // when none is close enough to suggest (distance more than a third of the word's length, min 2).
 std::string closest_match(const std::string& word, const std::vector<std::string>& candidates);

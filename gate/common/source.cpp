@@ -2,6 +2,8 @@
 // C/C++ and Java file recognition by extension.
 #include "gate/common/source.hpp"
 
+#include "gate/common/byte_size.hpp"
+
 #include <algorithm>
 #include <array>
 #include <cctype>
@@ -40,6 +42,11 @@ bool is_c_family_path(const std::string& path) {
     const std::string ext = lower_extension(path);
     return is_header_path(path) || std::find(k_source_extensions.begin(), k_source_extensions.end(),
                                              ext) != k_source_extensions.end();
+}
+
+std::string oversized_reason(std::uint64_t size, std::uint64_t max_bytes) {
+    return "too large: " + format_byte_size(size) + ", over the " + format_byte_size(max_bytes) +
+           " limit of --max-file-size";
 }
 
 bool is_java_path(const std::string& path) {

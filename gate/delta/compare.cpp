@@ -2,6 +2,7 @@
 // Touched-function selection and base/head pairing.
 #include "gate/delta/compare.hpp"
 
+#include "gate/delta/pairing.hpp"
 #include "tollgate/core/counts.hpp"
 
 #include <algorithm>
@@ -10,14 +11,6 @@
 namespace tollgate::delta {
 
 namespace {
-
-// A candidate function of one side, with where it came from.
-struct Candidate {
-    const SideFunction* span = nullptr; // the function
-    bool touched = false;               // its extent meets a changed line of its side
-    bool whole = false;                 // every line of its extent changed (moved candidates)
-    bool paired = false;                // already paired
-};
 
 std::string name_and_signature(const SideFunction& f) {
     return f.qualified_name() + "(" + f.signature() + ")";
@@ -51,38 +44,14 @@ FunctionSide side_of(const SideFunction& f, const core::MeasureSettings& setting
     side.start_line = f.start_line();
     side.end_line = f.end_line();
     side.lexical = f.mode() == lexer::ExtentMode::lexical;
+    side.inactive = f.inactive();
+    side.brace_extent = f.brace_extent();
     side.parser_stopped = f.mode() == lexer::ExtentMode::parser_stopped;
     side.token_hash = f.token_hash();
     side.measures = f.span ? core::compute_measures(core::count_tokens(f.span->tokens),
                                                     f.span->potential_operands, settings)
                            : f.stored->measures;
     return side;
-}
-
-// Pair unpaired candidates of `base` and `head` whose `key` is equal and unique on each side.
-template <typename KeyFn>
-void pair_by(std::vector<Candidate*>& base, std::vector<Candidate*>& head, KeyFn key,
-             std::vector<std::pair<Candidate*, Candidate*>>& pairs) {
-    std::map<std::string, std::vector<Candidate*>> base_by_key, head_by_key;
-    for (auto* c : base) {
-        if (!c->paired && !key(*c->span).empty()) {
-            base_by_key[key(*c->span)].push_back(c);
-        }
-    }
-    for (auto* c : head) {
-        if (!c->paired && !key(*c->span).empty()) {
-            head_by_key[key(*c->span)].push_back(c);
-        }
-    }
-    for (auto& [k, base_list] : base_by_key) {
-        auto it = head_by_key.find(k);
-        if (it == head_by_key.end() || base_list.size() != 1 || it->second.size() != 1) {
-            continue;
-        }
-        base_list.front()->paired = true;
-        it->second.front()->paired = true;
-        pairs.emplace_back(base_list.front(), it->second.front());
-    }
 }
 
 void pair_sides(std::vector<Candidate*>& base, std::vector<Candidate*>& head,
@@ -92,9 +61,17 @@ void pair_sides(std::vector<Candidate*>& base, std::vector<Candidate*>& head,
     pair_by(
         base, head, [](const SideFunction& f) { return f.fallback_key(); }, pairs);
     pair_by(base, head, name_and_signature, pairs);
+    pair_by_name(base, head, pairs);
 }
 
-FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool other_file,
+// Where a pair's two sides were found.
+enum class PairPlace {
+    same_file,   // paired within one file (a renamed file's sides are the same file)
+    other_file,  // the function moved to another file
+    other_scope, // its namespace or class was renamed
+};
+
+FunctionDelta make_delta(const Candidate* base, const Candidate* head, PairPlace place,
                          const core::MeasureSettings& settings) {
     FunctionDelta delta;
     const SideFunction& shown = head ? *head->span : *base->span;
@@ -103,6 +80,12 @@ FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool othe
     delta.identity = shown.usr().empty() ? shown.fallback_key() : shown.usr();
     if (base) {
         delta.base = side_of(*base->span, settings);
+        if (head && base->span->qualified_name() != head->span->qualified_name()) {
+            delta.base_name = base->span->qualified_name();
+        }
+        if (head && base->span->signature() != head->span->signature()) {
+            delta.base_signature = base->span->signature();
+        }
     }
     if (head) {
         delta.head = side_of(*head->span, settings);
@@ -111,8 +94,12 @@ FunctionDelta make_delta(const Candidate* base, const Candidate* head, bool othe
         delta.label = DeltaLabel::added;
     } else if (!head) {
         delta.label = DeltaLabel::removed;
-    } else if (other_file || (base->whole && head->whole &&
-                              base->span->start_line() != head->span->start_line())) {
+    } else if (place == PairPlace::other_file ||
+               (place == PairPlace::other_scope &&
+                (base->span->path() != head->span->path() ||
+                 base->span->qualified_name() != head->span->qualified_name())) ||
+               (base->whole && head->whole &&
+                base->span->start_line() != head->span->start_line())) {
         delta.label = DeltaLabel::moved;
     } else if (base->span->token_hash() == head->span->token_hash()) {
         delta.label = DeltaLabel::unchanged;
@@ -175,7 +162,7 @@ std::vector<FunctionDelta> compare_functions(const std::vector<FileSides>& files
         pair_sides(base, head, pairs);
         for (const auto& [b, h] : pairs) {
             if (b->touched || h->touched) {
-                result.push_back(make_delta(b, h, false, settings));
+                result.push_back(make_delta(b, h, PairPlace::same_file, settings));
             }
         }
     }
@@ -201,16 +188,24 @@ std::vector<FunctionDelta> compare_functions(const std::vector<FileSides>& files
         base_left, head_left, [](const SideFunction& f) { return f.usr(); }, moves);
     pair_by(base_left, head_left, name_and_signature, moves);
     for (const auto& [b, h] : moves) {
-        result.push_back(make_delta(b, h, b->span->path() != h->span->path(), settings));
+        result.push_back(make_delta(
+            b, h, b->span->path() != h->span->path() ? PairPlace::other_file : PairPlace::same_file,
+            settings));
+    }
+    // Last: a namespace or class renamed around the function, in one file or across files.
+    std::vector<std::pair<Candidate*, Candidate*>> renamed;
+    pair_renamed_scopes(base_left, head_left, renamed);
+    for (const auto& [b, h] : renamed) {
+        result.push_back(make_delta(b, h, PairPlace::other_scope, settings));
     }
     for (auto* c : base_left) {
         if (!c->paired) {
-            result.push_back(make_delta(c, nullptr, false, settings));
+            result.push_back(make_delta(c, nullptr, PairPlace::same_file, settings));
         }
     }
     for (auto* c : head_left) {
         if (!c->paired) {
-            result.push_back(make_delta(nullptr, c, false, settings));
+            result.push_back(make_delta(nullptr, c, PairPlace::same_file, settings));
         }
     }
     sort_deltas(result);

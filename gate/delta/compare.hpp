@@ -32,6 +32,8 @@ struct SideFunction {
     unsigned start_line() const { return span ? span->start_line : stored->start_line; }
     unsigned end_line() const { return span ? span->end_line : stored->end_line; }
     lexer::ExtentMode mode() const { return span ? span->mode : stored->mode; }
+    bool inactive() const { return span ? span->inactive : stored->inactive; }
+    bool brace_extent() const { return span ? span->brace_extent : stored->brace_extent; }
 };
 
 // Return the functions of `file` as side functions (empty for null).

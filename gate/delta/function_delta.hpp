@@ -6,6 +6,7 @@
 
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace tollgate::delta {
@@ -30,24 +31,31 @@ struct FunctionSide {
     bool lexical = false;        // extent came from the lexical cross-check
     bool parser_stopped = false; // the parser stopped on this side's file (or the other side's):
                                  // measured lexically
+    bool inactive = false;       // defined in an #if branch the preprocessor skipped
+    bool brace_extent = false;   // libclang's extent disagreed with brace matching: braces' taken
     std::string token_hash;      // digest of the counted tokens
     core::Measures measures;     // every measure on this side
 
     bool operator==(const FunctionSide& other) const {
         return path == other.path && start_line == other.start_line && end_line == other.end_line &&
                lexical == other.lexical && parser_stopped == other.parser_stopped &&
-               token_hash == other.token_hash && measures == other.measures;
+               token_hash == other.token_hash && measures == other.measures &&
+               inactive == other.inactive && brace_extent == other.brace_extent;
     }
 };
 
 // A touched function, paired across the change.
 struct FunctionDelta {
-    std::string name;                       // qualified name (head's, or base's when removed)
-    std::string signature;                  // parameter types
-    std::string identity;                   // USR, or the fallback key when there is none
-    DeltaLabel label = DeltaLabel::changed; // what happened
-    std::optional<FunctionSide> base;       // empty when added
-    std::optional<FunctionSide> head;       // empty when removed
+    std::string name;                          // qualified name (head's, or base's when removed)
+    std::string signature;                     // parameter types
+    std::string identity;                      // USR, or the fallback key when there is none
+    DeltaLabel label = DeltaLabel::changed;    // what happened
+    std::optional<FunctionSide> base;          // empty when added
+    std::optional<FunctionSide> head;          // empty when removed
+    std::optional<std::string> base_name;      // the base's qualified name when it differs from
+                                               // `name` (a namespace or class renamed)
+    std::optional<std::string> base_signature; // the base's parameter types when they differ
+                                               // from `signature` (a parameter list edited)
 
     // Return the change of measure `id`; a missing side counts as zero.
     core::Delta delta(core::MeasureId id) const;
@@ -60,7 +68,8 @@ struct FunctionDelta {
 
     bool operator==(const FunctionDelta& other) const {
         return name == other.name && signature == other.signature && identity == other.identity &&
-               label == other.label && base == other.base && head == other.head;
+               label == other.label && base == other.base && head == other.head &&
+               base_name == other.base_name && base_signature == other.base_signature;
     }
 };
 
@@ -79,6 +88,23 @@ struct ChangeWarning {
     std::string path;    // repository-relative path
     unsigned line = 0;   // 0 when not tied to a line
     std::string message; // lowercase sentence
+};
+
+// The changed lines of one C/C++ file that fall inside no measured function: file-scope code,
+// macros, declarations, or lines the front end could not attribute. Blank and comment-only
+// lines are not counted; a line edited in place counts once on each side.
+struct UnmeasuredLines {
+    std::string path;                                // head path, or base path when deleted
+    std::vector<std::pair<unsigned, unsigned>> base; // deleted lines outside every base function,
+                                                     // as inclusive ranges in base numbering
+    std::vector<std::pair<unsigned, unsigned>> head; // added lines outside every head function,
+                                                     // as inclusive ranges in head numbering
+    unsigned count = 0;                              // lines in `base` and `head` together
+
+    bool operator==(const UnmeasuredLines& other) const {
+        return path == other.path && base == other.base && head == other.head &&
+               count == other.count;
+    }
 };
 
 // Sums over a set of functions.
@@ -115,6 +141,9 @@ struct ChangeReport {
     bool compile_database = false;        // a compile_commands.json was given or found
     unsigned files_without_compile_flags = 0; // measured files no compile_commands.json entry
                                               // covers (every one when there is none)
+    std::vector<UnmeasuredLines> unmeasured;  // per changed C/C++ file with changed lines outside
+                                              // every measured function, by path
+    unsigned unmeasured_lines = 0;            // the sum of their counts
 };
 
 // Sort `functions` for reports: largest effort growth first, then by path, line and name, so

@@ -2,14 +2,19 @@
 // One change, measured: read sides, lex in parallel, compare, total.
 #include "gate/delta/measure_change.hpp"
 
+#include "gate/common/byte_size.hpp"
 #include "gate/delta/compare.hpp"
 #include "gate/delta/snapshot_check.hpp"
+#include "gate/delta/unmeasured_lines.hpp"
 #include "gate/java/java_front_end.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/lexer/lexer.hpp"
 #include "gate/lexer/lexical_fallback.hpp"
 
+#include <algorithm>
+#include <atomic>
 #include <fmt/format.h>
+#include <set>
 #include <spdlog/spdlog.h>
 
 namespace tollgate::delta {
@@ -27,6 +32,7 @@ std::string label_for(const std::string& name, const walker::ObjectId& id) {
 // Every file a side needs: the changed files' content and the side's headers.
 struct SideSources {
     std::vector<SourceFile> tree;                   // every C/C++ file of the side
+    std::vector<OversizedFile> oversized;           // files of the side left unread for size
     lexer::ParseContext context;                    // built from `tree`
     std::vector<std::optional<SourceFile>> changed; // per changed file, its content on this side
 };
@@ -42,11 +48,12 @@ SideSources read_side_sources(const walker::Repository& repository,
         any = any || (sources.changed.back() && !is_java_path(sources.changed.back()->path));
     }
     if (any) {
-        sources.tree = walker::read_side_tree(repository, changes, side);
+        sources.tree = walker::read_side_tree(repository, changes, side, &sources.oversized);
     }
     sources.context =
         lexer::make_parse_context(sources.tree, settings.compile_commands_json,
                                   settings.compile_commands_root, settings.compile_commands_origin);
+    lexer::add_include_dirs(sources.context, sources.tree, settings.include_dirs);
     sources.context.convention = settings.convention;
     sources.context.cache_dir = settings.cache_dir;
     return sources;
@@ -78,8 +85,16 @@ private:
 // own claims (waiting while holding a claim could deadlock two workers).
 std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob>& jobs,
                                                  const MeasureChangeSettings& settings) {
+    std::atomic<std::size_t> done{0};
+    std::size_t total = 0;
+    const auto on_done = [&](const lexer::FileFunctions&) {
+        if (settings.on_progress) {
+            settings.on_progress(++done, total);
+        }
+    };
     if (settings.lex_cache == nullptr) {
-        return lexer::lex_jobs(jobs, settings.jobs);
+        total = jobs.size();
+        return lexer::lex_jobs(jobs, settings.jobs, on_done);
     }
     lexer::LexCache& cache = *settings.lex_cache;
     std::vector<lexer::FileFunctions> lexed(jobs.size());
@@ -104,7 +119,9 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
             for (const std::size_t j : claimed) {
                 missing.push_back(jobs[j]);
             }
-            std::vector<lexer::FileFunctions> parsed = lexer::lex_jobs(missing, settings.jobs);
+            total += missing.size(); // files found in the cache are not counted
+            std::vector<lexer::FileFunctions> parsed =
+                lexer::lex_jobs(missing, settings.jobs, on_done);
             const std::vector<std::size_t> mine = std::move(claimed);
             claimed.clear();
             for (std::size_t k = 0; k < parsed.size(); ++k) {
@@ -254,9 +271,13 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
         report.notes.push_back(changes.range.note);
     }
     report.notes.insert(report.notes.end(), changes.notes.begin(), changes.notes.end());
+    std::set<std::string> skipped_paths;
     for (const auto& skipped : changes.skipped) {
-        report.skipped.push_back({skipped.head_path.empty() ? skipped.base_path : skipped.head_path,
-                                  walker::skip_reason_text(skipped.reason)});
+        const std::string& path = skipped.head_path.empty() ? skipped.base_path : skipped.head_path;
+        skipped_paths.insert(path);
+        report.skipped.push_back({path, skipped.reason == walker::SkipReason::too_large
+                                            ? oversized_reason(skipped.size, changes.max_file_size)
+                                            : walker::skip_reason_text(skipped.reason)});
     }
     report.measured_files = static_cast<unsigned>(changes.files.size());
     if (changes.files.empty()) {
@@ -266,6 +287,19 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
     // The base is always parsed: a snapshot of it is only compared (see check_base_snapshot).
     const SideSources base = read_side_sources(repository, changes, Side::base, settings);
     const SideSources head = read_side_sources(repository, changes, Side::head, settings);
+    // Unchanged files left unread: the changed files that include them are parsed without them.
+    std::set<std::string> noted;
+    for (const SideSources* sources : {&base, &head}) {
+        for (const auto& file : sources->oversized) {
+            if (skipped_paths.count(file.path) == 0 && noted.insert(file.path).second) {
+                report.notes.push_back(fmt::format(
+                    "\"{}\" was not read: {} is over the {} limit (--max-file-size); files that "
+                    "include it are parsed without it",
+                    file.path, format_byte_size(file.size),
+                    format_byte_size(changes.max_file_size)));
+            }
+        }
+    }
 
     // A file takes its flags from the side it is read on (head, else base): say how many had
     // none, so that the reports can tell how to give a compile database.
@@ -288,6 +322,24 @@ ChangeReport measure_change(const walker::Repository& repository, const walker::
                                   report.functions, settings.measures);
     }
     compute_totals(report);
+    for (std::size_t i = 0; i < changes.files.size(); ++i) {
+        const auto& file = changes.files[i];
+        const std::string& path = file.head_path.empty() ? file.base_path : file.head_path;
+        if (is_java_path(path)) {
+            continue; // the lines outside functions are counted for C and C++ files
+        }
+        const auto& base_file = base.changed[i];
+        const auto& head_file = head.changed[i];
+        UnmeasuredLines lines =
+            unmeasured_lines(path, sides[i], base_file ? &base_file->content : nullptr,
+                             head_file ? &head_file->content : nullptr);
+        if (lines.count > 0) {
+            report.unmeasured_lines += lines.count;
+            report.unmeasured.push_back(std::move(lines));
+        }
+    }
+    std::sort(report.unmeasured.begin(), report.unmeasured.end(),
+              [](const UnmeasuredLines& a, const UnmeasuredLines& b) { return a.path < b.path; });
     return report;
 }
 

@@ -13,8 +13,10 @@
 #include "tollgate/core/convention.hpp"
 #include "tollgate/core/measures.hpp"
 
+#include <functional>
 #include <optional>
 #include <string>
+#include <vector>
 
 namespace tollgate::delta {
 
@@ -25,16 +27,21 @@ struct MeasureChangeSettings {
     std::string compile_commands_json; // text of a compile_commands.json, or empty
     std::string compile_commands_root; // absolute folder its paths are relative to
     lexer::DatabaseOrigin compile_commands_origin =
-        lexer::DatabaseOrigin::found;     // given by the pipeline (trusted) or found
-    std::string cache_dir;                // precompiled-header cache; empty disables it
-    unsigned jobs = 0;                    // parser threads, 0 = all cores
-    lexer::LexCache* lex_cache = nullptr; // lexed files to reuse and to keep (not owned);
-                                          // null parses every file
+        lexer::DatabaseOrigin::found;      // given by the pipeline (trusted) or found
+    std::string cache_dir;                 // precompiled-header cache; empty disables it
+    std::vector<std::string> include_dirs; // -I folders for files without compile-database
+                                           // flags, as lexer::add_include_dirs takes them
+    unsigned jobs = 0;                     // parser threads, 0 = all cores
+    lexer::LexCache* lex_cache = nullptr;  // lexed files to reuse and to keep (not owned);
+                                           // null parses every file
     const baseline::Snapshot* base_snapshot = nullptr; // a trusted snapshot to compare with the
                                                        // parsed base when it is of the base
                                                        // commit (not owned); may be null
     SnapshotCheck* snapshot_check = nullptr;           // receives that comparison (not owned); the
                                                        // comparison is made only when this is set
+    // Called (serialised) after each file side parsed with the sides done and the total to
+    // parse (sides from the lexed-file cache are not counted); may be empty.
+    std::function<void(std::size_t done, std::size_t total)> on_progress;
 };
 
 // Measure the change `changes` in `repository`: each changed C/C++ file is parsed once per side

@@ -3,6 +3,7 @@
 #include "gate/hook/hook_file.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/hook/process.hpp"
 
 #include <filesystem>
@@ -30,28 +31,9 @@ std::string read_file(const fs::path& path) {
     return text.str();
 }
 
-// Write `text` to `path` through a temporary file renamed into place, executable.
+// Write `text` to `path` with the one writer of output files, executable (0755 less the umask).
 void write_executable(const fs::path& path, const std::string& text) {
-    const fs::path temporary = path.string() + ".tollgate-tmp";
-    {
-        std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
-        out << text;
-        if (!out.flush()) {
-            throw Failure("cannot write \"" + temporary.string() + "\"");
-        }
-    }
-    std::error_code error;
-    fs::permissions(temporary,
-                    fs::perms::owner_all | fs::perms::group_read | fs::perms::group_exec |
-                        fs::perms::others_read | fs::perms::others_exec,
-                    error);
-    if (!error) {
-        fs::rename(temporary, path, error);
-    }
-    if (error) {
-        fs::remove(temporary);
-        throw Failure("cannot write \"" + path.string() + "\": " + error.message());
-    }
+    write_output_file("hook", path.string(), text, 0755);
 }
 
 void move_file(const fs::path& from, const fs::path& to) {
@@ -78,7 +60,8 @@ std::string hooks_folder() {
     }
     if (result.exit_code != 0 || path.empty()) {
         throw UsageError("not in a git repository: \"" + fs::current_path().string() +
-                         "\" (run \"tollgate hook\" inside the repository)");
+                         "\" (run \"tollgate hook\" inside the repository, or name it with -C "
+                         "DIR)");
     }
     return fs::absolute(path).lexically_normal().string();
 }

@@ -25,8 +25,8 @@ bool java_available();
 // Return one line on the Java front end for --version: "java: on (...)" or "java: off (...)".
 std::string java_status();
 
-// Return the fingerprint of every convention this build counts under: "c-family/1" alone, or
-// "c-family/1, java/1" when the Java front end is built in (each with `convention`'s switches).
+// Return the fingerprint of every convention this build counts under: "c-family/2" alone, or
+// "c-family/2, java/1" when the Java front end is built in (each with `convention`'s switches).
 // Snapshots and reports record it, so numbers of builds that measure different files are never
 // compared.
 std::string build_fingerprint(const core::Convention& convention);

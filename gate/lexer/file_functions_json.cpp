@@ -74,6 +74,8 @@ json file_functions_to_json(const FileFunctions& functions) {
                         {"extent", extent_name(f.mode)},
                         {"potential_operands", f.potential_operands},
                         {"token_hash", f.token_hash},
+                        {"inactive", f.inactive},
+                        {"brace_extent", f.brace_extent},
                         {"tokens", tokens}});
     }
     json warnings = json::array();
@@ -102,6 +104,8 @@ FileFunctions file_functions_from_json(const json& value) {
         span.mode = mode_from(f.at("extent").get<std::string>());
         span.potential_operands = f.at("potential_operands").get<std::uint64_t>();
         span.token_hash = f.at("token_hash").get<std::string>();
+        span.inactive = f.at("inactive").get<bool>();
+        span.brace_extent = f.at("brace_extent").get<bool>();
         for (const auto& t : f.at("tokens")) {
             core::Token token;
             token.key = stored_text(t.at(0));

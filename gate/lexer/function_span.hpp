@@ -41,15 +41,20 @@ struct FunctionSpan {
     unsigned end_line = 0;      // line of the closing brace (inclusive)
     ExtentMode mode = ExtentMode::syntax_tree; // how the extent was found
     std::uint64_t potential_operands = 0;      // n2*: parameters plus one for a non-void result
-    core::TokenList tokens; // counted tokens in source order (closing halves left out)
-    std::string token_hash; // hex digest of the tokens' keys and roles (not lines)
+    core::TokenList tokens;    // counted tokens in source order (closing halves left out)
+    std::string token_hash;    // hex digest of the tokens' keys and roles (not lines)
+    bool inactive = false;     // defined in a preprocessor branch the flags in use skip (measured
+                               // lexically, from the raw tokens of the branch)
+    bool brace_extent = false; // libclang's extent disagreed with brace matching of the raw
+                               // tokens, and the brace-matched extent was taken
 
     bool operator==(const FunctionSpan& other) const {
         return usr == other.usr && fallback_key == other.fallback_key &&
                qualified_name == other.qualified_name && signature == other.signature &&
                path == other.path && start_line == other.start_line && end_line == other.end_line &&
                mode == other.mode && potential_operands == other.potential_operands &&
-               tokens == other.tokens && token_hash == other.token_hash;
+               tokens == other.tokens && token_hash == other.token_hash &&
+               inactive == other.inactive && brace_extent == other.brace_extent;
     }
 };
 

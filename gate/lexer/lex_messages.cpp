@@ -142,6 +142,7 @@ void write_functions(Writer& out, const FileFunctions& functions) {
         out.number(static_cast<unsigned>(f.mode));
         out.number(f.potential_operands);
         out.text(f.token_hash);
+        out.number((f.inactive ? 1U : 0U) | (f.brace_extent ? 2U : 0U));
         out.number(f.tokens.size());
         for (const core::Token& t : f.tokens) {
             out.shared(t.key);
@@ -178,6 +179,9 @@ FileFunctions read_functions(Reader& in) {
             static_cast<ExtentMode>(in.small(static_cast<unsigned>(ExtentMode::parser_stopped)));
         f.potential_operands = in.number();
         f.token_hash = in.text();
+        const unsigned marks = in.small(3);
+        f.inactive = (marks & 1U) != 0;
+        f.brace_extent = (marks & 2U) != 0;
         f.tokens.resize(in.count());
         for (core::Token& t : f.tokens) {
             t.key = in.shared();

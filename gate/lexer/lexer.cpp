@@ -4,8 +4,12 @@
 
 #include "gate/common/errors.hpp"
 #include "gate/lexer/clang_handles.hpp"
+#include "gate/lexer/extent_check.hpp"
 #include "gate/lexer/function_finish.hpp"
+#include "gate/lexer/inactive_code.hpp"
+#include "gate/lexer/leading_macros.hpp"
 #include "gate/lexer/lexical_scan.hpp"
+#include "gate/lexer/macro_names.hpp"
 #include "gate/lexer/parse_diagnostics.hpp"
 #include "gate/lexer/pch_cache.hpp"
 #include "gate/lexer/source_lines.hpp"
@@ -312,16 +316,6 @@ bool from_macro(CXCursor cursor) {
     return spelling != expansion || spelling_file != expansion_file;
 }
 
-bool inside_skipped(const std::vector<std::pair<unsigned, unsigned>>& skipped, unsigned begin,
-                    unsigned end) {
-    for (const auto& [from, to] : skipped) {
-        if (begin >= from && end <= to) {
-            return true;
-        }
-    }
-    return false;
-}
-
 } // namespace
 
 struct Lexer::Impl {
@@ -548,24 +542,46 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     std::vector<FoundFunction> located;
     for (const CXCursor& cursor : collector.functions) {
         if (auto found = locate(cursor, main_file, tokens)) {
+            found->first =
+                leading_macro_start(tokens, parsed.cursors, parsed.directives, found->first);
             located.push_back(*found);
         }
     }
+    const std::vector<LexicalDefinition> definitions = scan_definitions(tokens, parsed.directives);
+    const std::vector<SkippedRange> skipped = skipped_ranges(unit.get(), main_file);
+    BraceExtentNotes brace_notes;
+    std::vector<std::size_t> braced_definitions; // closing braces of phantoms' real functions
     // The widest extent first, so a template's header beats a repeat of its pattern.
     std::stable_sort(located.begin(), located.end(),
                      [](const FoundFunction& a, const FoundFunction& b) {
                          return a.first != b.first ? a.first < b.first : a.last > b.last;
                      });
     for (const FoundFunction& candidate : located) {
-        const FoundFunction* found = &candidate;
+        FoundFunction checked = candidate;
+        const ExtentCheck extent = check_extent(tokens, {candidate.first, candidate.last},
+                                                candidate.name, definitions, skipped);
+        if (extent.verdict == ExtentVerdict::phantom) {
+            brace_notes.add_phantom(qualified_name(candidate.cursor), tokens[candidate.first].line);
+            if (extent.braces.last < tokens.size()) {
+                braced_definitions.push_back(extent.braces.last);
+            }
+            continue; // the brace-matched definition is measured below, lexically
+        }
+        const bool braces = extent.verdict == ExtentVerdict::braces;
+        if (braces) {
+            checked.first = extent.braces.first;
+            checked.last = extent.braces.last;
+        }
+        const FoundFunction* found = &checked;
         const CXCursor cursor = candidate.cursor;
         // Explicit instantiations and defaulted members have no body to measure; a function
         // made whole by one macro invocation has none in this file either, but is kept.
         const bool has_body = std::any_of(tokens.begin() + static_cast<long>(found->first),
                                           tokens.begin() + static_cast<long>(found->last) + 1,
                                           [](const SourceToken& t) { return is_punct(t, "{"); });
-        if (!has_body && !from_macro(cursor)) {
-            continue;
+        if ((!has_body && !from_macro(cursor)) ||
+            (found->name != k_npos && declares_type_at(tokens, found->first, found->name))) {
+            continue; // no body here, or a type an unknown macro made look like a function
         }
         // An explicit instantiation reports its pattern's extent again: functions never nest,
         // so an overlap is always such a repeat.
@@ -579,12 +595,22 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         PendingFunction item;
         item.first = found->first;
         item.span.usr = take_string(clang_getCursorUSR(cursor));
-        item.span.qualified_name = qualified_name(cursor);
+        const ReadableName readable = readable_name(cursor, qualified_name(cursor), tokens,
+                                                    found->first, found->last, found->name);
+        item.span.qualified_name = readable.name;
+        item.span.brace_extent = braces;
+        if (braces) {
+            brace_notes.add(item.span.qualified_name, tokens[found->first].line);
+        }
         const std::vector<std::string> types = parameter_types(cursor);
         for (std::size_t i = 0; i < types.size(); ++i) {
             item.span.signature += (i == 0 ? "" : ", ") + strip_virtual_root(types[i]);
         }
         item.span.potential_operands = types.size() + (has_result(cursor) ? 1 : 0);
+        if (readable.macro_made) {
+            item.span.signature.clear();
+            item.span.potential_operands = 0;
+        }
         item.span.start_line = tokens[found->first].line;
         item.span.end_line = tokens[found->last].line;
         item.span.mode = ExtentMode::syntax_tree;
@@ -592,29 +618,20 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         pending.push_back(std::move(item));
     }
 
-    // The lexical cross-check: definitions libclang did not report are measured lexically.
-    std::vector<std::pair<unsigned, unsigned>> skipped;
-    if (main_file != nullptr) {
-        SourceRangeListHandle ranges(clang_getSkippedRanges(unit.get(), main_file));
-        for (unsigned i = 0; ranges && i < ranges->count; ++i) {
-            unsigned from = 0;
-            unsigned to = 0;
-            clang_getSpellingLocation(clang_getRangeStart(ranges->ranges[i]), nullptr, nullptr,
-                                      nullptr, &from);
-            clang_getSpellingLocation(clang_getRangeEnd(ranges->ranges[i]), nullptr, nullptr,
-                                      nullptr, &to);
-            skipped.emplace_back(from, to);
-        }
-    }
-    for (const LexicalDefinition& definition : scan_definitions(tokens, parsed.directives)) {
+    brace_notes.warn(file.path, result.warnings);
+
+    // The lexical cross-check: definitions libclang did not report are measured lexically, and
+    // so are those of the #if branches the preprocessor skipped (marked inactive).
+    for (const LexicalDefinition& definition : definitions) {
         const bool known = std::any_of(taken.begin(), taken.end(), [&](const auto& range) {
             return range.second == definition.body_close ||
                    (definition.first <= range.second && range.first <= definition.body_close);
         });
-        if (known || inside_skipped(skipped, tokens[definition.first].offset,
-                                    tokens[definition.body_close].offset)) {
+        if (known) {
             continue;
         }
+        const bool inactive = inside_skipped(skipped, tokens[definition.first].offset,
+                                             tokens[definition.body_close].offset);
         PendingFunction item;
         item.lexical = true;
         item.first = definition.first;
@@ -624,8 +641,17 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         item.span.start_line = tokens[definition.first].line;
         item.span.end_line = tokens[definition.body_close].line;
         item.span.mode = ExtentMode::lexical;
+        item.span.inactive = inactive;
+        item.span.brace_extent = std::find(braced_definitions.begin(), braced_definitions.end(),
+                                           definition.body_close) != braced_definitions.end();
         item.range = {definition.first, definition.body_close, definition.name};
-        ++result.lexically_recovered;
+        if (!inactive) {
+            ++result.lexically_recovered;
+        }
+        if (inactive || item.span.brace_extent) {
+            pending.push_back(std::move(item)); // expected, or warned about above
+            continue;
+        }
         result.warnings.push_back(
             {file.path, item.span.start_line,
              "function \"" + definition.qualified_name +

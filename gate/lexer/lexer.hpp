@@ -69,6 +69,13 @@ ParseContext make_parse_context(const std::vector<SourceFile>& files,
 // null when the database has no entry to borrow from.
 const std::vector<std::string>* flags_for(const ParseContext& context, const std::string& path);
 
+// Give every file of `files` that has no compile-database flags (its own or borrowed, see
+// flags_for) an -I flag for each folder of `folders`, as libclang is to see it: under
+// k_virtual_root for a folder of the revision, an absolute path for a folder on disk. Nothing
+// changes when `folders` is empty.
+void add_include_dirs(ParseContext& context, const std::vector<SourceFile>& files,
+                      const std::vector<std::string>& folders);
+
 // A libclang front end. One per thread: it owns a CXIndex. Not copyable.
 class Lexer {
 public:

@@ -2,8 +2,12 @@
 // The lexical cross-check: function definitions found from balanced braces after a parameter list.
 #include "gate/lexer/lexical_scan.hpp"
 
+#include "gate/lexer/lexical_signature.hpp"
+#include "gate/lexer/macro_names.hpp"
+
 #include <algorithm>
 #include <array>
+#include <optional>
 #include <string_view>
 
 namespace tollgate::lexer {
@@ -181,6 +185,29 @@ std::size_t find_body(const std::vector<SourceToken>& tokens, std::size_t open) 
     return k_npos;
 }
 
+// Return the `<` that opens the template argument list closed at `close` (`>` or `>>`), walking
+// back no further than `start`; k_npos when there is none.
+std::size_t angles_open(const std::vector<SourceToken>& tokens, std::size_t close,
+                        std::size_t start) {
+    int depth = 0;
+    for (std::size_t i = close + 1; i-- > start;) {
+        const SourceToken& token = tokens[i];
+        if (is_punct(token, ">")) {
+            ++depth;
+        } else if (is_punct(token, ">>")) {
+            depth += 2;
+        } else if (is_punct(token, "<")) {
+            if (--depth <= 0) {
+                return depth == 0 ? i : k_npos;
+            }
+        } else if (is_punct(token, ";") || is_punct(token, "{") || is_punct(token, "}") ||
+                   is_punct(token, "(") || is_punct(token, ")")) {
+            return k_npos;
+        }
+    }
+    return k_npos;
+}
+
 // Find the name of the function whose parameter list opens at `open`: an identifier, or the
 // `operator` keyword a few tokens back. Return k_npos when there is none.
 std::size_t find_name(const std::vector<SourceToken>& tokens, std::size_t open,
@@ -198,201 +225,52 @@ std::size_t find_name(const std::vector<SourceToken>& tokens, std::size_t open,
             break;
         }
     }
-    const SourceToken& previous = tokens[open - 1];
+    std::size_t name = open - 1;
+    if (is_punct(tokens[name], ">") || is_punct(tokens[name], ">>")) {
+        // An explicit specialisation: `C::f<Arg>(...)` is named by the `f` before `<...>`.
+        name = angles_open(tokens, name, statement_start);
+        if (name == k_npos || name == statement_start) {
+            return k_npos;
+        }
+        --name;
+    }
+    const SourceToken& previous = tokens[name];
     if (previous.kind != core::LexKind::identifier || is_attribute_name(previous.spelling)) {
         return k_npos;
     }
-    if (open >= 2 && (is_punct(tokens[open - 2], ".") || is_punct(tokens[open - 2], "->"))) {
+    if (name >= 1 && (is_punct(tokens[name - 1], ".") || is_punct(tokens[name - 1], "->"))) {
         return k_npos;
     }
-    return open - 1;
+    return name;
 }
 
-// Join tokens as a type is usually written: "const char *", "std::vector<int> &".
-std::string join_type(const std::vector<SourceToken>& tokens, std::size_t begin, std::size_t end) {
-    std::string text;
-    for (std::size_t i = begin; i < end; ++i) {
-        const std::string& s = tokens[i].spelling;
-        const bool glue_left = s == "::" || s == "," || s == ">" || s == ">>" || s == ")" ||
-                               s == "]" || s == "<" || s == "[";
-        const bool glue_right = !text.empty() && (text.back() == ':' || text.back() == '<' ||
-                                                  text.back() == '(' || text.back() == '[');
-        if (!text.empty() && !glue_left && !glue_right) {
-            text += ' ';
+// Return true when the statement from `start` whose `(` names `name` and whose braces open at
+// `body` declares a type rather than a function: a typedef, an enumeration whose base or
+// attributes come from a macro (`enum Kind MACRO(unsigned char) { ... }`, a list without `;`),
+// or a class whose attributes come from a macro right after its key (`struct ALIGNED(8) S {`).
+bool declares_type(const std::vector<SourceToken>& tokens, std::size_t start, std::size_t name,
+                   std::size_t body) {
+    for (std::size_t i = start; i < name; ++i) {
+        if (is_keyword(tokens[i], "typedef")) {
+            return true;
         }
-        if (s == "," && !text.empty()) {
-            text += ", ";
-            continue;
-        }
-        text += s;
-    }
-    while (!text.empty() && text.back() == ' ') {
-        text.pop_back();
-    }
-    return text;
-}
-
-struct Parameters {
-    std::string signature;
-    std::uint64_t count = 0;
-};
-
-// Describe the parameter list opened at `open`: types without names or default values.
-Parameters describe_parameters(const std::vector<SourceToken>& tokens, std::size_t open) {
-    Parameters result;
-    const std::size_t close = match_bracket(tokens, open);
-    if (close >= tokens.size() || close == open + 1) {
-        return result;
-    }
-    if (close == open + 2 && is_keyword(tokens[open + 1], "void")) {
-        return result;
-    }
-    std::vector<std::string> types;
-    std::size_t begin = open + 1;
-    int depth = 0;
-    for (std::size_t i = open + 1; i <= close; ++i) {
-        const SourceToken& token = tokens[i];
-        if (i < close && (is_open(token) || is_punct(token, "<"))) {
-            ++depth;
-            continue;
-        }
-        if (i < close && (is_close(token) || is_punct(token, ">"))) {
-            --depth;
-            continue;
-        }
-        if (i < close && is_punct(token, ">>")) {
-            depth -= 2;
-            continue;
-        }
-        if (i == close || (depth == 0 && is_punct(token, ","))) {
-            std::size_t end = i;
-            for (std::size_t j = begin; j < i; ++j) {
-                if (is_punct(tokens[j], "=")) {
-                    end = j;
-                    break;
+        if (is_keyword(tokens[i], "enum")) {
+            if (i + 1 < name &&
+                (is_keyword(tokens[i + 1], "class") || is_keyword(tokens[i + 1], "struct"))) {
+                return true;
+            }
+            const std::size_t close = match_bracket(tokens, body);
+            for (std::size_t j = body + 1; j < close && j < tokens.size(); ++j) {
+                if (is_punct(tokens[j], ";")) {
+                    return false; // statements: a function returning an enumeration
                 }
             }
-            // Drop the parameter name: a final identifier after at least one type token.
-            if (end > begin + 1 && tokens[end - 1].kind == core::LexKind::identifier) {
-                --end;
-            }
-            types.push_back(join_type(tokens, begin, end));
-            begin = i + 1;
+            return true;
         }
     }
-    result.count = types.size();
-    for (std::size_t i = 0; i < types.size(); ++i) {
-        result.signature += (i == 0 ? "" : ", ") + types[i];
-    }
-    return result;
-}
-
-// Return the written name, from the start of its qualification to the parameter list:
-// "Box::put", "operator+", "~Box", "Box::operator int".
-std::string written_name(const std::vector<SourceToken>& tokens, std::size_t name, std::size_t open,
-                         std::size_t statement_start) {
-    std::string text;
-    if (is_keyword(tokens[name], "operator")) {
-        text = "operator";
-        for (std::size_t i = name + 1; i < open; ++i) {
-            const bool word = tokens[i].kind != core::LexKind::punctuation;
-            if (word) {
-                text += ' ';
-            }
-            text += tokens[i].spelling;
-        }
-    } else {
-        text = tokens[name].spelling;
-    }
-    // Walk back over `~` and `Qualifier<...>::` parts.
-    std::size_t i = name;
-    if (i > statement_start && is_punct(tokens[i - 1], "~")) {
-        text = "~" + text;
-        --i;
-    }
-    while (i >= statement_start + 2 && is_punct(tokens[i - 1], "::")) {
-        std::size_t q = i - 2;
-        if (is_punct(tokens[q], ">")) {
-            int depth = 0;
-            while (q > statement_start) {
-                if (is_punct(tokens[q], ">")) {
-                    ++depth;
-                } else if (is_punct(tokens[q], "<")) {
-                    if (--depth == 0) {
-                        break;
-                    }
-                }
-                --q;
-            }
-            if (q == statement_start) {
-                break;
-            }
-            --q;
-        }
-        if (tokens[q].kind != core::LexKind::identifier) {
-            break;
-        }
-        text = tokens[q].spelling + "::" + text;
-        i = q;
-    }
-    return text;
-}
-
-// Return true when the tokens before the name declare a result other than void.
-bool has_result(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t name,
-                std::size_t body_open, const std::string& written, const std::string& class_name) {
-    for (std::size_t i = name; i < body_open; ++i) {
-        if (is_punct(tokens[i], "->")) {
-            return !(i + 1 < body_open && is_keyword(tokens[i + 1], "void") && i + 2 == body_open);
-        }
-    }
-    const auto last = written.rfind("::");
-    const std::string base = last == std::string::npos ? written : written.substr(last + 2);
-    if (!base.empty() && base[0] == '~') {
-        return false;
-    }
-    if (last != std::string::npos) {
-        const std::string qualifier = written.substr(0, last);
-        const auto q = qualifier.rfind("::");
-        const std::string owner = q == std::string::npos ? qualifier : qualifier.substr(q + 2);
-        if (owner == base) {
-            return false; // constructor
-        }
-    } else if (!class_name.empty() && base == class_name) {
-        return false; // constructor declared in the class body
-    }
-    if (base.rfind("operator ", 0) == 0 &&
-        base.find_first_of("+-*/&|<>=!~%^[]()") == std::string::npos) {
-        return true; // conversion function
-    }
-    std::vector<std::string> words;
-    for (std::size_t i = first; i < name; ++i) {
-        const SourceToken& token = tokens[i];
-        if (is_keyword(token, "template") && i + 1 < name && is_punct(tokens[i + 1], "<")) {
-            const std::size_t after = skip_angles(tokens, i + 1);
-            if (after == k_npos) {
-                break;
-            }
-            i = after - 1;
-            continue;
-        }
-        if (token.kind == core::LexKind::keyword &&
-            (token.spelling == "static" || token.spelling == "inline" ||
-             token.spelling == "virtual" || token.spelling == "extern" ||
-             token.spelling == "constexpr" || token.spelling == "explicit" ||
-             token.spelling == "friend")) {
-            continue;
-        }
-        if (is_punct(token, "::") || is_punct(token, "~")) {
-            break; // the qualification of the name itself
-        }
-        words.push_back(token.spelling);
-    }
-    if (words.size() == 1 && words[0] == "void") {
-        return false;
-    }
-    // Nothing before the name: a constructor, or C89's implicit int.
-    return !words.empty() || class_name.empty();
+    return name > start &&
+           (is_keyword(tokens[name - 1], "class") || is_keyword(tokens[name - 1], "struct") ||
+            is_keyword(tokens[name - 1], "union"));
 }
 
 enum class ScopeKind { container, function, block };
@@ -450,6 +328,19 @@ std::string innermost_class(const std::vector<Scope>& stack) {
     return stack.empty() ? std::string() : stack.back().name;
 }
 
+// Return the name of a function made by a macro invocation followed by a body, as written
+// ("TEST(Suite, Name)"): the statement starts with the invocation and the macro's name reads as
+// a macro's (a constructor of the enclosing class does not count). Nothing otherwise.
+std::optional<std::string> test_macro_name(const std::vector<SourceToken>& tokens,
+                                           std::size_t start, std::size_t name,
+                                           const std::vector<Scope>& stack) {
+    if (name != start || !is_macro_style_name(tokens[name].spelling) ||
+        tokens[name].spelling == innermost_class(stack)) {
+        return std::nullopt;
+    }
+    return macro_invocation_name(tokens, name);
+}
+
 } // namespace
 
 std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t open) {
@@ -473,11 +364,20 @@ std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t op
     return tokens.size();
 }
 
+bool declares_type_at(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t name) {
+    if (name <= first || name + 1 >= tokens.size() || !is_punct(tokens[name + 1], "(")) {
+        return false;
+    }
+    const std::size_t body = find_body(tokens, name + 1);
+    return body != k_npos && declares_type(tokens, first, name, body);
+}
+
 // The scan state at an open #if, restored by its #else / #elif, and how many definitions had
 // been found before it.
 struct SavedCondition {
     ScanState state;
     std::size_t found_before = 0;
+    std::size_t opened_at = 0; // the first token after the #if
 };
 
 // Apply the conditional directive `mark` to the scan: an #if saves the state, an #else / #elif
@@ -486,11 +386,16 @@ void apply_directive(const DirectiveMark& mark, std::size_t found_count, ScanSta
                      std::vector<SavedCondition>& saved) {
     switch (mark.kind) {
     case DirectiveKind::open_condition:
-        saved.push_back({state, found_count});
+        saved.push_back({state, found_count, mark.before});
         break;
     case DirectiveKind::alternative:
         if (!saved.empty()) {
             state = saved.back().state;
+            // A branch that opened at a statement boundary starts its own statement: a
+            // declaration of the #else branch does not begin in the #if branch.
+            if (state.statement_start == saved.back().opened_at) {
+                state.statement_start = mark.before;
+            }
             // A branch that completed a definition ended a statement inside itself: the next
             // branch's statement starts after the directive, not before the #if (else
             // `#if A f(){} #else f(){} #endif` would measure both as one).
@@ -593,7 +498,7 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
             if (state.paren_depth == 0 && state.pending_body == k_npos) {
                 const std::size_t name = find_name(tokens, i, state.statement_start);
                 const std::size_t body = name == k_npos ? k_npos : find_body(tokens, i);
-                if (body != k_npos) {
+                if (body != k_npos && !declares_type(tokens, state.statement_start, name, body)) {
                     LexicalDefinition definition;
                     definition.first = state.statement_start;
                     definition.name = name;
@@ -608,6 +513,14 @@ std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& 
                                                        written, innermost_class(state.stack))
                                                 ? 1
                                                 : 0);
+                    if (const auto invocation =
+                            test_macro_name(tokens, state.statement_start, name, state.stack)) {
+                        // Named as written, like the parser's macro-made functions; such a
+                        // body takes no parameters and returns nothing.
+                        definition.qualified_name = scope_prefix(state.stack) + *invocation;
+                        definition.signature.clear();
+                        definition.potential_operands = 0;
+                    }
                     state.pending = std::move(definition);
                     state.pending_body = body;
                     continue; // the parameter list is skipped with the rest of the header

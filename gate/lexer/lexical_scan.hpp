@@ -29,6 +29,12 @@ struct LexicalDefinition {
 std::vector<LexicalDefinition> scan_definitions(const std::vector<SourceToken>& tokens,
                                                 const std::vector<DirectiveMark>& directives);
 
+// Return true when the statement whose first token is `first` and whose `name` is followed by a
+// parenthesised list and a `{...}` declares a type, not a function: a typedef, an enumeration
+// whose base or attributes come from a macro (`enum Kind MACRO(unsigned char) { k_one, k_two }`),
+// or a class with a macro right after its key (`struct ALIGNED(8) S { ... }`).
+bool declares_type_at(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t name);
+
 // Return the index of the token that closes the bracket opened at `open` (`(`, `[`, `{` or `<`
 // for `<` the list ends at the matching `>`), or `tokens.size()` when it is never closed.
 std::size_t match_bracket(const std::vector<SourceToken>& tokens, std::size_t open);

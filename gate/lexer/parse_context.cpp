@@ -2,6 +2,7 @@
 // The shared parse context of one revision: headers, include folders, compile database flags.
 #include "gate/common/errors.hpp"
 #include "gate/isolate/path_guard.hpp"
+#include "gate/lexer/include_aliases.hpp"
 #include "gate/lexer/lexer.hpp"
 
 #include <algorithm>
@@ -190,6 +191,9 @@ ParseContext make_parse_context(const std::vector<SourceFile>& files,
         }
     }
     context.include_dirs.assign(include_dirs.begin(), include_dirs.end());
+    for (SourceFile& alias : parent_include_aliases(files, context.headers, context.include_dirs)) {
+        context.headers.push_back(std::move(alias));
+    }
     if (compile_commands_json.empty()) {
         return context;
     }
@@ -286,6 +290,34 @@ const std::vector<std::string>* flags_for(const ParseContext& context, const std
         }
     }
     return best;
+}
+
+void add_include_dirs(ParseContext& context, const std::vector<SourceFile>& files,
+                      const std::vector<std::string>& folders) {
+    if (folders.empty()) {
+        return;
+    }
+    std::vector<std::string> flags;
+    for (const std::string& folder : folders) {
+        flags.push_back("-I" + folder);
+        // A folder on disk was named by whoever runs Tollgate, never by the change: the parser
+        // process may read it.
+        if (folder.rfind(k_virtual_root, 0) != 0 &&
+            std::find(context.trusted_dirs.begin(), context.trusted_dirs.end(), folder) ==
+                context.trusted_dirs.end()) {
+            context.trusted_dirs.push_back(folder);
+        }
+    }
+    // Decide for every file first: an entry added here must not lend its flags to another file.
+    std::vector<std::string> uncovered;
+    for (const SourceFile& file : files) {
+        if (flags_for(context, file.path) == nullptr) {
+            uncovered.push_back(file.path);
+        }
+    }
+    for (const std::string& path : uncovered) {
+        context.file_flags[path] = flags;
+    }
 }
 
 } // namespace tollgate::lexer

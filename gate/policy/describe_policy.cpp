@@ -5,23 +5,13 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <cstdlib>
 #include <map>
 #include <yaml-cpp/yaml.h>
 
 namespace tollgate::policy {
 
 namespace {
-
-// Write a number so that load_policy reads back exactly the same double.
-std::string plain_number(double value) {
-    char text[64];
-    if (std::floor(value) == value && std::fabs(value) < 1e15) {
-        std::snprintf(text, sizeof text, "%.0f", value);
-    } else {
-        std::snprintf(text, sizeof text, "%.17g", value);
-    }
-    return text;
-}
 
 void emit_limit(YAML::Emitter& out, const char* key, const std::optional<double>& value) {
     if (value) {
@@ -46,6 +36,21 @@ void emit_globs(YAML::Emitter& out, const char* key, const std::vector<std::stri
 }
 
 } // namespace
+
+std::string plain_number(double value) {
+    char text[64];
+    if (std::floor(value) == value && std::fabs(value) < 1e15) {
+        std::snprintf(text, sizeof text, "%.0f", value);
+        return text;
+    }
+    for (int digits = 1; digits <= 17; ++digits) {
+        std::snprintf(text, sizeof text, "%.*g", digits, value);
+        if (std::strtod(text, nullptr) == value) {
+            break;
+        }
+    }
+    return text;
+}
 
 std::string describe_policy(const Policy& policy) {
     YAML::Emitter out;
@@ -156,6 +161,17 @@ std::string describe_policy(const Policy& policy) {
         << (policy.baseline.grandfather == Grandfathering::on ? "true" : "false");
     out << YAML::EndMap;
 
+    out << YAML::Key << "inactive-code" << YAML::Value << inactive_code_name(policy.inactive_code);
+    out << YAML::Key << "unmeasured-lines" << YAML::Value;
+    if (policy.unmeasured_lines.limit) {
+        out << YAML::BeginMap;
+        out << YAML::Key << "limit" << YAML::Value << plain_number(*policy.unmeasured_lines.limit);
+        out << YAML::Key << "level" << YAML::Value << level_name(policy.unmeasured_lines.level);
+        out << YAML::EndMap;
+    } else {
+        out << "off";
+    }
+
     out << YAML::EndMap;
     return std::string(out.c_str()) + "\n";
 }
@@ -202,6 +218,12 @@ std::vector<Setting> flatten(const Policy& policy) {
     add("", "baseline.path", policy.baseline.path.empty() ? "none" : quote(policy.baseline.path));
     add("", "baseline.grandfather",
         policy.baseline.grandfather == Grandfathering::on ? "true" : "false");
+    add("", "inactive-code", inactive_code_name(policy.inactive_code));
+    add("", "unmeasured-lines",
+        policy.unmeasured_lines.limit
+            ? "{limit " + plain_number(*policy.unmeasured_lines.limit) + ", level " +
+                  level_name(policy.unmeasured_lines.level) + "}"
+            : std::string("off"));
     for (const auto& rule : policy.rules) {
         const std::string group = "rules[" + quote(rule.id) + "]";
         add(group, "kind", rule_kind_name(rule.kind));

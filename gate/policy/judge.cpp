@@ -125,21 +125,6 @@ bool matches_any(const std::vector<std::string>& globs, const std::string& path)
     });
 }
 
-bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::FunctionDelta& f) {
-    if (floors.empty()) {
-        return false;
-    }
-    for (const auto& floor : floors) {
-        for (const auto* side : {&f.base, &f.head}) {
-            // Written so that a value that is not a number is judged rather than skipped.
-            if (*side && !(core::measure_value((*side)->measures, floor.measure) < floor.below)) {
-                return false;
-            }
-        }
-    }
-    return true;
-}
-
 std::string function_text(const delta::FunctionDelta& f) {
     return f.name + "(" + f.signature + ")";
 }
@@ -341,9 +326,15 @@ bool applies_to(RuleKind kind, const delta::FunctionDelta& f) {
     case RuleKind::ceiling:
         return f.head.has_value();
     case RuleKind::budget:
+    case RuleKind::unmeasured_lines:
         return false;
     }
     return false;
+}
+
+// Return true when the function a reviewer looks at is defined in a skipped #if branch.
+bool is_inactive(const delta::FunctionDelta& f) {
+    return f.shown_side().inactive;
 }
 
 std::string waived_note(const delta::FunctionDelta& f, const std::string& rule_id,
@@ -356,7 +347,56 @@ std::string count_text(std::size_t count, const char* one, const char* many) {
     return std::to_string(count) + " " + (count == 1 ? one : many);
 }
 
+// Judge the change's changed C/C++ lines outside every measured function (files in scope only)
+// against the policy's "unmeasured-lines" limit; nothing when there is no limit or no excess.
+std::optional<Finding> judge_unmeasured_lines(const Policy& policy,
+                                              const delta::ChangeReport& report) {
+    if (!policy.unmeasured_lines.limit) {
+        return std::nullopt;
+    }
+    double total = 0;
+    std::string files;
+    for (const auto& file : report.unmeasured) {
+        if (in_scope(policy.paths, file.path)) {
+            total += file.count;
+            files += (files.empty() ? "" : ", ") + file.path + " " + std::to_string(file.count);
+        }
+    }
+    const double limit = *policy.unmeasured_lines.limit;
+    if (total <= limit) {
+        return std::nullopt;
+    }
+    Finding finding;
+    finding.rule_id = "unmeasured-lines";
+    finding.kind = RuleKind::unmeasured_lines;
+    finding.level = policy.unmeasured_lines.level;
+    finding.value = total;
+    finding.limit = limit;
+    finding.excess = total - limit;
+    finding.message = "the change: " + format_amount(total, Sign::as_is) +
+                      " changed C/C++ lines outside every measured function (" + files +
+                      ") exceed the limit " + format_amount(limit, Sign::as_is) + " by " +
+                      format_amount(finding.excess, Sign::as_is) +
+                      " (policy \"unmeasured-lines\", " + level_name(finding.level) + ")";
+    return finding;
+}
+
 } // namespace
+
+bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::FunctionDelta& f) {
+    if (floors.empty()) {
+        return false;
+    }
+    for (const auto& floor : floors) {
+        for (const auto* side : {&f.base, &f.head}) {
+            // Written so that a value that is not a number is judged rather than skipped.
+            if (*side && !(core::measure_value((*side)->measures, floor.measure) < floor.below)) {
+                return false;
+            }
+        }
+    }
+    return true;
+}
 
 bool in_scope(const PathScope& paths, const std::string& path) {
     return matches_any(paths.include, path) && !matches_any(paths.exclude, path);
@@ -374,6 +414,7 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
     std::vector<std::string> waived_notes;
     std::size_t out_of_scope = 0;
     std::size_t noise = 0;
+    std::size_t inactive_skipped = 0;
 
     for (const auto& f : report.functions) {
         const std::string& path = f.shown_side().path;
@@ -385,13 +426,20 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
             ++noise;
             continue;
         }
+        if (is_inactive(f) && policy.inactive_code == InactiveCode::skip) {
+            ++inactive_skipped;
+            continue;
+        }
         for (const auto& base_rule : policy.rules) {
             if (!applies_to(base_rule.kind, f)) {
                 continue;
             }
-            const AppliedRule applied = apply_overrides(base_rule, path, policy.paths);
+            AppliedRule applied = apply_overrides(base_rule, path, policy.paths);
             if (applied.state == RuleSwitch::off) {
                 continue;
+            }
+            if (is_inactive(f) && policy.inactive_code == InactiveCode::warn) {
+                applied.rule.level = Level::warning;
             }
             std::optional<Finding> finding =
                 base_rule.kind == RuleKind::growth
@@ -419,7 +467,8 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
         for (const auto& f : report.functions) {
             const std::string& path = f.shown_side().path;
             if (!in_scope(policy.paths, path) ||
-                apply_overrides(rule, path, policy.paths).state == RuleSwitch::off) {
+                apply_overrides(rule, path, policy.paths).state == RuleSwitch::off ||
+                (is_inactive(f) && policy.inactive_code == InactiveCode::skip)) {
                 continue;
             }
             if (const Waiver* waiver = waivers.find(f, rule.id)) {
@@ -448,12 +497,16 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
         verdict.findings.push_back(std::move(finding));
     }
 
+    if (auto finding = judge_unmeasured_lines(policy, report)) {
+        verdict.findings.push_back(std::move(*finding));
+    }
+
     std::stable_sort(
         verdict.findings.begin(), verdict.findings.end(), [](const Finding& a, const Finding& b) {
             const auto key = [](const Finding& x) {
                 return std::make_tuple(x.grandfathered ? 1 : 0, x.level == Level::blocking ? 0 : 1,
-                                       x.kind == RuleKind::budget ? 1 : 0, std::cref(x.path),
-                                       x.start_line, std::cref(x.function));
+                                       x.path.empty() ? 1 : 0, std::cref(x.path), x.start_line,
+                                       std::cref(x.function));
             };
             return key(a) < key(b);
         });
@@ -468,6 +521,11 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report,
     if (noise > 0) {
         verdict.notes.push_back(count_text(noise, "function is", "functions are") +
                                 " below the noise floor and not judged by per-function rules");
+    }
+    if (inactive_skipped > 0) {
+        verdict.notes.push_back(count_text(inactive_skipped, "function is", "functions are") +
+                                " in #if branches the preprocessor skipped and not judged "
+                                "(policy: inactive-code: skip)");
     }
     verdict.notes.insert(verdict.notes.end(), waived_notes.begin(), waived_notes.end());
     waivers.add_notes(verdict.notes);

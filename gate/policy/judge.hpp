@@ -33,6 +33,10 @@ Verdict judge(const Policy& policy, const delta::ChangeReport& report, const Jud
 // Return whether a file at `path` is judged: it matches an include glob and no exclude glob.
 bool in_scope(const PathScope& paths, const std::string& path);
 
+// Return whether `f` is below every entry of `floors` on each side it has (and so not judged by
+// per-function rules). An empty list holds no function below it.
+bool below_noise_floor(const std::vector<NoiseFloor>& floors, const delta::FunctionDelta& f);
+
 // Whether a formatted amount shows "+" before positive values.
 enum class Sign {
     as_is,  // "18,400", "-3"

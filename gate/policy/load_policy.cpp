@@ -1,5 +1,6 @@
 // SPDX-License-Identifier: MIT
 // Load a policy from YAML and validate every key, collecting all problems with file:line:column.
+#include "gate/common/input_file.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/policy.hpp"
 
@@ -29,10 +30,24 @@ const char* judge_with_name(JudgeWith judge_with) {
     return judge_with == JudgeWith::head ? "head" : "base";
 }
 
+const char* inactive_code_name(InactiveCode inactive_code) {
+    switch (inactive_code) {
+    case InactiveCode::warn:
+        return "warn";
+    case InactiveCode::skip:
+        return "skip";
+    case InactiveCode::judge:
+        break;
+    }
+    return "judge";
+}
+
 namespace {
 
 const std::vector<std::string> k_top_keys = {
-    "tollgate-policy", "judge-with", "noise-floor", "rules", "paths", "waivers", "baseline"};
+    "tollgate-policy", "judge-with", "noise-floor",   "rules",           "paths",
+    "waivers",         "baseline",   "inactive-code", "unmeasured-lines"};
+const std::vector<std::string> k_unmeasured_keys = {"limit", "level"};
 const std::vector<std::string> k_rule_keys = {"id",           "kind",
                                               "measure",      "level",
                                               "max-increase", "max-increase-percent",
@@ -52,6 +67,8 @@ std::vector<std::string> limit_keys(RuleKind kind) {
         return {"ceiling"};
     case RuleKind::budget:
         return {"max-total-increase"};
+    case RuleKind::unmeasured_lines:
+        return {"limit"};
     }
     return {};
 }
@@ -133,6 +150,7 @@ private:
                                                    const YAML::Node& node);
     std::optional<Waiver> read_waiver(const YAML::Node& node);
     void read_baseline(const YAML::Node& node, Policy& policy);
+    void read_unmeasured_lines(const YAML::Node& node, Policy& policy);
 
     std::string m_origin;
     std::map<std::string, const Rule*> m_rules_by_id; // valid rules, filled once rules are read
@@ -368,7 +386,45 @@ Policy PolicyReader::read(const YAML::Node& root) {
     if (const Entry* baseline = find("baseline")) {
         read_baseline(baseline->value, policy);
     }
+    if (const Entry* inactive = find("inactive-code")) {
+        if (const auto value =
+                choice(inactive->value, "inactive-code", {"judge", "warn", "skip"})) {
+            policy.inactive_code = *value == "warn"   ? InactiveCode::warn
+                                   : *value == "skip" ? InactiveCode::skip
+                                                      : InactiveCode::judge;
+        }
+    }
+    if (const Entry* unmeasured = find("unmeasured-lines")) {
+        read_unmeasured_lines(unmeasured->value, policy);
+    }
     return policy;
+}
+
+void PolicyReader::read_unmeasured_lines(const YAML::Node& node, Policy& policy) {
+    if (node.IsScalar() && node.Scalar() == "off") {
+        return; // the default: the reports list such lines, nothing more
+    }
+    if (!node.IsMap()) {
+        error(node.Mark(), "\"unmeasured-lines\" must be \"off\" or a map with \"limit\" and "
+                           "\"level\", not " +
+                               shape_of(node));
+        return;
+    }
+    bool has_limit = false;
+    for (const auto& entry : entries(node, k_unmeasured_keys, " in \"unmeasured-lines\"")) {
+        if (entry.key == "limit") {
+            has_limit = true;
+            policy.unmeasured_lines.limit = number(entry.value, "unmeasured-lines.limit");
+        } else if (const auto level =
+                       choice(entry.value, "unmeasured-lines.level", {"blocking", "warning"})) {
+            policy.unmeasured_lines.level = *level == "blocking" ? Level::blocking : Level::warning;
+        }
+    }
+    if (!has_limit) {
+        error(node.Mark(),
+              "\"unmeasured-lines\" has no \"limit\" (e.g. \"limit: 40\": more changed "
+              "lines outside functions than that is a finding)");
+    }
 }
 
 void PolicyReader::read_noise_floor(const YAML::Node& node, Policy& policy) {
@@ -833,14 +889,10 @@ Policy load_policy(const std::string& text, const std::string& origin) {
 }
 
 Policy load_policy_file(const std::string& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) {
-        throw UsageError("cannot read policy file \"" + path +
-                         "\" (check the path, or run \"tollgate policy --default\" for a start)");
-    }
-    std::ostringstream text;
-    text << in.rdbuf();
-    return load_policy(text.str(), path);
+    return load_policy(read_named_file("policy file", path,
+                                       "check the path, or run \"tollgate policy --default\" for "
+                                       "a start"),
+                       path);
 }
 
 } // namespace tollgate::policy

@@ -156,20 +156,41 @@ struct BaselineSettings {
     }
 };
 
+// How functions defined in #if branches the preprocessor skipped are judged.
+enum class InactiveCode {
+    judge, // like any other function (the default)
+    warn,  // their findings are warnings, never blocking
+    skip,  // left out of every rule, budgets included; a note counts them
+};
+
+// What a change's changed C/C++ lines outside every measured function may amount to.
+struct UnmeasuredLimit {
+    std::optional<double> limit;  // more lines than this in scope is a finding; none: the
+                                  // reports list them per file, nothing more
+    Level level = Level::warning; // the finding's weight
+
+    bool operator==(const UnmeasuredLimit& other) const {
+        return limit == other.limit && level == other.level;
+    }
+};
+
 // A whole policy, as loaded or built in. Plain data; compare with ==.
 struct Policy {
-    int schema_version = k_policy_schema_version; // key "tollgate-policy"
-    JudgeWith judge_with = JudgeWith::base;       // key "judge-with"
-    std::vector<NoiseFloor> noise_floor;          // key "noise-floor"; all entries must hold
-    std::vector<Rule> rules;                      // key "rules", in file order
-    PathScope paths;                              // key "paths"
-    std::vector<Waiver> waivers;                  // key "waivers", in file order
-    BaselineSettings baseline;                    // key "baseline"
+    int schema_version = k_policy_schema_version;     // key "tollgate-policy"
+    JudgeWith judge_with = JudgeWith::base;           // key "judge-with"
+    std::vector<NoiseFloor> noise_floor;              // key "noise-floor"; all entries must hold
+    std::vector<Rule> rules;                          // key "rules", in file order
+    PathScope paths;                                  // key "paths"
+    std::vector<Waiver> waivers;                      // key "waivers", in file order
+    BaselineSettings baseline;                        // key "baseline"
+    InactiveCode inactive_code = InactiveCode::judge; // key "inactive-code"
+    UnmeasuredLimit unmeasured_lines;                 // key "unmeasured-lines"
 
     bool operator==(const Policy& other) const {
         return schema_version == other.schema_version && judge_with == other.judge_with &&
                noise_floor == other.noise_floor && rules == other.rules && paths == other.paths &&
-               waivers == other.waivers && baseline == other.baseline;
+               waivers == other.waivers && baseline == other.baseline &&
+               inactive_code == other.inactive_code && unmeasured_lines == other.unmeasured_lines;
     }
     bool operator!=(const Policy& other) const { return !(*this == other); }
 };
@@ -194,11 +215,18 @@ Policy load_policy_file(const std::string& path);
 // ("\x1b", "\u202e") inside double quotes, so printing it shows them instead of obeying them.
 std::string describe_policy(const Policy& policy);
 
+// Return `value` as a policy file writes it, as a person would (53.37, not 53.369999999999997):
+// the shortest decimal that load_policy reads back as exactly the same double. Never fails.
+std::string plain_number(double value);
+
 // Return one readable line per setting that differs between `base` and `head`, e.g.
 // `rules["effort-growth"].max-increase-percent: 40 in base, 80 in head`; empty when equal.
 std::vector<std::string> policy_difference(const Policy& base, const Policy& head);
 
 // Return "base" or "head".
 const char* judge_with_name(JudgeWith judge_with);
+
+// Return "judge", "warn" or "skip".
+const char* inactive_code_name(InactiveCode inactive_code);
 
 } // namespace tollgate::policy

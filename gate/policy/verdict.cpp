@@ -22,6 +22,8 @@ const char* rule_kind_name(RuleKind kind) {
         return "added-ceiling";
     case RuleKind::ceiling:
         return "ceiling";
+    case RuleKind::unmeasured_lines:
+        return "unmeasured-lines";
     case RuleKind::budget:
         return "budget";
     }

@@ -19,10 +19,12 @@ enum class Level {
 
 // The kind of rule a finding comes from.
 enum class RuleKind {
-    growth,        // a changed function's measure grew more than allowed
-    added_ceiling, // an added function's measure is above the ceiling
-    ceiling,       // a touched function's head value is above the ceiling
-    budget,        // the whole change's summed increase is above the budget
+    growth,           // a changed function's measure grew more than allowed
+    added_ceiling,    // an added function's measure is above the ceiling
+    ceiling,          // a touched function's head value is above the ceiling
+    budget,           // the whole change's summed increase is above the budget
+    unmeasured_lines, // the change's C/C++ lines outside every measured function are above the
+                      // policy's "unmeasured-lines" limit (not a rule of "rules")
 };
 
 // The verdict of the whole change.
@@ -33,7 +35,8 @@ enum class Outcome {
 
 // Return "blocking" or "warning".
 const char* level_name(Level level);
-// Return the rule kind's policy key ("growth", "added-ceiling", "ceiling", "budget").
+// Return the rule kind's policy key ("growth", "added-ceiling", "ceiling", "budget"), or
+// "unmeasured-lines" for the policy key of that name.
 const char* rule_kind_name(RuleKind kind);
 // Return "pass" or "blocked".
 const char* outcome_name(Outcome outcome);

@@ -2,6 +2,7 @@
 // The change report as JSON, schema "tollgate.check/1".
 #include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
+#include "gate/report/marks.hpp"
 #include "gate/report/reading_order.hpp"
 
 #include <nlohmann/json.hpp>
@@ -26,6 +27,7 @@ json side_json(const std::optional<delta::FunctionSide>& side) {
             {"extent", side->parser_stopped ? "parser-stopped"
                        : side->lexical      ? "lexical"
                                             : "syntax-tree"},
+            {"marks", mark_words(marks_of(*side))},
             {"token_hash", side->token_hash},
             {"measures", measures}};
 }
@@ -56,7 +58,9 @@ json verdict_json(const policy::Verdict& verdict) {
         findings.push_back({{"rule", f.rule_id},
                             {"kind", policy::rule_kind_name(f.kind)},
                             {"level", policy::level_name(f.level)},
-                            {"measure", std::string(core::measure_name(f.measure))},
+                            {"measure", f.kind == policy::RuleKind::unmeasured_lines
+                                            ? json(nullptr)
+                                            : json(std::string(core::measure_name(f.measure)))},
                             {"function", f.function},
                             {"signature", f.signature},
                             {"file", f.path},
@@ -102,13 +106,16 @@ void write_change_json(std::ostream& out, const delta::ChangeReport& report,
                        const policy::Verdict& verdict) {
     json functions = json::array();
     for (const auto& f : report.functions) {
-        functions.push_back({{"label", delta::label_name(f.label)},
-                             {"function", f.name},
-                             {"signature", f.signature},
-                             {"identity", f.identity},
-                             {"base", side_json(f.base)},
-                             {"head", side_json(f.head)},
-                             {"delta", delta_json(f)}});
+        functions.push_back(
+            {{"label", delta::label_name(f.label)},
+             {"function", f.name},
+             {"signature", f.signature},
+             {"identity", f.identity},
+             {"base_function", f.base_name ? json(*f.base_name) : json(nullptr)},
+             {"base_signature", f.base_signature ? json(*f.base_signature) : json(nullptr)},
+             {"base", side_json(f.base)},
+             {"head", side_json(f.head)},
+             {"delta", delta_json(f)}});
     }
     json files = json::array();
     for (const auto& file : report.files) {
@@ -117,6 +124,13 @@ void write_change_json(std::ostream& out, const delta::ChangeReport& report,
     json skipped = json::array();
     for (const auto& s : report.skipped) {
         skipped.push_back({{"file", s.path}, {"reason", s.reason}});
+    }
+    json unmeasured = json::array();
+    for (const auto& lines : report.unmeasured) {
+        unmeasured.push_back({{"file", lines.path},
+                              {"count", lines.count},
+                              {"base_lines", lines.base},
+                              {"head_lines", lines.head}});
     }
     json warnings = json::array();
     for (const auto& w : report.warnings) {
@@ -136,6 +150,8 @@ void write_change_json(std::ostream& out, const delta::ChangeReport& report,
         {"totals", totals_json(report.totals)},
         {"files", files},
         {"functions", functions},
+        {"unmeasured_lines", report.unmeasured_lines},
+        {"unmeasured", unmeasured},
         {"skipped", skipped},
         {"warnings", warnings},
         {"diagnostics", diagnostics_json(report)},

@@ -96,8 +96,9 @@ private:
 std::string group_thousands(double value);
 
 // Return the marks that say how `f` was measured when it is not the parser's ordinary result,
-// joined with ", " (e.g. "parser stopped"), or an empty string. Each renderer shows them beside
-// the name in its own brackets.
+// joined with ", ": "parser stopped", then the shown side's marks ("inactive" or "lexical",
+// "brace extent"), then "base: WORD" for each mark only the base side has; or an empty
+// string. Each renderer shows them beside the name in its own brackets.
 std::string function_marks(const delta::FunctionDelta& f);
 
 // Return the percent change formatted as "+12%", "-3%", or "new" when there is no base value.

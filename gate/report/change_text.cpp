@@ -2,6 +2,7 @@
 // The terminal report of a change: the table first, the verdict last, fitted to the width.
 #include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
+#include "gate/report/marks.hpp"
 #include "gate/report/measure_table.hpp"
 #include "gate/report/reading_order.hpp"
 
@@ -17,6 +18,15 @@ namespace {
 std::string marks_text(const delta::FunctionDelta& f) {
     const std::string marks = function_marks(f);
     return marks.empty() ? std::string() : " [" + marks + "]";
+}
+
+// The function's name (with its signature when that changed), its base identity when its name or
+// signature changed, then its marks.
+std::string name_cell(const delta::FunctionDelta& f) {
+    const std::string base = base_identity(f);
+    return text::terminal_text(head_identity(f)) +
+           (base.empty() ? std::string() : " (base: " + text::terminal_text(base) + ")") +
+           marks_text(f);
 }
 
 using core::MeasureId;
@@ -118,7 +128,7 @@ void write_table(Lines& lines, const ChangeReport& report, const ReadingOrder& o
         rows.push_back({standing == Standing::blocks  ? k_block_word
                         : standing == Standing::warns ? k_warn_word
                                                       : "",
-                        delta::label_name(f.label), terminal_text(f.name) + marks_text(f),
+                        delta::label_name(f.label), name_cell(f),
                         location_of(side.path, side.start_line), change_cell(f),
                         pair_cell(f, MeasureId::effort, 0), pair_cell(f, MeasureId::volume, 1),
                         pair_cell(f, MeasureId::difficulty, 2),
@@ -237,6 +247,11 @@ void write_change_text(std::ostream& out, const ChangeReport& report,
                               " changed, but no function definition was touched");
     } else {
         write_table(lines, report, order, options);
+    }
+    for (const auto& unmeasured : report.unmeasured) {
+        lines.write(terminal_text(fmt::format("unmeasured: {}: {}", unmeasured.path,
+                                              unmeasured_text(unmeasured))),
+                    4);
     }
     for (const auto& s : report.skipped) {
         lines.write(terminal_text(fmt::format("skipped: {} ({})", s.path, s.reason)), 4);

@@ -3,6 +3,7 @@
 #include "gate/report/markdown_parts.hpp"
 
 #include "gate/common/text_safety.hpp"
+#include "gate/report/marks.hpp"
 #include "gate/report/measure_table.hpp"
 #include "gate/report/reading_order.hpp"
 
@@ -82,6 +83,15 @@ std::string marks_text(const FunctionDelta& f) {
     return marks.empty() ? std::string() : " (" + marks + ")";
 }
 
+// The function's name in a code span (with its signature when that changed), its base identity
+// when its name or signature changed, then its marks.
+std::string name_text(const FunctionDelta& f, MarkdownPlace place) {
+    const std::string base = base_identity(f);
+    return data_code(head_identity(f), place) +
+           (base.empty() ? std::string() : " (base: " + data_code(base, place) + ")") +
+           marks_text(f);
+}
+
 constexpr const char* k_table_head =
     "| | function | location | effort change | effort | volume | difficulty |\n"
     "|---|---|---|---:|---:|---:|---:|\n";
@@ -90,7 +100,7 @@ std::string table_row(const FunctionDelta& f, const ChangeReport& report,
                       const RenderOptions& options) {
     const auto& side = f.shown_side();
     return fmt::format("| {} | {} | {} | {} | {} | {} | {} |\n", delta::label_name(f.label),
-                       data_code(f.name, MarkdownPlace::table_cell) + marks_text(f),
+                       name_text(f, MarkdownPlace::table_cell),
                        location_text(side.path, side.start_line, commit_of(&f, report), options),
                        growth_text(f), pair_text(f, MeasureId::effort, 0),
                        pair_text(f, MeasureId::volume, 1), pair_text(f, MeasureId::difficulty, 2));
@@ -105,8 +115,9 @@ std::string entry(const FunctionFindings& group, const ChangeReport& report,
     if (group.function.empty() && group.path.empty()) {
         out += "the whole change\n";
     } else {
-        out += data_code(group.function, MarkdownPlace::inline_text) +
-               (group.delta != nullptr ? marks_text(*group.delta) : std::string()) + " at " +
+        out += (group.delta != nullptr ? name_text(*group.delta, MarkdownPlace::inline_text)
+                                       : data_code(group.function, MarkdownPlace::inline_text)) +
+               " at " +
                location_text(group.path, group.start_line, commit_of(group.delta, report), options);
         if (group.delta != nullptr) {
             const auto d = group.delta->delta(MeasureId::effort);
@@ -177,6 +188,11 @@ std::string heading(const ChangeReport& report, const policy::Verdict& verdict,
                            group_thousands(t.base_effort), group_thousands(t.head_effort),
                            effort.absolute >= 0 ? "+" : "", group_thousands(effort.absolute),
                            format_percent(effort.percent));
+    }
+    if (report.unmeasured_lines > 0) {
+        out += " · " +
+               count_text(report.unmeasured_lines, "changed C/C++ line", "changed C/C++ lines") +
+               " outside functions";
     }
     out += " · policy " + data_text(verdict.policy_origin) + " · convention " +
            data_text(report.convention) + "\n\n";
@@ -252,6 +268,11 @@ Parts make_parts(const ChangeReport& report, const policy::Verdict& verdict,
     add_diagnostics(parts, report);
     for (const auto& note : report.notes) {
         list(List::notes).push_back("- note: " + data_text(note) + "\n");
+    }
+    for (const auto& lines : report.unmeasured) {
+        list(List::notes)
+            .push_back("- unmeasured " + data_code(lines.path, MarkdownPlace::inline_text) + ": " +
+                       data_text(unmeasured_text(lines)) + "\n");
     }
     for (const auto& s : report.skipped) {
         list(List::notes)

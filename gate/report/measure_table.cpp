@@ -3,6 +3,7 @@
 #include "gate/report/measure_table.hpp"
 
 #include "gate/common/text_safety.hpp"
+#include "gate/report/marks.hpp"
 
 #include <algorithm>
 #include <fmt/format.h>
@@ -55,13 +56,11 @@ std::string location(const MeasuredFunction& f) {
     return fmt::format("{}:{}", terminal_text(f.path), f.start_line);
 }
 
-// The mark after a function's name that says how its extent was found (none for the parser's).
-const char* extent_mark(const MeasuredFunction& f) {
-    return f.parser_stopped ? " [parser stopped]" : f.lexical ? " [lexical]" : "";
-}
-
+// The marks after a function's name that say how it was found (none for the parser's ordinary
+// result): " [parser stopped]", " [inactive]", " [lexical]", " [brace extent]".
 std::string display_name(const MeasuredFunction& f) {
-    return terminal_text(f.name + extent_mark(f));
+    return terminal_text(f.name + (f.parser_stopped ? " [parser stopped]" : "") +
+                         mark_suffix({f.lexical, f.inactive, f.brace_extent}));
 }
 
 const char* extent_of(const MeasuredFunction& f) {
@@ -85,6 +84,7 @@ nlohmann::json function_json(const MeasuredFunction& f) {
         {"function", f.name},
         {"signature", f.signature},
         {"extent", extent_of(f)},
+        {"marks", mark_words({f.lexical, f.inactive, f.brace_extent})},
         {"measures", measures_json(f.measures)},
     };
 }
@@ -155,7 +155,9 @@ void write_measure_text(std::ostream& out, const std::vector<MeasuredFunction>& 
         }
     }
     for (const auto& w : warnings) {
-        if (w.line > 0) {
+        if (w.path.empty()) {
+            out << terminal_text("note: " + w.message) << "\n";
+        } else if (w.line > 0) {
             out << terminal_text(fmt::format("warning: {}:{}: {}", w.path, w.line, w.message))
                 << "\n";
         } else {
@@ -196,12 +198,19 @@ void write_measure_json(std::ostream& out, const std::vector<MeasuredFunction>& 
 void write_explain_text(std::ostream& out, const MeasuredFunction& f,
                         const std::string& source_label, const std::string& convention,
                         double stroud) {
+    std::string how;
+    if (f.parser_stopped) {
+        how = ", measured lexically: the parser stopped on this file";
+    }
+    for (const auto& word :
+         mark_words({f.lexical && !f.parser_stopped, f.inactive, f.brace_extent})) {
+        how += word == "inactive"       ? ", inactive #if branch (lexical extent)"
+               : word == "brace-extent" ? ", extent from brace matching"
+                                        : ", lexical extent";
+    }
     out << terminal_text(fmt::format("{}:{}-{}  {}({})  [{}, {}{}]", f.path, f.start_line,
                                      f.end_line, f.name, f.signature, source_label, convention,
-                                     f.parser_stopped
-                                         ? ", measured lexically: the parser stopped on this file"
-                                     : f.lexical ? ", lexical extent"
-                                                 : ""))
+                                     how))
         << "\n\n";
     auto write_table = [&](const char* title, const std::map<std::string, core::TableEntry>& table,
                            std::uint64_t distinct, std::uint64_t total) {

@@ -21,13 +21,15 @@ struct MeasuredFunction {
     std::string signature;       // parameter types
     bool lexical = false;        // extent came from the lexical cross-check
     bool parser_stopped = false; // the parser stopped on its file: measured lexically
+    bool inactive = false;       // defined in an #if branch the preprocessor skipped
+    bool brace_extent = false;   // extent taken from brace matching (the parse disagreed)
     core::Counts counts;         // per-token tables and n1, n2, N1, N2
     core::Measures measures;     // every measure
 };
 
 // A warning shown under the table.
 struct SourceWarning {
-    std::string path;    // repository-relative path
+    std::string path;    // repository-relative path; empty for a note about the whole run
     unsigned line = 0;   // 0 when not tied to a line
     std::string message; // lowercase sentence
 };

@@ -103,6 +103,16 @@ std::string explain_command(const std::string& path, const std::string& function
 }
 
 std::string missing_header_of(const std::string& message) {
+    // The lexer's own words: `include "NAME" not found (...)`.
+    static const std::string k_include = "include \"";
+    static const std::string k_missing = "\" not found";
+    if (const auto start = message.find(k_include); start != std::string::npos) {
+        const auto from = start + k_include.size();
+        const auto end = message.find(k_missing, from);
+        if (end != std::string::npos && end > from) {
+            return message.substr(from, end - from);
+        }
+    }
     static const std::string k_not_found = "' file not found";
     const auto end = message.find(k_not_found);
     if (end == std::string::npos || end == 0) {
@@ -165,20 +175,30 @@ std::string diagnostics_count_text(const DiagnosticsSummary& summary) {
            count_text(summary.files, "file", "files");
 }
 
+std::string include_folder_hint() {
+    return "headers that are not in the repository were not found: give the build's "
+           "compile_commands.json (--compile-commands), or name their folders with "
+           "--include-dir DIR for the files it does not cover";
+}
+
 std::string compile_database_hint(const delta::ChangeReport& report,
                                   const DiagnosticsSummary& summary) {
     if (summary.warnings == 0 || report.files_without_compile_flags == 0) {
-        return {};
+        return summary.missing_headers.empty() ? std::string() : include_folder_hint();
     }
     const std::string files = count_text(report.files_without_compile_flags, "file", "files");
     const std::string what = report.compile_database
                                  ? files + " had no entry in the compile database"
                                  : files + " were parsed without a compile database";
     return fmt::format("{}: to parse with the build's flags, give one with --compile-commands "
-                       "PATH (CMake writes it with -DCMAKE_EXPORT_COMPILE_COMMANDS=ON)",
+                       "PATH (CMake writes it with -DCMAKE_EXPORT_COMPILE_COMMANDS=ON){}",
                        report.files_without_compile_flags == 1 && !report.compile_database
                            ? files + " was parsed without a compile database"
-                           : what);
+                           : what,
+                       summary.missing_headers.empty()
+                           ? ""
+                           : "; or name the folders of headers not in the repository with "
+                             "--include-dir DIR");
 }
 
 } // namespace tollgate::report

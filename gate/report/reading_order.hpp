@@ -73,8 +73,8 @@ struct DiagnosticsSummary {
     std::vector<const delta::ChangeWarning*> rest; // warnings about no missing header
 };
 
-// Return the header a clang diagnostic says was not found ("'x.h' file not found", also after
-// the lexer's "in "HEADER": " prefix), or empty.
+// Return the header a diagnostic says was not found: the lexer's `include "x.h" not found (...)`
+// or clang's "'x.h' file not found" (also after the lexer's "in "HEADER": " prefix), or empty.
 std::string missing_header_of(const std::string& message);
 
 // Sum up `warnings`: counts, and the missing headers grouped.
@@ -83,8 +83,12 @@ DiagnosticsSummary summarise_diagnostics(const std::vector<delta::ChangeWarning>
 // Return "48 parse warnings in 12 files" (one way of writing numbers: group_thousands).
 std::string diagnostics_count_text(const DiagnosticsSummary& summary);
 
+// Return the sentence said once when headers were missing: how to supply include folders.
+std::string include_folder_hint();
+
 // Return one sentence on how to give a compile database, when `report` has files measured
-// without compile flags and parse warnings that one might cure; empty otherwise.
+// without compile flags and parse warnings that one might cure (with --include-dir named when
+// headers were missing); include_folder_hint() when only headers were missing; empty otherwise.
 std::string compile_database_hint(const delta::ChangeReport& report,
                                   const DiagnosticsSummary& summary);
 

@@ -2,6 +2,7 @@
 // What every change renderer shares: numbers written one way, rules per function, file links.
 #include "gate/common/text_safety.hpp"
 #include "gate/report/change_report.hpp"
+#include "gate/report/marks.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -42,6 +43,14 @@ std::string function_marks(const FunctionDelta& f) {
     std::vector<std::string> marks;
     if (f.parser_stopped()) {
         marks.emplace_back("parser stopped");
+    }
+    for (std::string word : mark_words(marks_of(f.shown_side()))) {
+        std::replace(word.begin(), word.end(), '-', ' ');
+        marks.push_back(std::move(word));
+    }
+    for (std::string word : base_only_marks(f)) {
+        std::replace(word.begin(), word.end(), '-', ' ');
+        marks.push_back("base: " + word);
     }
     std::string joined;
     for (const auto& mark : marks) {

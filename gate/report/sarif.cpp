@@ -4,6 +4,7 @@
 
 #include "gate/common/text_safety.hpp"
 #include "gate/policy/judge.hpp"
+#include "gate/report/marks.hpp"
 
 #include <nlohmann/json.hpp>
 
@@ -41,6 +42,10 @@ std::string describe_rule(const policy::Rule& rule) {
     case policy::RuleKind::budget:
         return "The " + measure + " increases of all touched functions may sum to at most " +
                format_amount(rule.max_total_increase.value_or(0), Sign::always) + ".";
+    case policy::RuleKind::unmeasured_lines:
+        return "The change's changed C/C++ lines outside every measured function may number at "
+               "most " +
+               format_amount(rule.ceiling.value_or(0), Sign::as_is) + ".";
     }
     return "";
 }
@@ -56,8 +61,17 @@ std::string short_rule(const policy::Rule& rule) {
         return measure + " ceiling for a touched function";
     case policy::RuleKind::budget:
         return measure + " budget for the whole change";
+    case policy::RuleKind::unmeasured_lines:
+        return "changed lines outside every measured function";
     }
     return measure;
+}
+
+// The measure a rule of `kind` judges, or null for the count of unmeasured lines.
+json measure_json(policy::RuleKind kind, core::MeasureId measure) {
+    return kind == policy::RuleKind::unmeasured_lines
+               ? json(nullptr)
+               : json(std::string(core::measure_name(measure)));
 }
 
 const char* sarif_level(policy::Level level) {
@@ -76,6 +90,33 @@ json physical_location(const std::string& path, unsigned start_line, unsigned en
         location["physicalLocation"]["region"] = region;
     }
     return location;
+}
+
+// The touched function a finding is about, or null (a budget or a line-count finding).
+const delta::FunctionDelta* finding_function(const delta::ChangeReport& report,
+                                             const policy::Finding& finding) {
+    for (const auto& f : report.functions) {
+        if (!finding.path.empty() && f.name == finding.function &&
+            f.shown_side().path == finding.path &&
+            f.shown_side().start_line == finding.start_line) {
+            return &f;
+        }
+    }
+    return nullptr;
+}
+
+// Add the function's marks and base identity, when it has any, to a result's properties.
+void add_function_properties(json& properties, const delta::FunctionDelta& f) {
+    const auto marks = mark_words(marks_of(f.shown_side()));
+    if (!marks.empty()) {
+        properties["marks"] = marks;
+    }
+    if (f.base_name) {
+        properties["baseFunction"] = *f.base_name;
+    }
+    if (f.base_signature) {
+        properties["baseSignature"] = *f.base_signature;
+    }
 }
 
 // The in-scope function whose `measure` grew most, to anchor a budget finding; or none.
@@ -132,8 +173,17 @@ std::string path_to_uri(const std::string& path) {
 
 void write_sarif(std::ostream& out, const delta::ChangeReport& report,
                  const policy::Verdict& verdict, const policy::Policy& policy) {
+    std::vector<policy::Rule> all_rules = policy.rules;
+    if (policy.unmeasured_lines.limit || !report.unmeasured.empty()) {
+        policy::Rule limit; // the policy's "unmeasured-lines" key, described like a rule
+        limit.id = "unmeasured-lines";
+        limit.kind = policy::RuleKind::unmeasured_lines;
+        limit.level = policy.unmeasured_lines.level;
+        limit.ceiling = policy.unmeasured_lines.limit;
+        all_rules.push_back(limit);
+    }
     json rules = json::array();
-    for (const auto& rule : policy.rules) {
+    for (const auto& rule : all_rules) {
         rules.push_back({
             {"id", rule.id},
             {"name", rule.id},
@@ -142,7 +192,7 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
             {"defaultConfiguration", {{"level", sarif_level(rule.level)}}},
             {"properties",
              {{"kind", policy::rule_kind_name(rule.kind)},
-              {"measure", std::string(core::measure_name(rule.measure))}}},
+              {"measure", measure_json(rule.kind, rule.measure)}}},
         });
     }
 
@@ -153,14 +203,14 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
             {"level", sarif_level(finding.level)},
             {"message", {{"text", finding.message}}},
             {"properties",
-             {{"measure", std::string(core::measure_name(finding.measure))},
+             {{"measure", measure_json(finding.kind, finding.measure)},
               {"value", finding.value},
               {"limit", finding.limit},
               {"excess", finding.excess},
               {"unit", finding.percent ? "percent" : "measure"}}},
         };
-        for (std::size_t i = 0; i < policy.rules.size(); ++i) {
-            if (policy.rules[i].id == finding.rule_id) {
+        for (std::size_t i = 0; i < all_rules.size(); ++i) {
+            if (all_rules[i].id == finding.rule_id && all_rules[i].kind == finding.kind) {
                 result["ruleIndex"] = i;
             }
         }
@@ -172,6 +222,9 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
                 finding.message + " (measured lexically: the parser stopped on this file)";
             result["properties"]["extent"] = "parser-stopped";
         }
+        if (const auto* f = finding_function(report, finding)) {
+            add_function_properties(result["properties"], *f);
+        }
         if (!finding.path.empty()) {
             result["locations"] = json::array(
                 {physical_location(finding.path, finding.start_line, finding.end_line)});
@@ -182,6 +235,33 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
             result["locations"] = json::array({physical_location(
                 anchor->head->path, anchor->head->start_line, anchor->head->end_line)});
         }
+        results.push_back(std::move(result));
+    }
+
+    // Files left out (binary, too large, ...) are no results; a property bag lists them.
+    json skipped = json::array();
+    for (const auto& s : report.skipped) {
+        skipped.push_back({{"file", s.path}, {"reason", s.reason}});
+    }
+    // The safety net: every file's changed lines outside functions, as notes on the file.
+    for (const auto& lines : report.unmeasured) {
+        // A region only in head numbering: base lines may belong to another path or numbering.
+        const std::pair<unsigned, unsigned> first =
+            lines.head.empty() ? std::make_pair(0u, 0u) : lines.head.front();
+        json result = {
+            {"ruleId", "unmeasured-lines"},
+            {"level", "note"},
+            {"message", {{"text", lines.path + ": " + unmeasured_text(lines)}}},
+            {"properties",
+             {{"count", lines.count}, {"side", lines.head.empty() ? "base" : "head"}}},
+        };
+        for (std::size_t i = 0; i < all_rules.size(); ++i) {
+            if (all_rules[i].kind == policy::RuleKind::unmeasured_lines) {
+                result["ruleIndex"] = i;
+            }
+        }
+        result["locations"] =
+            json::array({physical_location(lines.path, first.first, first.second)});
         results.push_back(std::move(result));
     }
 
@@ -199,7 +279,8 @@ void write_sarif(std::ostream& out, const delta::ChangeReport& report,
           {"baseCommit", report.base_commit},
           {"headCommit", report.head_commit},
           {"convention", report.convention},
-          {"notes", verdict.notes}}},
+          {"notes", verdict.notes},
+          {"skipped", skipped}}},
     };
     const json log = {
         {"$schema", k_sarif_schema}, {"version", "2.1.0"}, {"runs", json::array({run})}};

@@ -84,7 +84,9 @@ std::string quoted_path(const ChangedFile& file) {
 }
 
 // Build the diff of `range` with zero context lines; untracked files count in the working tree.
-git::Owned<git_diff> diff_range(const Repository& repository, const ResolvedRange& range) {
+// A non-empty `only` restricts it to exactly those paths.
+git::Owned<git_diff> diff_range(const Repository& repository, const ResolvedRange& range,
+                                const std::vector<std::string>& only = {}) {
     git_repository* repo = git::handle_of(repository);
     const git::Owned<git_tree> base_tree = git::commit_tree(repository, range.base);
     git_diff_options options = GIT_DIFF_OPTIONS_INIT;
@@ -92,6 +94,15 @@ git::Owned<git_diff> diff_range(const Repository& repository, const ResolvedRang
     options.interhunk_lines = 0;
     // The indent heuristic is git's default since 2.14; without it hunks may slide elsewhere.
     options.flags = GIT_DIFF_INCLUDE_TYPECHANGE | GIT_DIFF_INDENT_HEURISTIC;
+    std::vector<char*> pathspec;
+    for (const auto& path : only) {
+        pathspec.push_back(const_cast<char*>(path.c_str()));
+    }
+    if (!only.empty()) {
+        options.flags |= GIT_DIFF_DISABLE_PATHSPEC_MATCH;
+        options.pathspec.strings = pathspec.data();
+        options.pathspec.count = pathspec.size();
+    }
     git_diff* raw = nullptr;
     if (range.head_source == HeadSource::worktree) {
         options.flags |= GIT_DIFF_INCLUDE_UNTRACKED | GIT_DIFF_RECURSE_UNTRACKED_DIRS |
@@ -106,6 +117,98 @@ git::Owned<git_diff> diff_range(const Repository& repository, const ResolvedRang
     return git::Owned<git_diff>(raw);
 }
 
+// Return whether `options` let rename detection run on a diff of `changed` files.
+bool renames_wanted(std::size_t changed, const ChangeOptions& options) {
+    return options.renames != RenameDetection::off && changed <= options.rename_file_limit;
+}
+
+// Return the size of `side` of `delta` without reading it: from the object header of its blob, or
+// from the file system for the working tree; nothing when the side is absent or its size cannot
+// be learnt (a blob missing from a partial clone: libgit2 skips those itself).
+std::optional<std::uint64_t> side_size(const Repository& repository, const ResolvedRange& range,
+                                       const git_diff_delta& delta, Side side) {
+    const git_diff_file& file = side == Side::base ? delta.old_file : delta.new_file;
+    if (side == Side::head && range.head_source == HeadSource::worktree) {
+        // A symlink is never followed, so only a regular file has a size here.
+        const std::filesystem::path path = std::filesystem::path(repository.workdir()) / file.path;
+        std::error_code error;
+        if (!std::filesystem::is_regular_file(std::filesystem::symlink_status(path, error))) {
+            return std::nullopt;
+        }
+        const auto size = std::filesystem::file_size(path, error);
+        return error ? std::nullopt : std::optional<std::uint64_t>(size);
+    }
+    if (git_oid_is_zero(&file.id) == 1) {
+        return std::nullopt;
+    }
+    git_odb* raw = nullptr;
+    if (git_repository_odb(&raw, git::handle_of(repository)) < 0) {
+        return std::nullopt;
+    }
+    const git::Owned<git_odb> odb(raw);
+    std::size_t size = 0;
+    git_object_t type = GIT_OBJECT_INVALID;
+    if (git_odb_read_header(&size, &type, raw, &file.id) < 0) {
+        git_error_clear();
+        return std::nullopt;
+    }
+    return size;
+}
+
+// One file left out of the diff before rename detection because a side is over the size limit.
+struct OversizedChange {
+    std::string base_path; // path in base; empty when added
+    std::string head_path; // path in head; empty when deleted
+    std::uint64_t size = 0;
+};
+
+// Return the added and deleted files of `diff` (the candidates rename detection would read whole
+// to score their similarity) that have a side over `options.max_file_size`.
+std::vector<OversizedChange> oversized_candidates(const Repository& repository,
+                                                  const ResolvedRange& range, git_diff* diff,
+                                                  const ChangeOptions& options) {
+    std::vector<OversizedChange> found;
+    const SizeLimit limit{options.max_file_size, nullptr};
+    if (options.max_file_size == 0) {
+        return found;
+    }
+    const std::size_t count = git_diff_num_deltas(diff);
+    for (std::size_t index = 0; index < count; ++index) {
+        const git_diff_delta& delta = *git_diff_get_delta(diff, index);
+        const bool deleted = delta.status == GIT_DELTA_DELETED;
+        const bool added = delta.status == GIT_DELTA_ADDED || delta.status == GIT_DELTA_UNTRACKED;
+        if (!deleted && !added) {
+            continue;
+        }
+        const auto size = side_size(repository, range, delta, deleted ? Side::base : Side::head);
+        if (size && limit.refuses(*size)) {
+            found.push_back({deleted ? delta.old_file.path : std::string(),
+                             added ? delta.new_file.path : std::string(), *size});
+        }
+    }
+    return found;
+}
+
+// Return every path of `diff` except those of `left_out`.
+std::vector<std::string> paths_except(git_diff* diff,
+                                      const std::vector<OversizedChange>& left_out) {
+    std::vector<std::string> paths;
+    const std::size_t count = git_diff_num_deltas(diff);
+    for (std::size_t index = 0; index < count; ++index) {
+        const git_diff_delta& delta = *git_diff_get_delta(diff, index);
+        const bool excluded = std::any_of(left_out.begin(), left_out.end(), [&](const auto& o) {
+            return o.base_path == delta.old_file.path || o.head_path == delta.new_file.path;
+        });
+        if (!excluded) {
+            paths.emplace_back(delta.old_file.path);
+            if (std::string(delta.new_file.path) != delta.old_file.path) {
+                paths.emplace_back(delta.new_file.path);
+            }
+        }
+    }
+    return paths;
+}
+
 // Run rename detection on `diff` unless `options` turn it off or the diff is too large; return a
 // note when it was skipped for size.
 std::string find_renames(git_diff* diff, const ResolvedRange& range, const ChangeOptions& options) {
@@ -113,7 +216,7 @@ std::string find_renames(git_diff* diff, const ResolvedRange& range, const Chang
         return {};
     }
     const std::size_t changed = git_diff_num_deltas(diff);
-    if (changed > options.rename_file_limit) {
+    if (!renames_wanted(changed, options)) {
         return "rename detection skipped: " + std::to_string(changed) +
                " changed files exceed the limit of " + std::to_string(options.rename_file_limit) +
                " (moved files show as deleted and added)";
@@ -192,6 +295,8 @@ const char* skip_reason_text(SkipReason reason) {
         return "not C, C++ or Java";
     case SkipReason::unreadable:
         return "unreadable";
+    case SkipReason::too_large:
+        return "too large";
     }
     return "not C, C++ or Java";
 }
@@ -200,13 +305,37 @@ ChangeSet collect_changes(const Repository& repository, const ResolvedRange& ran
                           const ChangeOptions& options) {
     ChangeSet changes;
     changes.range = range;
-    const git::Owned<git_diff> diff = diff_range(repository, range);
+    changes.max_file_size = options.max_file_size;
+    const SizeLimit limit{options.max_file_size, nullptr};
+    git::Owned<git_diff> diff = diff_range(repository, range);
+    // libgit2 reads every rename candidate whole: leave the oversized ones out of the diff first.
+    std::vector<OversizedChange> left_out;
+    if (renames_wanted(git_diff_num_deltas(diff.get()), options)) {
+        left_out = oversized_candidates(repository, range, diff.get(), options);
+    }
+    bool nothing_else = false;
+    if (!left_out.empty()) {
+        const std::vector<std::string> rest = paths_except(diff.get(), left_out);
+        nothing_else = rest.empty(); // an empty path list would mean every path
+        if (!nothing_else) {
+            diff = diff_range(repository, range, rest);
+        }
+    }
+    for (const auto& o : left_out) {
+        SkippedFile skipped;
+        skipped.base_path = o.base_path;
+        skipped.head_path = o.head_path;
+        const bool c_family = is_measured_path(o.base_path.empty() ? o.head_path : o.base_path);
+        skipped.reason = c_family ? SkipReason::too_large : SkipReason::not_c_family;
+        skipped.size = c_family ? o.size : 0;
+        changes.skipped.push_back(std::move(skipped));
+    }
     const std::string rename_note = find_renames(diff.get(), range, options);
     if (!rename_note.empty()) {
         changes.notes.push_back(rename_note);
     }
     const bool worktree = range.head_source == HeadSource::worktree;
-    const std::size_t count = git_diff_num_deltas(diff.get());
+    const std::size_t count = nothing_else ? 0 : git_diff_num_deltas(diff.get());
     for (std::size_t index = 0; index < count; ++index) {
         const git_diff_delta& delta = *git_diff_get_delta(diff.get(), index);
         const std::optional<ChangeStatus> status = status_of(delta.status);
@@ -225,6 +354,7 @@ ChangeSet collect_changes(const Repository& repository, const ResolvedRange& ran
         const bool base_c = !file.base_path.empty() && is_measured_path(file.base_path);
         const bool head_c = !file.head_path.empty() && is_measured_path(file.head_path);
         std::optional<SkipReason> skip = skip_by_kind(delta);
+        std::uint64_t too_large_size = 0;
         if (!skip && !base_c && !head_c) {
             skip = SkipReason::not_c_family;
         }
@@ -244,7 +374,17 @@ ChangeSet collect_changes(const Repository& repository, const ResolvedRange& ran
             if (!file.head_path.empty() && !worktree) {
                 file.head_blob = git::to_object_id(delta.new_file.id);
             }
-            if (!collect_lines(diff.get(), index, file)) {
+            std::uint64_t largest = 0;
+            for (const Side side : {Side::base, Side::head}) {
+                if (!(side == Side::base ? file.base_path : file.head_path).empty()) {
+                    largest = std::max<std::uint64_t>(
+                        largest, side_size(repository, range, delta, side).value_or(0));
+                }
+            }
+            if (limit.refuses(largest)) {
+                skip = SkipReason::too_large;
+                too_large_size = largest;
+            } else if (!collect_lines(diff.get(), index, file)) {
                 skip = SkipReason::binary;
             } else if (crosses) {
                 file.base_lines = LineSet();
@@ -264,6 +404,7 @@ ChangeSet collect_changes(const Repository& repository, const ResolvedRange& ran
                 skipped.head_path = delta.new_file.path;
             }
             skipped.reason = *skip;
+            skipped.size = *skip == SkipReason::too_large ? too_large_size : 0;
             changes.skipped.push_back(std::move(skipped));
         } else {
             changes.files.push_back(std::move(file));
@@ -304,14 +445,15 @@ std::optional<SourceFile> read_side(const Repository& repository, const ChangeSe
 }
 
 std::vector<SourceFile> read_side_tree(const Repository& repository, const ChangeSet& changes,
-                                       Side side) {
+                                       Side side, std::vector<OversizedFile>* oversized) {
+    const SizeLimit limit{changes.max_file_size, oversized};
     if (side == Side::base) {
-        return repository.read_c_family_files(changes.range.base);
+        return repository.read_c_family_files(changes.range.base, limit);
     }
     if (working_tree_head(changes)) {
-        return repository.read_worktree_c_family_files();
+        return repository.read_worktree_c_family_files(limit);
     }
-    return repository.read_c_family_files(changes.range.head);
+    return repository.read_c_family_files(changes.range.head, limit);
 }
 
 } // namespace tollgate::walker

@@ -9,6 +9,7 @@
 #include "gate/walker/revision_range.hpp"
 
 #include <cstddef>
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -31,6 +32,7 @@ enum class SkipReason {
     type_change,  // deleted and re-added as another kind of entry (file <-> symlink or submodule)
     not_c_family, // neither side has a C/C++ or Java extension
     unreadable,   // the working-tree file could not be read
+    too_large,    // a side is larger than the size limit (ChangeOptions::max_file_size)
 };
 
 // Whether renames are looked for.
@@ -51,6 +53,8 @@ struct ChangeOptions {
     unsigned rename_threshold = 50;       // minimum similarity (percent) of a rename, as git's -M
     std::size_t rename_limit = 400;       // candidates compared per added file during detection
     std::size_t rename_file_limit = 1000; // skip detection when more files than this changed
+    std::uint64_t max_file_size = k_default_max_file_size; // bytes; a larger file is not read
+                                                           // (0: no bound)
 };
 
 // One changed C/C++ file: paths, blobs and changed lines of both sides.
@@ -77,10 +81,11 @@ struct SkippedFile {
     std::string base_path;                        // path in base; empty when added
     std::string head_path;                        // path in head; empty when deleted
     SkipReason reason = SkipReason::not_c_family; // why it is left out
+    std::uint64_t size = 0;                       // bytes of its larger side when too_large, else 0
 
     bool operator==(const SkippedFile& other) const {
         return base_path == other.base_path && head_path == other.head_path &&
-               reason == other.reason;
+               reason == other.reason && size == other.size;
     }
 };
 
@@ -92,18 +97,22 @@ struct ChangeSet {
     std::vector<SkippedFile> skipped; // changed files not measured, in the same order
     std::vector<std::string> notes;   // sentences for the report, e.g. that rename detection was
                                       // skipped; empty when there is nothing to say
+    std::uint64_t max_file_size = k_default_max_file_size; // the size limit it was collected
+                                                           // under, for read_side_tree
 
     bool operator==(const ChangeSet& other) const {
         return range == other.range && files == other.files && skipped == other.skipped &&
-               notes == other.notes;
+               notes == other.notes && max_file_size == other.max_file_size;
     }
 };
 
 // Collect the changes from `range.base` to `range.head` (a tree-to-tree diff) or to the working
 // tree (staged, unstaged and untracked-but-not-ignored files), with zero context lines and bounded
 // rename detection. A rename that crosses the C/C++ boundary counts as deleted or added on the
-// C/C++ side. Returns an empty ChangeSet when nothing changed. Throws Failure when libgit2 fails or
-// an object is missing.
+// C/C++ side. A C/C++ file with a side larger than `options.max_file_size` is skipped as too_large
+// before its content is read (sizes come from object headers or the file system), and such files
+// are kept out of rename detection, which would read them whole. Returns an empty ChangeSet when
+// nothing changed. Throws Failure when libgit2 fails or an object is missing.
 ChangeSet collect_changes(const Repository& repository, const ResolvedRange& range,
                           const ChangeOptions& options = {});
 
@@ -114,9 +123,10 @@ std::optional<SourceFile> read_side(const Repository& repository, const ChangeSe
                                     const ChangedFile& file, Side side);
 
 // Return every C/C++ file of `side` of `changes` with its content, sorted by path: the tree of
-// the base or head commit, or the working tree read from disk. Throws Failure when an object is
-// missing.
+// the base or head commit, or the working tree read from disk. Files larger than
+// `changes.max_file_size` are left unread and added to `oversized` when it is given. Throws
+// Failure when an object is missing.
 std::vector<SourceFile> read_side_tree(const Repository& repository, const ChangeSet& changes,
-                                       Side side);
+                                       Side side, std::vector<OversizedFile>* oversized = nullptr);
 
 } // namespace tollgate::walker

@@ -34,6 +34,7 @@ struct Dispose {
     void operator()(git_status_list* handle) const { git_status_list_free(handle); }
     void operator()(git_diff* handle) const { git_diff_free(handle); }
     void operator()(git_patch* handle) const { git_patch_free(handle); }
+    void operator()(git_odb* handle) const { git_odb_free(handle); }
 };
 
 // An owned libgit2 handle.

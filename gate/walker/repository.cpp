@@ -9,10 +9,13 @@
 #include <algorithm>
 #include <cctype>
 #include <filesystem>
+#include <fmt/format.h>
 #include <fstream>
 #include <map>
 #include <spdlog/spdlog.h>
 #include <sstream>
+#include <sys/stat.h>
+#include <unistd.h>
 
 namespace tollgate::walker {
 
@@ -78,6 +81,33 @@ std::string quoted(const std::string& text) {
     return "\"" + text + "\"";
 }
 
+// Return the folder git names in its ownership message for the git folder `git_dir`: the working
+// tree holding a ".git" folder, else the git folder itself (a bare repository).
+std::string repository_folder(std::string git_dir) {
+    while (git_dir.size() > 1 && git_dir.back() == '/') {
+        git_dir.pop_back();
+    }
+    const std::string suffix = "/.git";
+    if (git_dir.size() > suffix.size() &&
+        git_dir.compare(git_dir.size() - suffix.size(), suffix.size(), suffix) == 0) {
+        git_dir.resize(git_dir.size() - suffix.size());
+    }
+    return git_dir;
+}
+
+// Return the owner of `folder` or of `git_dir` when it is not the effective user, as git's
+// ownership check sees it; nothing when both are the user's own (or cannot be examined).
+std::optional<unsigned> foreign_owner(const std::string& folder, const std::string& git_dir) {
+    for (const std::string& candidate : {folder, git_dir}) {
+        struct stat status {};
+        if (!candidate.empty() && ::stat(candidate.c_str(), &status) == 0 &&
+            status.st_uid != ::geteuid()) {
+            return static_cast<unsigned>(status.st_uid);
+        }
+    }
+    return std::nullopt;
+}
+
 // Collects the C/C++ blobs of a tree walk.
 int collect_c_family_entry(const char* root, const git_tree_entry* entry, void* payload) {
     if (git_tree_entry_type(entry) != GIT_OBJECT_BLOB ||
@@ -88,6 +118,16 @@ int collect_c_family_entry(const char* root, const git_tree_entry* entry, void* 
     if (is_measured_path(path)) {
         auto* files = static_cast<std::vector<TreeFile>*>(payload);
         files->push_back(TreeFile{std::move(path), git::to_object_id(*git_tree_entry_id(entry))});
+    }
+    return 0;
+}
+
+// Collects the path of every regular blob of a tree walk.
+int collect_any_entry(const char* root, const git_tree_entry* entry, void* payload) {
+    if (git_tree_entry_type(entry) == GIT_OBJECT_BLOB &&
+        git_tree_entry_filemode(entry) != GIT_FILEMODE_LINK) {
+        static_cast<std::vector<std::string>*>(payload)->push_back(std::string(root) +
+                                                                   git_tree_entry_name(entry));
     }
     return 0;
 }
@@ -103,29 +143,57 @@ Repository::Repository(Repository&&) noexcept = default;
 Repository& Repository::operator=(Repository&&) noexcept = default;
 Repository::~Repository() = default;
 
-Repository Repository::open(const std::string& path) {
+std::optional<Repository> Repository::find(const std::string& path) {
     git::ensure_started();
     git_repository* raw = nullptr;
     const int code = git_repository_open_ext(&raw, path.c_str(), 0, nullptr);
-    if (code == GIT_ENOTFOUND) {
+    if (code == 0) {
+        auto impl = std::make_unique<Impl>();
+        impl->repository.reset(raw);
+        return Repository(std::move(impl));
+    }
+    if (code != GIT_ENOTFOUND && code != GIT_EOWNER) {
+        git::check(code, "cannot open the repository at " + quoted(path));
+    }
+    const std::string message = git::last_error_message();
+    // libgit2 1.5 reports a repository of another user as "not found" when no safe.directory is
+    // configured at all: find git's folder without opening it, then ask who owns it.
+    git_buf found = GIT_BUF_INIT;
+    const bool discovered = git_repository_discover(&found, path.c_str(), 0, nullptr) == 0;
+    const std::string git_dir = discovered ? std::string(found.ptr) : std::string();
+    git_buf_dispose(&found);
+    git_error_clear();
+    if (git_dir.empty() && code == GIT_ENOTFOUND) {
+        return std::nullopt;
+    }
+    const std::string folder = git_dir.empty() ? path : repository_folder(git_dir);
+    const std::optional<unsigned> owner = foreign_owner(folder, git_dir);
+    if (code == GIT_EOWNER || owner) {
+        throw UsageError(fmt::format(
+            "detected dubious ownership in repository at \"{}\": it is owned by {}, and tollgate "
+            "runs as uid {} (if you trust it: git config --global --add safe.directory {})",
+            folder, owner ? "uid " + std::to_string(*owner) : std::string("another user"),
+            static_cast<unsigned>(::geteuid()), shell_word(folder)));
+    }
+    throw Failure("cannot open the repository at " + quoted(folder) + ": " + message);
+}
+
+Repository Repository::open(const std::string& path) {
+    std::optional<Repository> found = find(path);
+    if (!found) {
         throw UsageError("not a git repository: " + quoted(path) +
-                         " (run inside a git work tree or pass --repo)");
+                         " (run inside a git work tree, or name one with -C DIR)");
     }
-    if (code == GIT_EOWNER) {
-        throw UsageError("repository " + quoted(path) +
-                         " is owned by another user (mark it safe with \"git config --global "
-                         "--add safe.directory " +
-                         path + "\")");
-    }
-    git::check(code, "cannot open the repository at " + quoted(path));
-    auto impl = std::make_unique<Impl>();
-    impl->repository.reset(raw);
-    return Repository(std::move(impl));
+    return std::move(*found);
 }
 
 std::string Repository::workdir() const {
     const char* dir = git_repository_workdir(m_impl->repository.get());
     return dir == nullptr ? std::string() : std::string(dir);
+}
+
+std::string Repository::git_dir() const {
+    return git_repository_path(m_impl->repository.get());
 }
 
 bool Repository::is_bare() const {
@@ -174,6 +242,15 @@ std::vector<TreeFile> Repository::list_c_family_files(const ObjectId& commit) co
     return files;
 }
 
+std::vector<std::string> Repository::list_file_paths(const ObjectId& commit) const {
+    const git::Owned<git_tree> tree = git::commit_tree(*this, commit);
+    std::vector<std::string> paths;
+    git::check(git_tree_walk(tree.get(), GIT_TREEWALK_PRE, collect_any_entry, &paths),
+               "cannot list the tree of commit " + commit.short_hex());
+    std::sort(paths.begin(), paths.end());
+    return paths;
+}
+
 std::string Repository::read_blob(const ObjectId& blob) const {
     const git_oid id = git::to_git_oid(blob);
     git_blob* raw = nullptr;
@@ -201,15 +278,38 @@ std::optional<SourceFile> Repository::read_file(const ObjectId& commit,
     return SourceFile{path, read_blob(git::to_object_id(*git_tree_entry_id(raw)))};
 }
 
-std::vector<SourceFile> Repository::read_c_family_files(const ObjectId& commit) const {
+std::uint64_t Repository::blob_size(const ObjectId& blob) const {
+    const git_oid id = git::to_git_oid(blob);
+    git_odb* raw_odb = nullptr;
+    git::check(git_repository_odb(&raw_odb, m_impl->repository.get()),
+               "cannot open the object database");
+    const git::Owned<git_odb> odb(raw_odb);
+    std::size_t size = 0;
+    git_object_t type = GIT_OBJECT_INVALID;
+    git::check(git_odb_read_header(&size, &type, raw_odb, &id),
+               "cannot read blob " + blob.short_hex());
+    return size;
+}
+
+std::vector<SourceFile> Repository::read_c_family_files(const ObjectId& commit,
+                                                        const SizeLimit& limit) const {
     std::vector<SourceFile> files;
     for (const TreeFile& entry : list_c_family_files(commit)) {
+        if (limit.max_bytes != 0) {
+            const std::uint64_t size = blob_size(entry.blob);
+            if (limit.refuses(size)) {
+                if (limit.oversized != nullptr) {
+                    limit.oversized->push_back({entry.path, size});
+                }
+                continue;
+            }
+        }
         files.push_back(SourceFile{entry.path, read_blob(entry.blob)});
     }
     return files;
 }
 
-std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
+std::vector<SourceFile> Repository::read_worktree_c_family_files(const SizeLimit& limit) const {
     git_repository* repo = m_impl->repository.get();
     const std::string root = workdir();
     if (root.empty()) {
@@ -248,9 +348,15 @@ std::vector<SourceFile> Repository::read_worktree_c_family_files() const {
     std::vector<SourceFile> files;
     for (const auto& item : paths) {
         const std::filesystem::path on_disk = std::filesystem::path(root) / item.first;
-        DiskFile file = read_regular_file(on_disk.string());
+        DiskFile file = read_regular_file(on_disk.string(), limit.max_bytes);
         if (file.entry == DiskEntry::unreadable) {
             throw Failure("cannot read " + quoted(on_disk.string()));
+        }
+        if (file.entry == DiskEntry::oversized) {
+            if (limit.oversized != nullptr) {
+                limit.oversized->push_back({item.first, file.size});
+            }
+            continue;
         }
         if (file.entry != DiskEntry::regular) {
             // Deleted from disk, a symlink (never followed), a FIFO or device (never opened).

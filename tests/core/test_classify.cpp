@@ -84,7 +84,7 @@ TEST_CASE("classify_token keeps unary, binary and declarator forms apart", "[cor
         merged.merge_unary_binary = true;
         CHECK(classify_token(punct("-", Form::unary), merged)->key == "-");
         CHECK(classify_token(punct("-", Form::binary), merged)->key == "-");
-        CHECK(fingerprint(merged) == "c-family/1+merged-forms");
+        CHECK(fingerprint(merged) == "c-family/2+merged-forms");
     }
 }
 
@@ -100,7 +100,7 @@ TEST_CASE("classify_token splits names into operators and operands", "[core]") {
     name_operand.function_name_as_operand = true;
     CHECK(classify_token(ident("update", NameKind::defined), name_operand)->role ==
           Role::operand_token);
-    CHECK(fingerprint(name_operand) == "c-family/1+name-operand");
+    CHECK(fingerprint(name_operand) == "c-family/2+name-operand");
 }
 
 TEST_CASE("classify_token counts value keywords and literals as operands", "[core]") {
@@ -199,7 +199,7 @@ TEST_CASE("count_tokens of nothing is all zero", "[core]") {
 }
 
 TEST_CASE("fingerprint names the default convention and every switch", "[core]") {
-    CHECK(fingerprint(Convention{}) == "c-family/1");
+    CHECK(fingerprint(Convention{}) == "c-family/2");
     Convention all{true, true, true};
-    CHECK(fingerprint(all) == "c-family/1+name-operand+body-only+merged-forms");
+    CHECK(fingerprint(all) == "c-family/2+name-operand+body-only+merged-forms");
 }

@@ -5,6 +5,7 @@
 #include "gate/baseline/snapshot_shard.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/shard_spec.hpp"
+#include "gate/common/source.hpp"
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -129,6 +130,8 @@ TEST_CASE("snapshot --merge refuses parts that do not belong together", "[baseli
     require_ok(snapshot(dir, "--shard 1/2 --out a1.json"));
     require_ok(snapshot(dir, "--shard 2/2 --out a2.json"));
     require_ok(snapshot(dir, "--shard 1/3 --out b1.json"));
+    require_ok(snapshot(dir, "--shard 2/2 --max-file-size 1K --out small2.json"));
+    require_ok(snapshot(dir, "--shard 2/2 --include-dir src --out inc2.json"));
     dir.write("src/stage0.c", "int stage0(int x) { return x; }\n");
     commit_all(dir.path(), "simpler stage 0");
     require_ok(snapshot(dir, "--shard 2/2 --out c2.json"));
@@ -159,6 +162,17 @@ TEST_CASE("snapshot --merge refuses parts that do not belong together", "[baseli
         CHECK(err.find("(run every shard on one commit with the same options)") !=
               std::string::npos);
     }
+    SECTION("parts made with another file size limit or other include folders") {
+        CHECK(refused("a1.json small2.json") ==
+              "tollgate: error: the parts disagree on max-file-size: \"a1.json\" has \"" +
+                  std::to_string(tollgate::k_default_max_file_size) +
+                  "\", \"small2.json\" has \"1024\" (run every shard on one commit with the "
+                  "same options)\n");
+        CHECK(refused("a1.json inc2.json") ==
+              "tollgate: error: the parts disagree on include-dir: \"a1.json\" has \"\", "
+              "\"inc2.json\" has \"src\" (run every shard on one commit with the same "
+              "options)\n");
+    }
     SECTION("a part of another tool version") {
         // The part as another version would write it (the snapshot's digest made anew).
         auto older = tollgate::baseline::load_snapshot_part(dir.path() + "/a2.json");
@@ -173,7 +187,7 @@ TEST_CASE("snapshot --merge refuses parts that do not belong together", "[baseli
         require_ok(snapshot(dir, "--out whole.json"));
         CHECK(refused("whole.json") ==
               "tollgate: error: \"whole.json\" is not a snapshot part (schema "
-              "\"tollgate.snapshot-part/1\" expected) (write it again with \"tollgate snapshot "
+              "\"tollgate.snapshot-part/2\" expected) (write it again with \"tollgate snapshot "
               "--shard K/N\")\n");
     }
 }

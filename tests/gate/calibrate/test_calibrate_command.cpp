@@ -169,7 +169,7 @@ TEST_CASE("calibrate lexed-file cache", "[calibrate]") {
         // Damage one whole entry as a crash of another tool or a full disk might.
         {
             std::ofstream cut(json_entries[0], std::ios::trunc);
-            cut << "{\"format\": \"tollgate.lexcache/2\", \"key\": ";
+            cut << "{\"format\": \"tollgate.lexcache/3\", \"key\": ";
         }
         const auto second = calibrate_json(dir, "-j 1 " + cache_arg);
         CHECK(second["cache"]["damaged"] == 1);

@@ -96,7 +96,8 @@ TEST_CASE("calibrate shards merged equal one whole run", "[calibrate]") {
         nlohmann::json::parse(require_ok(calibrate(dir, "--format json" + policy + cache_dir)));
     REQUIRE(whole["commits"].size() == 7);
     const std::string whole_text = require_ok(calibrate(dir, policy + cache_dir));
-    const std::string whole_suggest = require_ok(calibrate(dir, "--suggest 90" + cache_dir));
+    const std::string whole_suggest =
+        require_ok(calibrate(dir, "--suggest 90" + policy + cache_dir));
 
     for (const unsigned n : {1u, 2u, 3u, 4u, 11u}) {
         DYNAMIC_SECTION("with " << n << " shards run as separate processes") {
@@ -107,7 +108,8 @@ TEST_CASE("calibrate shards merged equal one whole run", "[calibrate]") {
                 TempDir own_cache;
                 write(path,
                       require_ok(calibrate(dir, fmt::format("--shard {}/{} --cache-dir {}", k, n,
-                                                            shell_quote(own_cache.path())))));
+                                                            shell_quote(own_cache.path())) +
+                                                    policy)));
                 files += " " + shell_quote(path);
             }
             const auto merged = nlohmann::json::parse(
@@ -191,14 +193,18 @@ TEST_CASE("calibrate --merge refuses parts that do not belong together", "[calib
               require_ok(calibrate(dir, "--format json" + cache_dir)));
         CHECK(refused("whole.json") ==
               "tollgate: error: \"whole.json\" is not a partial calibrate result (schema "
-              "\"tollgate.calibrate-part/1\" expected; write one with \"tollgate calibrate "
+              "\"tollgate.calibrate-part/2\" expected; write one with \"tollgate calibrate "
               "--shard K/N\")\n");
     }
-    SECTION("--shard leaves --policy, --suggest and --html to the merge") {
-        const auto result = calibrate(dir, "--shard 1/2 --suggest 90" + cache_dir);
-        CHECK(result.exit_code == 2);
-        CHECK(result.err == "tollgate: error: --shard writes a partial result: give --policy, "
-                            "--suggest and --html to \"tollgate calibrate --merge\" instead\n");
+    SECTION("--shard leaves --suggest, --suggest-block-rate and --html to the merge") {
+        for (const std::string option :
+             {"--suggest 90", "--suggest-block-rate 5", "--html p.html"}) {
+            const auto result = calibrate(dir, "--shard 1/2 " + option + cache_dir);
+            CHECK(result.exit_code == 2);
+            CHECK(result.err == "tollgate: error: --shard writes a partial result: give "
+                                "--suggest, --suggest-block-rate and --html to \"tollgate "
+                                "calibrate --merge\" instead\n");
+        }
     }
 }
 

@@ -1,9 +1,16 @@
 // SPDX-License-Identifier: MIT
-// The lexed-file cache's keys: content digest against the FNV definition, and which headers count.
+// The lexed-file cache's keys: content digest against the FNV definition, and which headers count;
+// entries kept and found, and eviction by age and size.
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "support/temp_repo.hpp"
 
+#include <atomic>
 #include <catch2/catch.hpp>
+#include <chrono>
+#include <filesystem>
+#include <fstream>
+#include <thread>
+#include <vector>
 
 using tollgate::SourceFile;
 using tollgate::calibrate::content_key;
@@ -108,6 +115,178 @@ TEST_CASE("LexFileCache", "[calibrate]") {
         CHECK(again.counts().hits == 1);
         CHECK(cache.counts().parses == 1);
     }
+}
+
+namespace {
+
+// A lexed file of one function whose tokens make an entry of roughly `tokens` * 40 bytes.
+tollgate::lexer::FileFunctions lexed_file(const std::string& path, std::size_t tokens) {
+    tollgate::lexer::FileFunctions lexed;
+    lexed.path = path;
+    tollgate::lexer::FunctionSpan span;
+    span.qualified_name = "f";
+    span.fallback_key = "f()#0";
+    span.path = path;
+    span.start_line = 1;
+    span.end_line = 1;
+    for (std::size_t i = 0; i < tokens; ++i) {
+        span.tokens.push_back({"x", "x", tollgate::core::Role::operand_token, "",
+                               tollgate::core::Basis::syntax_tree, 1});
+    }
+    lexed.functions.push_back(span);
+    return lexed;
+}
+
+// Every entry file (DIR/xx/KEY.json) of the cache at `dir`, and their total size.
+std::vector<std::filesystem::path> entries_of(const std::string& dir, std::uint64_t* bytes) {
+    std::vector<std::filesystem::path> entries;
+    *bytes = 0;
+    for (const auto& item : std::filesystem::recursive_directory_iterator(dir)) {
+        if (item.is_regular_file() && item.path().extension() == ".json") {
+            entries.push_back(item.path());
+            *bytes += item.file_size();
+        }
+    }
+    return entries;
+}
+
+// Set the last use of the entry of `file` to `days` days ago.
+void age_entry(const std::string& dir, const SourceFile& file,
+               const tollgate::lexer::ParseContext& context, int days) {
+    const std::string key = lex_cache_key(file, context);
+    const auto path = std::filesystem::path(dir) / key.substr(0, 2) / (key.substr(2) + ".json");
+    REQUIRE(std::filesystem::exists(path));
+    std::filesystem::last_write_time(path, std::filesystem::file_time_type::clock::now() -
+                                               std::chrono::hours(24) * days);
+}
+
+} // namespace
+
+TEST_CASE("LexFileCache::evict", "[calibrate]") {
+    tollgate::test::TempDir dir;
+    const std::string folder = dir.path() + "/cache";
+    LexFileCache cache(folder);
+    const auto context = context_with({});
+    std::vector<SourceFile> files;
+    for (int i = 0; i < 6; ++i) {
+        files.push_back({"src/f" + std::to_string(i) + ".c", "int f" + std::to_string(i) + ";\n"});
+        cache.store(files.back(), context, lexed_file(files.back().path, 50));
+    }
+    // Last uses: f0 40 days ago, f1 31, f2 20, f3 10, f4 2, f5 now.
+    const int ages[] = {40, 31, 20, 10, 2};
+    for (int i = 0; i < 5; ++i) {
+        age_entry(folder, files[static_cast<std::size_t>(i)], context, ages[i]);
+    }
+    std::uint64_t total = 0;
+    REQUIRE(entries_of(folder, &total).size() == 6);
+
+    SECTION("entries unused for longer than the age go, the rest stay and are found") {
+        const auto evicted = cache.evict({0, 30});
+        CHECK(evicted.removed_entries == 2);
+        CHECK(evicted.kept_entries == 4);
+        LexFileCache again(folder);
+        CHECK_FALSE(again.find(files[0], context));
+        CHECK_FALSE(again.find(files[1], context));
+        for (std::size_t i = 2; i < 6; ++i) {
+            CHECK(again.find(files[i], context));
+        }
+    }
+    SECTION("over the size, the least recently used go until the rest fit") {
+        const std::uint64_t one = total / 6;
+        const auto evicted = cache.evict({one * 2 + one / 2, 0});
+        CHECK(evicted.removed_entries == 4);
+        CHECK(evicted.kept_entries == 2);
+        std::uint64_t kept = 0;
+        CHECK(entries_of(folder, &kept).size() == 2);
+        CHECK(kept == evicted.kept_bytes);
+        CHECK(kept <= one * 2 + one / 2);
+        LexFileCache again(folder);
+        CHECK(again.find(files[4], context));
+        CHECK(again.find(files[5], context));
+    }
+    SECTION("a hit counts as a use") {
+        LexFileCache reader(folder);
+        REQUIRE(reader.find(files[0], context)); // f0 was the oldest; now the newest
+        const auto evicted = cache.evict({0, 30});
+        CHECK(evicted.removed_entries == 1);
+        CHECK(LexFileCache(folder).find(files[0], context));
+        CHECK_FALSE(LexFileCache(folder).find(files[1], context));
+    }
+    SECTION("no limits remove nothing; a folder of other files is left alone") {
+        std::ofstream(folder + "/notes.txt") << "mine\n";
+        std::filesystem::create_directories(folder + "/zz-not-ours");
+        std::ofstream(folder + "/zz-not-ours/x.json") << "{}";
+        const auto evicted = cache.evict({0, 0});
+        CHECK(evicted.removed_entries == 0);
+        CHECK(evicted.kept_entries == 6);
+        const auto tiny = cache.evict({1, 1});
+        CHECK(tiny.kept_entries == 0);
+        CHECK(std::filesystem::exists(folder + "/notes.txt"));
+        CHECK(std::filesystem::exists(folder + "/zz-not-ours/x.json"));
+    }
+    SECTION("stale temporary files go, fresh ones (a writer at work) stay") {
+        const std::string stale = folder + "/tmp.999999.0.part";
+        const std::string fresh = folder + "/tmp.999999.1.part";
+        std::ofstream(stale) << "half";
+        std::ofstream(fresh) << "half";
+        std::filesystem::last_write_time(stale, std::filesystem::file_time_type::clock::now() -
+                                                    std::chrono::hours(2));
+        cache.evict({0, 0});
+        CHECK_FALSE(std::filesystem::exists(stale));
+        CHECK(std::filesystem::exists(fresh));
+    }
+    SECTION("evicting while other threads store and find leaves whole entries only") {
+        std::atomic<bool> stop{false};
+        std::vector<std::thread> workers;
+        for (int t = 0; t < 3; ++t) {
+            workers.emplace_back([&, t] {
+                LexFileCache own(folder);
+                for (int n = 0; !stop.load(); ++n) {
+                    const SourceFile file{"w" + std::to_string(t) + "/" + std::to_string(n % 20) +
+                                              ".c",
+                                          "int g" + std::to_string(n % 20) + ";\n"};
+                    if (!own.find(file, context)) {
+                        own.store(file, context, lexed_file(file.path, 30));
+                    }
+                }
+            });
+        }
+        for (int round = 0; round < 50; ++round) {
+            cache.evict({total / 3, 30});
+        }
+        stop.store(true);
+        for (auto& worker : workers) {
+            worker.join();
+        }
+        // Every entry left parses as a whole entry: none is damaged.
+        LexFileCache reader(folder);
+        std::uint64_t bytes = 0;
+        std::size_t found = 0;
+        for (int t = 0; t < 3; ++t) {
+            for (int n = 0; n < 20; ++n) {
+                const SourceFile file{"w" + std::to_string(t) + "/" + std::to_string(n) + ".c",
+                                      "int g" + std::to_string(n) + ";\n"};
+                found += reader.find(file, context) ? 1 : 0;
+            }
+        }
+        CHECK(reader.counts().damaged == 0);
+        CHECK(found == reader.counts().hits);
+        CHECK(entries_of(folder, &bytes).size() >= found);
+    }
+}
+
+TEST_CASE("LexFileCache without a folder", "[calibrate]") {
+    LexFileCache cache;
+    const SourceFile file{"a.c", "int a;\n"};
+    const auto context = context_with({});
+    cache.store(file, context, lexed_file(file.path, 3));
+    CHECK_FALSE(cache.find(file, context));
+    CHECK_FALSE(cache.find(file, context));
+    CHECK(cache.counts().visits == 2);
+    CHECK(cache.counts().parses == 2);
+    CHECK(cache.counts().hits == 0);
+    CHECK(cache.counts().distinct_blobs == 1);
+    CHECK(cache.evict({1, 1}).removed_entries == 0);
 }
 
 TEST_CASE("LexFileCache keeps text that is not UTF-8 byte for byte", "[calibrate]") {

@@ -129,10 +129,12 @@ TEST_CASE("calibrate reports hostile commit subjects and file names safely", "[c
     Hostile h;
     TempDir cache;
     const std::string page = cache.path() + "/page.html";
-    const auto json =
-        run_tollgate("calibrate --no-pch-cache --format json --cache-dir " +
-                         shell_quote(cache.path() + "/c") + " --html " + shell_quote(page),
-                     h.dir.path());
+    // The functions are tiny: a policy without a noise floor keeps them in the distributions.
+    cache.write("all.yaml", "tollgate-policy: 1\nnoise-floor: {}\nrules: []\n");
+    const auto json = run_tollgate(
+        "calibrate --no-pch-cache --format json --cache-dir " + shell_quote(cache.path() + "/c") +
+            " --html " + shell_quote(page) + " --policy " + shell_quote(cache.path() + "/all.yaml"),
+        h.dir.path());
     INFO(json.err);
     REQUIRE(json.exit_code == 0); // before: exit 3 at the first Latin-1 byte
     const auto doc = nlohmann::json::parse(json.out);
@@ -151,7 +153,8 @@ TEST_CASE("calibrate reports hostile commit subjects and file names safely", "[c
     CHECK_FALSE(has_control(html));
     // A second run reads the lexed files back from the cache: the same measures.
     const auto again = run_tollgate("calibrate --no-pch-cache --format json --cache-dir " +
-                                        shell_quote(cache.path() + "/c"),
+                                        shell_quote(cache.path() + "/c") + " --policy " +
+                                        shell_quote(cache.path() + "/all.yaml"),
                                     h.dir.path());
     REQUIRE(again.exit_code == 0);
     const auto second = nlohmann::json::parse(again.out);

@@ -57,7 +57,7 @@ TEST_CASE("make_demo_repo.sh builds a history the gate blocks once and passes on
         REQUIRE(report["functions"].size() == 1);
         CHECK(report["functions"][0]["function"] == "com.skyline.ground.FrameDecoder.decode");
         CHECK(report["functions"][0]["label"] == "changed");
-        CHECK(report["convention"] == "c-family/1, java/1");
+        CHECK(report["convention"] == "c-family/2, java/1");
     }
     SECTION("the builder refuses a folder that is not empty") {
         const auto again =

@@ -280,8 +280,8 @@ TEST_CASE("tollgate hook reports misuse with exit 2", "[hook]") {
     SECTION("install outside a repository names the folder") {
         const auto result = run_tollgate("hook install", dir.path());
         CHECK(result.exit_code == 2);
-        CHECK(result.err == "tollgate: error: not in a git repository: \"" + dir.path() +
-                                "\" (run \"tollgate hook\" inside the repository)\n");
+        CHECK(result.err == "tollgate: error: not a git repository: \"" + dir.path() +
+                                "\" (run inside a git work tree, or name one with -C DIR)\n");
     }
     SECTION("run with input that is not git's names the line") {
         init_repo(dir.path());

@@ -99,7 +99,7 @@ TEST_CASE("check judges a change to C++ and Java with one report and one verdict
                           "           effort +") != std::string::npos);
 
     const auto report = nlohmann::json::parse(read_text(dir.path() + "/report.json"));
-    CHECK(report["convention"] == "c-family/1, java/1");
+    CHECK(report["convention"] == "c-family/2, java/1");
     std::vector<std::string> functions;
     for (const auto& f : report["functions"]) {
         functions.push_back(f["label"].get<std::string>() + " " + f["function"].get<std::string>());
@@ -118,7 +118,7 @@ TEST_CASE("check judges a change to C++ and Java with one report and one verdict
     const std::string markdown = read_text(dir.path() + "/report.md");
     CHECK(markdown.find("Calibration.apply") != std::string::npos);
     CHECK(markdown.find("scale") != std::string::npos);
-    CHECK(markdown.find("convention c-family/1, java/1") != std::string::npos);
+    CHECK(markdown.find("convention c-family/2, java/1") != std::string::npos);
 }
 
 TEST_CASE("check applies the policy's path globs and overrides to Java paths", "[java]") {
@@ -159,7 +159,7 @@ TEST_CASE("snapshot records both conventions and check takes the Java base from 
     INFO(made.out << made.err);
     REQUIRE(made.exit_code == 0);
     const auto snapshot = nlohmann::json::parse(read_text(dir.path() + "/base.json"));
-    CHECK(snapshot["convention"] == "c-family/1, java/1");
+    CHECK(snapshot["convention"] == "c-family/2, java/1");
     std::vector<std::string> names;
     for (const auto& f : snapshot["functions"]) {
         names.push_back(f["function"].get<std::string>());
@@ -179,10 +179,10 @@ TEST_CASE("snapshot records both conventions and check takes the Java base from 
                               "           effort +") != std::string::npos);
     }
     SECTION("a snapshot counted without Java is not used; the warning names the rebuild") {
-        // What a build without the Java front end writes: C/C++ functions only, c-family/1.
+        // What a build without the Java front end writes: C/C++ functions only, c-family/2.
         std::vector<tollgate::lexer::FileFunctions> files(1);
         files[0].path = "firmware/scale.cpp";
-        const auto old = tollgate::baseline::make_snapshot(files, snapshot["commit"], "c-family/1",
+        const auto old = tollgate::baseline::make_snapshot(files, snapshot["commit"], "c-family/2",
                                                            {}, "2026-01-01T00:00:00Z");
         tollgate::baseline::save_snapshot(old, dir.path() + "/old.json");
         const auto result =
@@ -194,8 +194,8 @@ TEST_CASE("snapshot records both conventions and check takes the Java base from 
         // parsed and the verdict is the change's own.
         CHECK(result.exit_code == 1);
         CHECK(result.err.find("tollgate: warning: the baseline snapshot old.json is not used: it "
-                              "was measured under convention \"c-family/1\", this run counts "
-                              "\"c-family/1, java/1\"; the base was parsed (rebuild it: "
+                              "was measured under convention \"c-family/2\", this run counts "
+                              "\"c-family/2, java/1\"; the base was parsed (rebuild it: "
                               "tollgate snapshot --rev " +
                               h.base.substr(0, 7) + " --out old.json)") != std::string::npos);
     }

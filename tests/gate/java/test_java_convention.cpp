@@ -230,9 +230,9 @@ TEST_CASE("lex_java_file honours the convention switches", "[java]") {
     SECTION("the fingerprint names java/1 with the same suffixes") {
         CHECK(core::java_fingerprint(body_only) == "java/1+body-only");
         CHECK(core::combined_fingerprint(merged, true) ==
-              "c-family/1+merged-forms, java/1+merged-forms");
-        CHECK(core::combined_fingerprint({}, false) == "c-family/1");
-        CHECK(java::build_fingerprint({}) == "c-family/1, java/1");
+              "c-family/2+merged-forms, java/1+merged-forms");
+        CHECK(core::combined_fingerprint({}, false) == "c-family/2");
+        CHECK(java::build_fingerprint({}) == "c-family/2, java/1");
     }
 }
 

@@ -43,7 +43,8 @@ TEST_CASE("tollgate policy validates a policy file", "[policy]") {
                             "  - id: g\n    kind: growth\n    measure: volume\n"
                             "    max-increase-percent: 10\n    level: blocking\n"
                             "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                            "waivers: []\nbaseline:\n  grandfather: true\n");
+                            "waivers: []\nbaseline:\n  grandfather: true\n"
+                            "inactive-code: judge\nunmeasured-lines: off\n");
     }
     SECTION("without a file, .tollgate.yaml at the repository root is read") {
         dir.write(".tollgate.yaml", "tollgate-policy: 1\njudge-with: head\n");
@@ -70,7 +71,8 @@ TEST_CASE("tollgate policy validates a policy file", "[policy]") {
     SECTION("a missing file is exit 2") {
         const auto result = run_tollgate("policy missing.yaml", dir.path());
         CHECK(result.exit_code == 2);
-        CHECK(result.err == "tollgate: error: cannot read policy file \"missing.yaml\" (check the "
-                            "path, or run \"tollgate policy --default\" for a start)\n");
+        CHECK(result.err == "tollgate: error: cannot read policy file \"missing.yaml\": no such "
+                            "file or directory (check the path, or run \"tollgate policy "
+                            "--default\" for a start)\n");
     }
 }

@@ -247,8 +247,9 @@ rules:
 
 TEST_CASE("load_policy_file names the file it cannot read", "[policy]") {
     CHECK_THROWS_WITH(load_policy_file("/nonexistent/tollgate.yaml"),
-                      "cannot read policy file \"/nonexistent/tollgate.yaml\" (check the path, or "
-                      "run \"tollgate policy --default\" for a start)");
+                      "cannot read policy file \"/nonexistent/tollgate.yaml\": no such file or "
+                      "directory (check the path, or run \"tollgate policy --default\" for a "
+                      "start)");
 }
 
 TEST_CASE("describe_policy writes YAML that loads back to the same policy", "[policy]") {
@@ -278,7 +279,8 @@ baseline: {path: "snap shot.json", grandfather: false}
         const std::string minimal = describe_policy(load_policy("tollgate-policy: 1\n", "m"));
         CHECK(minimal == "tollgate-policy: 1\njudge-with: base\nnoise-floor: {}\nrules: []\n"
                          "paths:\n  include: [\"**\"]\n  exclude: []\n  overrides: []\n"
-                         "waivers: []\nbaseline:\n  grandfather: true\n");
+                         "waivers: []\nbaseline:\n  grandfather: true\n"
+                         "inactive-code: judge\nunmeasured-lines: off\n");
     }
 }
 

@@ -83,6 +83,12 @@ TEST_CASE("summarise_diagnostics groups warnings by missing header", "[report]")
     CHECK(report::missing_header_of("'x.h' file not found with <angled> include; use \"quotes\" "
                                     "instead") == "x.h");
     CHECK(report::missing_header_of("unknown type name 'uint8'").empty());
+    // The lexer's own wording of a missing or refused include (gate/lexer/parse_diagnostics.cpp).
+    CHECK(report::missing_header_of("include \"hal.h\" not found (only the revision's files, the "
+                                    "system include folders and those of a compile database "
+                                    "given with --compile-commands are read)") == "hal.h");
+    CHECK(report::missing_header_of("in \"inc/x.h\": include \"cfg.h\" not found (...)") ==
+          "cfg.h");
 
     const std::vector<delta::ChangeWarning> warnings = {
         {"head", "src/a.c", 1, "'hal.h' file not found"},
@@ -110,13 +116,15 @@ TEST_CASE("summarise_diagnostics groups warnings by missing header", "[report]")
         CHECK(report::compile_database_hint(report, summary) ==
               "3 files were parsed without a compile database: to parse with the build's flags, "
               "give one with --compile-commands PATH (CMake writes it with "
-              "-DCMAKE_EXPORT_COMPILE_COMMANDS=ON)");
+              "-DCMAKE_EXPORT_COMPILE_COMMANDS=ON); or name the folders of headers not in the "
+              "repository with --include-dir DIR");
         report.compile_database = true;
         report.files_without_compile_flags = 1;
         CHECK(report::compile_database_hint(report, summary)
                   .rfind("1 file had no entry in the compile database: ", 0) == 0);
         report.files_without_compile_flags = 0;
-        CHECK(report::compile_database_hint(report, summary).empty());
+        // Every file had flags, but headers were missing: how to name their folders.
+        CHECK(report::compile_database_hint(report, summary) == report::include_folder_hint());
         report.files_without_compile_flags = 2;
         CHECK(report::compile_database_hint(report, report::summarise_diagnostics({})).empty());
     }

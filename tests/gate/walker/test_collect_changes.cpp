@@ -3,6 +3,7 @@
 #include "gate/walker/change_set.hpp"
 #include "walker_support.hpp"
 
+#include <algorithm>
 #include <catch2/catch.hpp>
 #include <cstdio>
 #include <filesystem>
@@ -480,4 +481,74 @@ TEST_CASE("collect_changes from a feature branch with the default base", "[walke
     REQUIRE(changes.files.size() == 1);
     CHECK(changes.files[0].head_path == "feature.cpp");
     check_against_git(changes, root, "main...HEAD");
+}
+
+TEST_CASE("collect_changes leaves files over the size limit unread", "[walker]") {
+    TempDir dir;
+    const std::string root = dir.path();
+    init_repo(root);
+    dir.write("small.c", numbered_lines(3));
+    dir.write("grows.c", numbered_lines(3));
+    dir.write("data/old.bin", std::string(600, 'a'));
+    dir.write("gen/old_table.c", numbered_lines(45));
+    const std::string base = commit_all(root, "base");
+    dir.write("small.c", numbered_lines(4));
+    dir.write("grows.c", numbered_lines(40)); // 3 lines (45 bytes) to 40 (about 600 bytes)
+    fs::remove(fs::path(root) / "data/old.bin");
+    dir.write("data/new.bin", std::string(600, 'a') + "b");
+    fs::remove(fs::path(root) / "gen/old_table.c");
+    dir.write("gen/new_table.c", numbered_lines(45) + "int more;\n");
+    const std::string head = commit_all(root, "head");
+    const Repository repo = Repository::open(root);
+    ChangeOptions options;
+    options.max_file_size = 500;
+    const ChangeSet changes = changes_between(repo, base, head, options);
+
+    SECTION("a changed C/C++ file with a side over the limit is skipped with its size") {
+        REQUIRE(changes.files.size() == 1);
+        CHECK(changes.files[0].head_path == "small.c");
+        const std::vector<SkippedFile> expected = {
+            {"data/old.bin", "", SkipReason::not_c_family, 0},
+            {"", "data/new.bin", SkipReason::not_c_family, 0},
+            {"gen/old_table.c", "", SkipReason::too_large, numbered_lines(45).size()},
+            {"", "gen/new_table.c", SkipReason::too_large, numbered_lines(45).size() + 10},
+            {"grows.c", "grows.c", SkipReason::too_large, numbered_lines(40).size()},
+        };
+        std::vector<SkippedFile> sorted = changes.skipped;
+        std::sort(sorted.begin(), sorted.end(), [](const SkippedFile& a, const SkippedFile& b) {
+            return (a.head_path.empty() ? a.base_path : a.head_path) <
+                   (b.head_path.empty() ? b.base_path : b.head_path);
+        });
+        std::vector<SkippedFile> want = expected;
+        std::sort(want.begin(), want.end(), [](const SkippedFile& a, const SkippedFile& b) {
+            return (a.head_path.empty() ? a.base_path : a.head_path) <
+                   (b.head_path.empty() ? b.base_path : b.head_path);
+        });
+        CHECK(sorted == want);
+    }
+    SECTION("oversized files are kept out of rename detection, which would read them whole") {
+        // Under no limit the same history pairs both moves as renames (git agrees).
+        ChangeOptions unbounded;
+        unbounded.max_file_size = 0;
+        const ChangeSet all = changes_between(repo, base, head, unbounded);
+        const auto reference = git_reference_diff(root, base + " " + head);
+        CHECK(reference.at("gen/new_table.c").status == ChangeStatus::renamed);
+        bool renamed = false;
+        for (const auto& file : all.files) {
+            renamed = renamed ||
+                      (file.status == ChangeStatus::renamed && file.head_path == "gen/new_table.c");
+        }
+        CHECK(renamed);
+        for (const auto& file : changes.files) {
+            CHECK(file.status != ChangeStatus::renamed);
+        }
+    }
+    SECTION("read_side_tree lists what it leaves unread") {
+        std::vector<tollgate::OversizedFile> oversized;
+        const auto files = read_side_tree(repo, changes, Side::head, &oversized);
+        CHECK(paths_of(files) == std::vector<std::string>{"small.c"});
+        CHECK(oversized == std::vector<tollgate::OversizedFile>{
+                               {"gen/new_table.c", numbered_lines(45).size() + 10},
+                               {"grows.c", numbered_lines(40).size()}});
+    }
 }

@@ -48,9 +48,10 @@ TEST_CASE("Repository::open", "[walker]") {
     }
     SECTION("a folder outside any repository is a usage error naming it") {
         TempDir outside;
-        CHECK_THROWS_MATCHES(Repository::open(outside.path()), UsageError,
-                             Catch::Message("not a git repository: \"" + outside.path() +
-                                            "\" (run inside a git work tree or pass --repo)"));
+        CHECK_THROWS_MATCHES(
+            Repository::open(outside.path()), UsageError,
+            Catch::Message("not a git repository: \"" + outside.path() +
+                           "\" (run inside a git work tree, or name one with -C DIR)"));
     }
 }
 

@@ -7,7 +7,7 @@
 namespace tollgate::core {
 
 // The name and version of the default counting convention.
-inline constexpr const char* k_convention_name = "c-family/1";
+inline constexpr const char* k_convention_name = "c-family/2";
 
 // The name and version of the counting convention for Java (core/README.md, "java/1").
 inline constexpr const char* k_java_convention_name = "java/1";
@@ -24,7 +24,7 @@ struct Convention {
     }
 };
 
-// Return the fingerprint of `convention`: "c-family/1" for the default, followed by
+// Return the fingerprint of `convention`: "c-family/2" for the default, followed by
 // "+name-operand", "+body-only", "+merged-forms" for each switch that is on.
 std::string fingerprint(const Convention& convention);
 
@@ -33,7 +33,7 @@ std::string fingerprint(const Convention& convention);
 std::string java_fingerprint(const Convention& convention);
 
 // Return the fingerprint of a run that counts C/C++ and, when `with_java`, Java under
-// `convention`: "c-family/1" alone, or "c-family/1, java/1" (each with its switch suffixes).
+// `convention`: "c-family/2" alone, or "c-family/2, java/1" (each with its switch suffixes).
 std::string combined_fingerprint(const Convention& convention, bool with_java);
 
 } // namespace tollgate::core
