@@ -30,6 +30,7 @@ CalibrationScope choose_scope(const walker::Repository& repository, const walker
     if (!draft_path.empty()) {
         scope.policy = policy::load_policy_file(draft_path);
         scope.origin = draft_path;
+        scope.draft = true;
     } else if (!history.commits.empty()) {
         const auto& tip = history.commits.back().id;
         if (const auto file = repository.read_file(tip, policy::k_default_policy_path)) {
@@ -54,7 +55,12 @@ CalibrationScope choose_scope(const walker::Repository& repository, const walker
         }
     }
     scope.vendored = find_vendored(std::vector<std::string>(paths.begin(), paths.end()));
-    if (handling == VendoredHandling::exclude) {
+    exclude_vendored(scope);
+    return scope;
+}
+
+void exclude_vendored(CalibrationScope& scope) {
+    if (scope.handling == VendoredHandling::exclude) {
         auto& exclude = scope.policy.paths.exclude;
         for (const auto& folder : scope.vendored) {
             const std::string glob = folder_glob(folder.path);
@@ -65,7 +71,6 @@ CalibrationScope choose_scope(const walker::Repository& repository, const walker
             }
         }
     }
-    return scope;
 }
 
 bool keep_changed_file(const CalibrationScope& scope, const walker::ChangedFile& file) {

@@ -27,6 +27,7 @@ struct CalibrationScope {
     std::string origin;    // e.g. "draft.yaml", ".tollgate.yaml at 3f2a91c", "built-in default"
     std::vector<VendoredFolder> vendored; // folders that look vendored, sorted by path
     VendoredHandling handling = VendoredHandling::exclude; // whether `vendored` is left out
+    bool draft = false; // the policy is a draft given with --policy (then judged as a what-if)
 };
 
 // Return the scope of a calibration of `history` in `repository`: the policy is the file at
@@ -36,6 +37,10 @@ struct CalibrationScope {
 // PolicyError when the chosen policy is broken, Failure when a tree cannot be read.
 CalibrationScope choose_scope(const walker::Repository& repository, const walker::History& history,
                               const std::string& draft_path, VendoredHandling handling);
+
+// Add to `scope.policy.paths.exclude` a glob (folder_glob) for each folder of `scope.vendored`
+// the policy does not already leave out, when `scope.handling` excludes them. Never fails.
+void exclude_vendored(CalibrationScope& scope);
 
 // Return whether `file` is measured under `scope`: outside every excluded vendored folder, and
 // inside the policy's paths on its head or base side (the judge then decides per function).

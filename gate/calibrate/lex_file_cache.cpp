@@ -227,47 +227,13 @@ std::string LexFileCache::entry_path(const std::string& key) const {
     return (fs::path(m_dir) / key.substr(0, 2) / (key.substr(2) + ".json")).string();
 }
 
-std::optional<lexer::FileFunctions> LexFileCache::find(const SourceFile& file,
-                                                       const lexer::ParseContext& context) {
-    const std::string blob = content_key(file.content);
-    if (m_dir.empty()) {
-        std::lock_guard<std::mutex> lock(m_mutex);
-        ++m_counts.visits;
-        ++m_counts.parses;
-        if (m_blobs.insert(blob).second) {
-            ++m_counts.distinct_blobs;
-        }
-        return std::nullopt;
-    }
-    const std::string key = lex_cache_key(file, context);
-    const auto me = std::this_thread::get_id();
-    {
-        std::unique_lock<std::mutex> lock(m_mutex);
-        ++m_counts.visits;
-        if (m_blobs.insert(blob).second) {
-            ++m_counts.distinct_blobs;
-        }
-        const bool holds_any = std::any_of(m_in_flight.begin(), m_in_flight.end(),
-                                           [&](const auto& entry) { return entry.second == me; });
-        if (!holds_any) {
-            // Bounded: a worker that failed mid-parse never stores, and the run is ending then.
-            m_stored.wait_for(lock, std::chrono::seconds(30),
-                              [&] { return m_in_flight.count(key) == 0; });
-        }
-    }
-    const auto miss = [&](bool damaged) -> std::optional<lexer::FileFunctions> {
-        std::lock_guard<std::mutex> lock(m_mutex);
-        if (damaged) {
-            ++m_counts.damaged;
-        }
-        ++m_counts.parses;
-        m_in_flight.emplace(key, me);
-        return std::nullopt;
-    };
+std::optional<lexer::FileFunctions> LexFileCache::read_entry(const std::string& key,
+                                                             bool& damaged) const {
+    damaged = false;
     const std::string path = entry_path(key);
     std::ifstream in(path, std::ios::binary);
     if (!in) {
-        return miss(false);
+        return std::nullopt;
     }
     try {
         const json entry = json::parse(in);
@@ -280,12 +246,110 @@ std::optional<lexer::FileFunctions> LexFileCache::find(const SourceFile& file,
         // harmless.
         std::error_code stamp_error;
         fs::last_write_time(path, fs::file_time_type::clock::now(), stamp_error);
-        std::lock_guard<std::mutex> lock(m_mutex);
-        ++m_counts.hits;
         return functions;
     } catch (const std::exception&) {
-        return miss(true);
+        damaged = true;
+        return std::nullopt;
     }
+}
+
+lexer::Lookup LexFileCache::lookup(const SourceFile& file, const lexer::ParseContext& context) {
+    const std::string blob = content_key(file.content);
+    lexer::Lookup result;
+    if (m_dir.empty()) {
+        // No folder: nothing is claimed or kept, every lookup is a counted miss.
+        std::lock_guard<std::mutex> lock(m_mutex);
+        ++m_counts.visits;
+        ++m_counts.parses;
+        if (m_blobs.insert(blob).second) {
+            ++m_counts.distinct_blobs;
+        }
+        result.state = lexer::LookupState::claimed;
+        return result;
+    }
+    const std::string key = lex_cache_key(file, context);
+    {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        ++m_counts.visits;
+        if (m_blobs.insert(blob).second) {
+            ++m_counts.distinct_blobs;
+        }
+        if (m_in_flight.count(key) != 0) {
+            ++m_waiting[key];
+            result.state = lexer::LookupState::pending;
+            return result;
+        }
+        // Claimed before the disk is read, so that no other thread parses it meanwhile.
+        m_in_flight.emplace(key, std::this_thread::get_id());
+    }
+    bool damaged = false;
+    result.functions = read_entry(key, damaged);
+    if (result.functions) {
+        {
+            std::lock_guard<std::mutex> lock(m_mutex);
+            ++m_counts.hits;
+        }
+        release(key, &*result.functions);
+        result.state = lexer::LookupState::found;
+        return result;
+    }
+    std::lock_guard<std::mutex> lock(m_mutex);
+    if (damaged) {
+        ++m_counts.damaged;
+    }
+    ++m_counts.parses;
+    result.state = lexer::LookupState::claimed;
+    return result;
+}
+
+lexer::Lookup LexFileCache::await(const SourceFile& file, const lexer::ParseContext& context) {
+    const std::string key = lex_cache_key(file, context);
+    lexer::Lookup result;
+    std::unique_lock<std::mutex> lock(m_mutex);
+    // A safety valve, not a path taken: holders always release (see lex_with_cache).
+    m_stored.wait_for(lock, std::chrono::minutes(10),
+                      [&] { return m_handoff.count(key) != 0 || m_in_flight.count(key) == 0; });
+    const auto handed = m_handoff.find(key);
+    auto waiting = m_waiting.find(key);
+    const bool last = waiting == m_waiting.end() || --waiting->second == 0;
+    if (last && waiting != m_waiting.end()) {
+        m_waiting.erase(waiting);
+    }
+    if (handed != m_handoff.end()) {
+        result.functions = last ? std::move(handed->second) : handed->second;
+        if (last) {
+            m_handoff.erase(handed);
+        }
+        ++m_counts.hits;
+        result.state = lexer::LookupState::found;
+        return result;
+    }
+    // The holder gave up (a failure or a timed-out parse it did not share): this caller parses.
+    m_in_flight[key] = std::this_thread::get_id();
+    ++m_counts.parses;
+    result.state = lexer::LookupState::claimed;
+    return result;
+}
+
+std::optional<lexer::FileFunctions> LexFileCache::find(const SourceFile& file,
+                                                       const lexer::ParseContext& context) {
+    lexer::Lookup result = lookup(file, context);
+    if (result.state == lexer::LookupState::pending) {
+        result = await(file, context);
+    }
+    return std::move(result.functions);
+}
+
+void LexFileCache::release(const std::string& key, const lexer::FileFunctions* functions) {
+    {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        m_in_flight.erase(key);
+        const auto waiting = m_waiting.find(key);
+        if (functions != nullptr && waiting != m_waiting.end() && waiting->second > 0) {
+            m_handoff[key] = *functions;
+        }
+    }
+    m_stored.notify_all();
 }
 
 void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& context,
@@ -325,12 +389,8 @@ void LexFileCache::store(const SourceFile& file, const lexer::ParseContext& cont
             ++m_writes;
         }
         writes = m_writes;
-        const auto owner = m_in_flight.find(key);
-        if (owner != m_in_flight.end() && owner->second == std::this_thread::get_id()) {
-            m_in_flight.erase(owner);
-        }
     }
-    m_stored.notify_all();
+    release(key, &functions); // waiters get it from memory, written or not
     if (written && m_pause_after != 0 && writes >= m_pause_after) {
         // Test hook: leave a half-written temporary file behind, then wait to be killed.
         std::ofstream half(fs::path(m_dir) / "tmp.paused.part", std::ios::binary);
@@ -415,20 +475,22 @@ Eviction LexFileCache::evict(const CacheLimits& limits) {
 }
 
 void LexFileCache::abandon(const SourceFile& file, const lexer::ParseContext& context) {
-    const std::string key = lex_cache_key(file, context);
-    {
-        std::lock_guard<std::mutex> lock(m_mutex);
-        const auto owner = m_in_flight.find(key);
-        if (owner != m_in_flight.end() && owner->second == std::this_thread::get_id()) {
-            m_in_flight.erase(owner);
-        }
-    }
-    m_stored.notify_all();
+    release(lex_cache_key(file, context), nullptr);
+}
+
+void LexFileCache::share(const SourceFile& file, const lexer::ParseContext& context,
+                         const lexer::FileFunctions& functions) {
+    release(lex_cache_key(file, context), &functions);
 }
 
 CacheCounts LexFileCache::counts() const {
     std::lock_guard<std::mutex> lock(m_mutex);
     return m_counts;
+}
+
+std::vector<std::string> LexFileCache::blob_keys() const {
+    std::lock_guard<std::mutex> lock(m_mutex);
+    return {m_blobs.begin(), m_blobs.end()};
 }
 
 } // namespace tollgate::calibrate

@@ -12,6 +12,7 @@
 #include <set>
 #include <string>
 #include <thread>
+#include <vector>
 
 namespace tollgate::calibrate {
 
@@ -67,12 +68,14 @@ struct Eviction {
 // A LexCache in a folder: each entry is `DIR/xx/<key>.json` (format "tollgate.lexcache/3", every
 // text kept losslessly with text::store_bytes, so a file of any bytes reads back the same),
 // written to a temporary file and renamed into place, so a killed run leaves whole entries or
-// none. Entries that do not parse or whose recorded key differs are ignored and rewritten. A hit
-// stamps the entry's modification time, which evict() reads as its last use.
-// Thread-safe: a lookup of a key that another thread is parsing waits for its entry (unless the
-// asking thread is itself parsing something, which could deadlock), so parallel workers parse
-// each key once. Processes may share a folder: entries appear by rename and vanish by unlink, so
-// a reader sees a whole entry or none, and a removed entry is only parsed again.
+// none, and processes may share the folder: entries appear by rename and vanish by unlink, so a
+// reader sees a whole entry or none, and a removed entry is only parsed again. Entries that do not
+// parse or whose recorded key differs are ignored and rewritten. A hit stamps the entry's
+// modification time, which evict() reads as its last use.
+// Thread-safe, and each key is parsed at most once per instance: the first lookup of a key
+// claims it (even while it reads the disk); a later lookup of a claimed key answers pending
+// instead of parsing it again, and await hands it the holder's result (kept in memory only until
+// every waiter has it).
 class LexFileCache : public lexer::LexCache {
 public:
     // Use folder `dir` (created when missing). Throws Failure `cannot create cache folder "DIR":
@@ -99,19 +102,33 @@ public:
                const lexer::FileFunctions& functions) override;
     // Release the key of `file` and `context` without writing an entry.
     void abandon(const SourceFile& file, const lexer::ParseContext& context) override;
+    // Return the entry, or claim the key, or say another thread holds it (never waits).
+    lexer::Lookup lookup(const SourceFile& file, const lexer::ParseContext& context) override;
+    // Wait for a key another thread holds: its result, or the claim when it gave up.
+    lexer::Lookup await(const SourceFile& file, const lexer::ParseContext& context) override;
+    // Hand `functions` to the waiters of the key and release it without writing an entry.
+    void share(const SourceFile& file, const lexer::ParseContext& context,
+               const lexer::FileFunctions& functions) override;
 
     // Return the counts so far.
     CacheCounts counts() const;
+    // Return the content keys (content_key) of the distinct file contents visited so far, sorted.
+    std::vector<std::string> blob_keys() const;
     // Return the folder.
     const std::string& dir() const { return m_dir; }
 
 private:
     std::string entry_path(const std::string& key) const;
+    std::optional<lexer::FileFunctions> read_entry(const std::string& key, bool& damaged) const;
+    // Release `key`, handing `functions` (when not null) to its waiters; then wake them.
+    void release(const std::string& key, const lexer::FileFunctions* functions);
 
     std::string m_dir;
     mutable std::mutex m_mutex;
-    std::condition_variable m_stored;                   // signalled after each store
-    std::map<std::string, std::thread::id> m_in_flight; // keys being parsed, by whom
+    std::condition_variable m_stored;                      // signalled after each store
+    std::map<std::string, std::thread::id> m_in_flight;    // keys claimed (read or parsed), by whom
+    std::map<std::string, std::size_t> m_waiting;          // keys awaited, by how many threads
+    std::map<std::string, lexer::FileFunctions> m_handoff; // results for those waiters
     CacheCounts m_counts;
     std::set<std::string> m_blobs;
     std::uint64_t m_writes = 0;      // entries written this run

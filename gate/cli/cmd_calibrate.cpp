@@ -6,6 +6,7 @@
 #include "gate/calibrate/distribution.hpp"
 #include "gate/calibrate/lex_file_cache.hpp"
 #include "gate/calibrate/replay.hpp"
+#include "gate/calibrate/shard_replay.hpp"
 #include "gate/calibrate/suggested_policy.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/number_options.hpp"
@@ -16,6 +17,10 @@
 #include "gate/common/errors.hpp"
 #include "gate/common/output_file.hpp"
 #include "gate/common/progress.hpp"
+#include "gate/common/shard_spec.hpp"
+#include "gate/common/text_safety.hpp"
+#include "gate/java/java_front_end.hpp"
+#include "gate/lexer/isolation.hpp"
 #include "gate/lexer/lex_files.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/judge.hpp"
@@ -65,6 +70,9 @@ struct CalibrateOptions {
     double stroud = 18.0;                                  // --stroud
     std::size_t rename_limit = 400;                        // --rename-limit
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
+    unsigned preamble_units = 0;                           // --preamble-units
+    std::string shard;                                     // --shard K/N
+    std::vector<std::string> merge;                        // --merge PART...
     std::uint64_t cache_max_size = calibrate::k_default_cache_bytes; // --cache-max-size
     unsigned cache_max_age = calibrate::k_default_cache_days;        // --cache-max-age
 };
@@ -151,19 +159,97 @@ std::unique_ptr<calibrate::LexFileCache> open_cache(const std::string& dir) {
     }
 }
 
+int report_replay(const CalibrateOptions& options, const calibrate::Replay& replay,
+                  calibrate::CalibrationScope scope, const calibrate::CacheCounts& cache_counts,
+                  double seconds, unsigned threads);
+
+// Return the paths of the vendored folders of `scope`, for replay_identity.
+std::string vendored_folders(const calibrate::CalibrationScope& scope) {
+    std::string text;
+    for (const auto& folder : scope.vendored) {
+        text += (text.empty() ? "" : " ") + folder.path;
+    }
+    return text;
+}
+
+// The options and settings that decide a replay's result; every shard of one run must agree.
+std::map<std::string, std::string> replay_identity(const CalibrateOptions& options,
+                                                   const calibrate::ReplaySettings& settings,
+                                                   const calibrate::CalibrationScope& scope) {
+    return {{"range", options.range},
+            {"default-branch", options.default_branch},
+            {"max-commits", std::to_string(options.max_commits)},
+            {"since", options.since},
+            {"convention", java::build_fingerprint(settings.measure.convention)},
+            {"stroud", fmt::format("{}", options.stroud)},
+            {"rename-limit", std::to_string(options.rename_limit)},
+            {"max-file-size", std::to_string(options.max_file_size)},
+            {"compile-commands", calibrate::content_key(settings.measure.compile_commands_json)},
+            {"policy", calibrate::content_key(policy::describe_policy(scope.policy))},
+            {"draft-policy", scope.draft ? "given" : "none"},
+            {"keep-vendored", scope.handling == calibrate::VendoredHandling::keep ? "yes" : "no"},
+            {"vendored-folders", vendored_folders(scope)}};
+}
+
+// calibrate --merge: the parts' replays joined, then reported as one run reports, under the
+// scope the parts were measured with.
+int run_calibrate_merge(const CalibrateOptions& options) {
+    std::vector<calibrate::ReplayPart> parts;
+    for (const auto& path : options.merge) {
+        parts.push_back(calibrate::read_replay_part(path));
+    }
+    const calibrate::MergedReplay merged =
+        calibrate::merge_replay_parts(std::move(parts), options.merge);
+    calibrate::CalibrationScope scope = merged.scope;
+    if (!options.policy_path.empty()) {
+        // The draft decided which files the shards measured: it cannot change at the merge.
+        calibrate::CalibrationScope given = scope;
+        given.policy = policy::load_policy_file(options.policy_path);
+        calibrate::exclude_vendored(given);
+        if (!scope.draft ||
+            policy::describe_policy(given.policy) != policy::describe_policy(scope.policy)) {
+            throw UsageError("--policy \"" + text::terminal_text(options.policy_path) +
+                             "\" is not the policy the parts were measured with (give the same "
+                             "--policy to every shard)");
+        }
+        scope.origin = options.policy_path;
+    }
+    return report_replay(options, merged.replay, std::move(scope), merged.cache, merged.seconds,
+                         merged.threads);
+}
+
 int run_calibrate(const CalibrateOptions& options) {
     apply_isolation_options(options.isolation);
+    lexer::IsolationSettings isolation = lexer::current_isolation();
+    isolation.preamble_units = options.preamble_units;
+    lexer::set_isolation(isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
     }
-    const auto measures = parse_measures(options.measures);
+    // Checked before the replay, so a mistake costs nothing.
+    (void)parse_measures(options.measures);
     const ProgressMode progress_mode = parse_progress_mode(options.progress);
+    if (!options.policy_path.empty()) {
+        (void)policy::load_policy_file(options.policy_path);
+    }
     // Outputs that cannot be written fail now, not after the replay.
     if ((options.suggest || options.block_rate) && !options.out.empty() && options.out != "-") {
         check_writable("policy", options.out);
     }
     if (!options.html.empty()) {
         check_writable("HTML page", options.html);
+    }
+    if (!options.merge.empty()) {
+        return run_calibrate_merge(options);
+    }
+    std::optional<ShardSpec> shard;
+    if (!options.shard.empty()) {
+        shard = parse_shard_spec(options.shard, "--shard");
+        if (options.suggest || options.block_rate || !options.html.empty()) {
+            throw UsageError("--shard writes a partial result: give --suggest, "
+                             "--suggest-block-rate and --html to \"tollgate calibrate --merge\" "
+                             "instead");
+        }
     }
     const std::string repository_path = std::filesystem::current_path().string();
     const auto repository = walker::Repository::open(repository_path);
@@ -175,9 +261,12 @@ int run_calibrate(const CalibrateOptions& options) {
     if (!options.since.empty()) {
         query.since = parse_since(options.since);
     }
-    const walker::History history = walker::first_parent_history(repository, query);
+    const walker::History full_history = walker::first_parent_history(repository, query);
+    const walker::History history =
+        shard ? calibrate::shard_history(full_history, *shard) : full_history;
+    // Chosen for the whole history, so that every shard measures what one whole run measures.
     calibrate::CalibrationScope scope =
-        calibrate::choose_scope(repository, history, options.policy_path,
+        calibrate::choose_scope(repository, full_history, options.policy_path,
                                 options.keep_vendored ? calibrate::VendoredHandling::keep
                                                       : calibrate::VendoredHandling::exclude);
 
@@ -233,6 +322,35 @@ int run_calibrate(const CalibrateOptions& options) {
                   evicted.kept_entries, format_byte_size(evicted.kept_bytes),
                   evicted.removed_entries);
 
+    const double seconds =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    if (shard) { // a partial result for calibrate --merge, on stdout
+        calibrate::ReplayPart part;
+        part.shard = *shard;
+        part.tool_version = TOLLGATE_VERSION;
+        part.settings = replay_identity(options, settings, scope);
+        part.history = full_history;
+        part.scope = std::move(scope);
+        part.replay = std::move(replay);
+        part.cache = cache->counts();
+        part.blobs = cache->blob_keys();
+        part.seconds = seconds;
+        part.threads = settings.threads;
+        std::cout << calibrate::replay_part_to_json(part);
+        return part.replay.end == calibrate::ReplayEnd::interrupted
+                   ? 130
+                   : static_cast<int>(ExitCode::pass);
+    }
+    return report_replay(options, replay, std::move(scope), cache->counts(), seconds,
+                         settings.threads);
+}
+
+// Judge, summarise and write a finished replay as `options` ask; shared by a whole run and
+// calibrate --merge.
+int report_replay(const CalibrateOptions& options, const calibrate::Replay& replay,
+                  calibrate::CalibrationScope scope, const calibrate::CacheCounts& cache_counts,
+                  double seconds, unsigned threads) {
+    const auto measures = parse_measures(options.measures);
     calibrate::Calibration calibration;
     std::vector<std::vector<std::string>> dropped;
     for (const auto& commit : replay.commits) {
@@ -242,14 +360,13 @@ int run_calibrate(const CalibrateOptions& options) {
     calibration.replay = &replay;
     calibration.scope = &scope;
     calibration.distributions = calibrate::distribute(replay, measures, &scope.policy);
-    calibration.cache = cache->counts();
-    calibration.seconds =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    calibration.threads = settings.threads;
+    calibration.cache = cache_counts;
+    calibration.seconds = seconds;
+    calibration.threads = threads;
     policy::JudgeOptions judge_options;
     judge_options.today = policy::current_date();
     judge_options.policy_origin = scope.origin;
-    if (!options.policy_path.empty()) {
+    if (scope.draft) {
         calibration.what_if = calibrate::what_if(replay, scope.policy, judge_options);
     }
     std::string suggestion_text;
@@ -311,18 +428,21 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
         "commit's .tollgate.yaml, else of the built-in default, are honoured, and folders that "
         "look like bundled third-party code are left out unparsed. Progress goes to stderr; "
         "Ctrl-C stops and prints the partial result (exit 130).");
-    sub.add_option("--range", options->range,
-                   "A..B: the first-parent commits of B not reachable from A (default: the "
-                   "default branch)");
-    sub.add_option("--default-branch", options->default_branch,
-                   "Branch replayed when --range is not given (default: the remote's HEAD, else "
-                   "main, else master)");
-    sub.add_option("--max-commits", options->max_commits,
-                   "Replay only the newest N commits (0 = all)")
-        ->check(whole_number(0, 10000000))
-        ->capture_default_str();
-    sub.add_option("--since", options->since,
-                   "Replay only commits made on or after this date (YYYY-MM-DD, UTC)");
+    auto* range =
+        sub.add_option("--range", options->range,
+                       "A..B: the first-parent commits of B not reachable from A (default: the "
+                       "default branch)");
+    auto* branch = sub.add_option(
+        "--default-branch", options->default_branch,
+        "Branch replayed when --range is not given (default: the remote's HEAD, else "
+        "main, else master)");
+    auto* max_commits = sub.add_option("--max-commits", options->max_commits,
+                                       "Replay only the newest N commits (0 = all)")
+                            ->check(whole_number(0, 10000000))
+                            ->capture_default_str();
+    auto* since =
+        sub.add_option("--since", options->since,
+                       "Replay only commits made on or after this date (YYYY-MM-DD, UTC)");
     sub.add_option("--measure", options->measures,
                    "Measure to show, repeatable (default: volume, difficulty, effort)");
     sub.add_option("--policy", options->policy_path,
@@ -343,9 +463,10 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
         ->check(real_number(0.0, 100.0))
         ->needs(block_rate);
     suggest->excludes(block_rate);
-    sub.add_flag("--keep-vendored", options->keep_vendored,
-                 "Measure folders that look like bundled third-party code too (by default they "
-                 "are left out, listed, and excluded in a suggested policy)");
+    auto* keep_vendored =
+        sub.add_flag("--keep-vendored", options->keep_vendored,
+                     "Measure folders that look like bundled third-party code too (by default they "
+                     "are left out, listed, and excluded in a suggested policy)");
     add_progress_option(sub, options->progress);
     sub.add_option("--out", options->out,
                    "Where --suggest or --suggest-block-rate writes the policy (default: stdout, "
@@ -381,6 +502,27 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     add_stroud_option(sub, options->stroud);
     add_rename_limit_option(sub, options->rename_limit);
     add_max_file_size_option(sub, options->max_file_size);
+    auto* max_file_size = sub.get_option("--max-file-size");
+    sub.add_option("--preamble-units", options->preamble_units,
+                   "Translation units each parser process keeps to reparse the next version of "
+                   "a file with its precompiled preamble (0 = parse every version from scratch)")
+        ->check(whole_number(0, 4096))
+        ->capture_default_str();
+    auto* shard = sub.add_option("--shard", options->shard,
+                                 "Replay only the K-th of N contiguous blocks of the history and "
+                                 "write a partial result (JSON) on stdout for --merge")
+                      ->type_name("K/N");
+    sub.add_option("--merge", options->merge,
+                   "Join the partial results of every shard and report them as one whole run "
+                   "would (no repository needed; --policy, when given, must be the shards' own)")
+        ->type_name("PART...")
+        ->excludes(shard)
+        ->excludes(range)
+        ->excludes(branch)
+        ->excludes(max_commits)
+        ->excludes(since)
+        ->excludes(keep_vendored)
+        ->excludes(max_file_size);
     sub.footer("Examples:\n"
                "  tollgate calibrate                                 the last 300 commits of "
                "the default branch\n"
@@ -389,7 +531,9 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
                "5% of commits\n"
                "  tollgate calibrate --suggest 95 --out draft.yaml   limits at the 95th "
                "percentile\n"
-               "  tollgate calibrate --range v1.0..main --format json --html calibrate.html");
+               "  tollgate calibrate --range v1.0..main --format json --html calibrate.html\n"
+               "  tollgate calibrate --shard 2/4 > part-2.json       one of four CI jobs\n"
+               "  tollgate calibrate --merge part-*.json --suggest 95   their joined result");
     sub.callback(
         [options, &selected] { selected = [options] { return run_calibrate(*options); }; });
 }

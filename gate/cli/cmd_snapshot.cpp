@@ -2,6 +2,7 @@
 // `tollgate snapshot`: write a baseline snapshot of a revision, or compare two snapshots.
 #include "gate/baseline/snapshot.hpp"
 #include "gate/baseline/snapshot_file.hpp"
+#include "gate/baseline/snapshot_shard.hpp"
 #include "gate/baseline/snapshot_trend.hpp"
 #include "gate/cli/commands.hpp"
 #include "gate/cli/number_options.hpp"
@@ -10,6 +11,7 @@
 #include "gate/common/errors.hpp"
 #include "gate/common/output_file.hpp"
 #include "gate/common/progress.hpp"
+#include "gate/common/shard_spec.hpp"
 #include "gate/common/text_safety.hpp"
 #include "gate/policy/policy.hpp"
 #include "gate/walker/repository.hpp"
@@ -18,7 +20,9 @@
 #include <filesystem>
 #include <fmt/format.h>
 #include <iostream>
+#include <map>
 #include <memory>
+#include <optional>
 #include <spdlog/spdlog.h>
 
 namespace fs = std::filesystem;
@@ -40,6 +44,8 @@ struct SnapshotOptions {
     std::vector<std::string> compare; // --compare BASE HEAD
     std::string format = "text";      // text or json, for --compare
     std::size_t top = 10;             // grown functions listed by --compare
+    std::string shard;                // --shard K/N
+    std::vector<std::string> merge;   // --merge PART...
     std::string progress = "auto";    // --progress
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
     std::vector<std::string> include_dirs;                 // --include-dir
@@ -57,8 +63,56 @@ std::string display_path(const fs::path& absolute) {
     return relative.string();
 }
 
+// The options besides commit, convention and Stroud number that decide a snapshot's functions;
+// every shard of one run must agree on them.
+std::map<std::string, std::string> snapshot_identity(const SnapshotOptions& options) {
+    std::string include_dirs;
+    for (const auto& folder : options.include_dirs) {
+        include_dirs += (include_dirs.empty() ? "" : "\n") + folder;
+    }
+    return {{"compile-commands", options.compile_commands},
+            {"include-dir", include_dirs},
+            {"max-file-size", std::to_string(options.max_file_size)}};
+}
+
+// snapshot --merge: the parts joined into the snapshot one run writes.
+int run_snapshot_merge(const SnapshotOptions& options) {
+    if (options.out.empty()) {
+        throw UsageError("--merge writes the joined snapshot to a file: give it with --out PATH");
+    }
+    const baseline::Overwrite overwrite =
+        options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
+    check_writable("snapshot", options.out);
+    baseline::check_replaceable(options.out, overwrite);
+    std::vector<baseline::SnapshotPart> parts;
+    std::size_t files = 0;
+    for (const auto& path : options.merge) {
+        parts.push_back(baseline::load_snapshot_part(path));
+        files += parts.back().files;
+    }
+    const baseline::Snapshot snapshot = baseline::merge_snapshot_parts(
+        std::move(parts), options.merge, baseline::current_utc_time());
+    baseline::save_snapshot(snapshot, options.out, overwrite);
+    std::cerr << fmt::format("tollgate: wrote {}: {} functions in {} files of commit {}, from {} "
+                             "parts\n",
+                             text::terminal_text(options.out), snapshot.functions.size(), files,
+                             snapshot.commit.substr(0, 7), options.merge.size());
+    return 0;
+}
+
 int run_snapshot(const SnapshotOptions& options) {
     apply_isolation_options(options.isolation);
+    if (!options.merge.empty()) {
+        return run_snapshot_merge(options);
+    }
+    std::optional<ShardSpec> shard;
+    if (!options.shard.empty()) {
+        shard = parse_shard_spec(options.shard, "--shard");
+        if (options.out.empty()) {
+            throw UsageError("--shard writes a part, not a snapshot: give its file with --out "
+                             "PATH");
+        }
+    }
     const walker::Repository repository = walker::Repository::open(fs::current_path().string());
     const walker::ObjectId commit = repository.resolve_commit(options.revision);
     // The measured revision's policy may say where its baseline lives.
@@ -83,9 +137,11 @@ int run_snapshot(const SnapshotOptions& options) {
     }
     const baseline::Overwrite overwrite =
         options.force ? baseline::Overwrite::anything : baseline::Overwrite::snapshots_only;
-    // Refuse before the expensive part, not after.
+    // Refuse before the expensive part, not after (a part replaces whatever is there).
     check_writable("snapshot", out_path);
-    baseline::check_replaceable(out_path, overwrite);
+    if (!shard) {
+        baseline::check_replaceable(out_path, overwrite);
+    }
 
     SnapshotRequest request;
     request.commit = commit.hex;
@@ -95,6 +151,7 @@ int run_snapshot(const SnapshotOptions& options) {
     request.include_dirs = options.include_dirs;
     request.jobs = options.jobs;
     request.stroud = options.stroud;
+    request.shard = shard;
     const ProgressMode progress_mode = parse_progress_mode(options.progress);
     ProgressMeter progress("snapshot", "files", progress_mode,
                            progress_style(progress_mode, stderr_is_terminal()), std::cerr,
@@ -107,6 +164,15 @@ int run_snapshot(const SnapshotOptions& options) {
     const SnapshotResult measured = snapshot_revision(request);
     progress.finish();
     const baseline::Snapshot& snapshot = measured.snapshot;
+    if (shard) {
+        baseline::save_snapshot_part({*shard, measured.files, snapshot, snapshot_identity(options)},
+                                     out_path);
+        std::cerr << fmt::format("tollgate: wrote part {} of commit {} to {}: {} functions in {} "
+                                 "files\n",
+                                 shard->text(), commit.short_hex(), text::terminal_text(out_path),
+                                 snapshot.functions.size(), measured.files);
+        return 0;
+    }
     baseline::save_snapshot(snapshot, out_path, overwrite);
 
     const std::size_t warnings = measured.warnings;
@@ -177,6 +243,18 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
                         ->expected(2)
                         ->type_name("BASE HEAD");
     compare->excludes(rev)->excludes(out)->excludes(force);
+    auto* shard = sub.add_option("--shard", options->shard,
+                                 "Measure only the files of the K-th of N shards (by a digest of "
+                                 "the path) and write a part to --out for --merge")
+                      ->type_name("K/N")
+                      ->excludes(compare);
+    sub.add_option("--merge", options->merge,
+                   "Join the parts of every shard into the snapshot one whole run writes, to "
+                   "--out (no repository needed)")
+        ->type_name("PART...")
+        ->excludes(shard)
+        ->excludes(compare)
+        ->excludes(rev);
     sub.add_option("--format", options->format, "Output format of --compare")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();
@@ -187,7 +265,9 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
     sub.footer("Examples:\n"
                "  tollgate snapshot                          HEAD into baselines/snapshot.json\n"
                "  tollgate snapshot --rev v1.2 --out v1.2.json\n"
-               "  tollgate snapshot --compare v1.2.json baselines/snapshot.json");
+               "  tollgate snapshot --compare v1.2.json baselines/snapshot.json\n"
+               "  tollgate snapshot --shard 1/3 --out part-1.json   one of three CI jobs\n"
+               "  tollgate snapshot --merge part-*.json --out baselines/snapshot.json");
     sub.callback([options, &selected] {
         selected = [options] {
             return options->compare.empty() ? run_snapshot(*options) : run_compare(*options);

@@ -9,6 +9,7 @@
 #include "gate/lexer/lex_files.hpp"
 #include "tollgate/core/convention.hpp"
 
+#include <algorithm>
 #include <atomic>
 
 namespace tollgate {
@@ -21,14 +22,26 @@ SnapshotResult snapshot_revision(const SnapshotRequest& request) {
     sources.no_cache = request.no_cache;
     sources.max_file_size = request.max_file_size;
     sources.include_dirs = request.include_dirs;
-    const LoadedSources loaded = load_sources(sources);
+    LoadedSources loaded = load_sources(sources);
+    if (request.shard) { // the shard's files only; every header stays in the context
+        auto& selected = loaded.selected;
+        selected.erase(std::remove_if(selected.begin(), selected.end(),
+                                      [&](const SourceFile& file) {
+                                          return shard_of_path(file.path, request.shard->count) !=
+                                                 request.shard->index - 1;
+                                      }),
+                       selected.end());
+    }
     std::atomic<std::size_t> done{0};
-    const auto files = lexer::lex_files(loaded.selected, loaded.context, request.jobs,
-                                        [&](const lexer::FileFunctions&) {
-                                            if (request.on_progress) {
-                                                request.on_progress(++done, loaded.selected.size());
-                                            }
-                                        });
+    const auto files =
+        loaded.selected.empty()
+            ? std::vector<lexer::FileFunctions>()
+            : lexer::lex_files(loaded.selected, loaded.context, request.jobs,
+                               [&](const lexer::FileFunctions&) {
+                                   if (request.on_progress) {
+                                       request.on_progress(++done, loaded.selected.size());
+                                   }
+                               });
 
     core::MeasureSettings settings;
     settings.stroud = request.stroud;

@@ -59,7 +59,30 @@ SideSources read_side_sources(const walker::Repository& repository,
     return sources;
 }
 
-// Lex `jobs`, taking what `settings.lex_cache` already holds and keeping what was parsed.
+// Releases, on the way out of an exception, the cache keys a caller claimed and did not store,
+// so that threads waiting for them take them over instead of waiting in vain.
+class ClaimGuard {
+public:
+    ClaimGuard(lexer::LexCache& cache, const std::vector<lexer::LexJob>& jobs)
+        : m_cache(cache), m_jobs(jobs) {}
+    ~ClaimGuard() {
+        for (const std::size_t j : m_claimed) {
+            m_cache.abandon(*m_jobs[j].file, *m_jobs[j].context);
+        }
+    }
+    ClaimGuard(const ClaimGuard&) = delete;
+    ClaimGuard& operator=(const ClaimGuard&) = delete;
+    std::vector<std::size_t>& claimed() { return m_claimed; }
+
+private:
+    lexer::LexCache& m_cache;
+    const std::vector<lexer::LexJob>& m_jobs;
+    std::vector<std::size_t> m_claimed;
+};
+
+// Lex `jobs`, taking what `settings.lex_cache` already holds and keeping what was parsed. A file
+// another worker is parsing is not parsed again: it is awaited once this worker has stored its
+// own claims (waiting while holding a claim could deadlock two workers).
 std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob>& jobs,
                                                  const MeasureChangeSettings& settings) {
     std::atomic<std::size_t> done{0};
@@ -73,30 +96,55 @@ std::vector<lexer::FileFunctions> lex_with_cache(const std::vector<lexer::LexJob
         total = jobs.size();
         return lexer::lex_jobs(jobs, settings.jobs, on_done);
     }
+    lexer::LexCache& cache = *settings.lex_cache;
     std::vector<lexer::FileFunctions> lexed(jobs.size());
-    std::vector<lexer::LexJob> missing;
-    std::vector<std::size_t> missing_index;
+    ClaimGuard guard(cache, jobs);
+    std::vector<std::size_t>& claimed = guard.claimed();
+    std::vector<std::size_t> pending;
+    const auto take = [&](std::size_t j, lexer::Lookup found) {
+        if (found.state == lexer::LookupState::found) {
+            lexed[j] = std::move(*found.functions);
+        } else if (found.state == lexer::LookupState::claimed) {
+            claimed.push_back(j);
+        } else {
+            pending.push_back(j);
+        }
+    };
     for (std::size_t j = 0; j < jobs.size(); ++j) {
-        if (auto found = settings.lex_cache->find(*jobs[j].file, *jobs[j].context)) {
-            lexed[j] = std::move(*found);
-        } else {
-            missing.push_back(jobs[j]);
-            missing_index.push_back(j);
-        }
+        take(j, cache.lookup(*jobs[j].file, *jobs[j].context));
     }
-    std::vector<lexer::FileFunctions> parsed;
-    if (!missing.empty()) { // a lexer costs an index even with nothing to parse
-        total = missing.size();
-        parsed = lexer::lex_jobs(missing, settings.jobs, on_done);
-    }
-    for (std::size_t k = 0; k < parsed.size(); ++k) {
-        // A time limit depends on this run's limits and load, not only on the file: not kept.
-        if (parsed[k].parser_stop == lexer::ParserStop::timed_out) {
-            settings.lex_cache->abandon(*missing[k].file, *missing[k].context);
-        } else {
-            settings.lex_cache->store(*missing[k].file, *missing[k].context, parsed[k]);
+    while (!claimed.empty() || !pending.empty()) {
+        if (!claimed.empty()) { // a lexer costs an index even with nothing to parse
+            std::vector<lexer::LexJob> missing;
+            for (const std::size_t j : claimed) {
+                missing.push_back(jobs[j]);
+            }
+            total += missing.size(); // files found in the cache are not counted
+            std::vector<lexer::FileFunctions> parsed =
+                lexer::lex_jobs(missing, settings.jobs, on_done);
+            const std::vector<std::size_t> mine = std::move(claimed);
+            claimed.clear();
+            for (std::size_t k = 0; k < parsed.size(); ++k) {
+                const std::size_t j = mine[k];
+                // A time limit depends on this run's limits and load, not only on the file: not
+                // kept on disk, only handed to this run's waiters.
+                if (parsed[k].parser_stop == lexer::ParserStop::timed_out) {
+                    cache.share(*jobs[j].file, *jobs[j].context, parsed[k]);
+                } else {
+                    cache.store(*jobs[j].file, *jobs[j].context, parsed[k]);
+                }
+                lexed[j] = std::move(parsed[k]);
+            }
         }
-        lexed[missing_index[k]] = std::move(parsed[k]);
+        const std::vector<std::size_t> waiting = std::move(pending);
+        pending.clear();
+        for (const std::size_t j : waiting) {
+            lexer::Lookup found = cache.await(*jobs[j].file, *jobs[j].context);
+            if (found.state == lexer::LookupState::pending) { // a LexCache that cannot wait
+                found = cache.lookup(*jobs[j].file, *jobs[j].context);
+            }
+            take(j, std::move(found));
+        }
     }
     return lexed;
 }

@@ -17,6 +17,10 @@ struct IsolationSettings {
     std::uint64_t memory_mib = 4096; // address space of each parser process, in MiB
     std::string worker_program;      // the executable run as parser process; empty: this one
     bool show_worker_errors = false; // parser processes write their errors to our stderr
+    unsigned preamble_units = 0;     // translation units each parser process keeps alive to
+                                     // reparse a later version of the same file with its
+                                     // precompiled preamble (least recently used dropped
+                                     // first); 0 parses every file from scratch
 };
 
 // Use `settings` for every later lex_jobs and lex_files call of this process.

@@ -12,6 +12,7 @@
 
 #include <algorithm>
 #include <atomic>
+#include <cstdlib>
 #include <deque>
 #include <exception>
 #include <filesystem>
@@ -38,13 +39,43 @@ struct Worker {
     std::unique_ptr<WorkerProcess> process; // null until started, and after it died
     std::deque<std::uint64_t> contexts;     // ids it holds, oldest first
     std::string launch_key;                 // the settings it was started with
+    std::deque<std::string> recent;         // paths it parsed last, newest first (it may hold
+                                            // their translation units for reuse)
 };
+
+// Return how many of `paths` `worker` parsed recently.
+std::size_t affinity(const Worker& worker, const std::vector<std::string>& paths) {
+    std::size_t count = 0;
+    for (const std::string& path : paths) {
+        count +=
+            static_cast<std::size_t>(std::count(worker.recent.begin(), worker.recent.end(), path));
+    }
+    return count;
+}
 
 // Workers between calls: kept so a later call (calibrate lexes per commit) starts none.
 class Pool {
 public:
-    std::unique_ptr<Worker> take(const std::string& launch_key) {
+    // Take an idle worker started with `launch_key`, preferring the one that parsed most of
+    // `paths` lately (the same path goes to the same worker, which may reuse its preamble).
+    std::unique_ptr<Worker> take(const std::string& launch_key,
+                                 const std::vector<std::string>& paths) {
         std::lock_guard<std::mutex> lock(m_mutex);
+        std::size_t best = m_idle.size();
+        std::size_t best_count = 0;
+        for (std::size_t i = 0; i < m_idle.size(); ++i) {
+            const std::size_t count =
+                m_idle[i]->launch_key == launch_key ? affinity(*m_idle[i], paths) : 0;
+            if (count > best_count) {
+                best = i;
+                best_count = count;
+            }
+        }
+        if (best < m_idle.size()) {
+            std::unique_ptr<Worker> worker = std::move(m_idle[best]);
+            m_idle.erase(m_idle.begin() + static_cast<std::ptrdiff_t>(best));
+            return worker;
+        }
         while (!m_idle.empty()) {
             std::unique_ptr<Worker> worker = std::move(m_idle.back());
             m_idle.pop_back();
@@ -102,19 +133,47 @@ struct SharedContext {
 isolate::WorkerLaunch launch_of(const IsolationSettings& settings) {
     isolate::WorkerLaunch launch;
     launch.program = settings.worker_program.empty() ? "/proc/self/exe" : settings.worker_program;
-    launch.arguments = {k_worker_command, "--memory-mib", std::to_string(settings.memory_mib)};
+    launch.arguments = {k_worker_command, "--memory-mib", std::to_string(settings.memory_mib),
+                        "--preamble-units", std::to_string(settings.preamble_units)};
     if (settings.show_worker_errors) {
         launch.arguments.push_back("--verbose");
     }
     // A clean environment: no include paths from variables, crashes end the process.
     launch.environment = {"LIBCLANG_DISABLE_CRASH_RECOVERY=1"};
+    if (settings.preamble_units > 0) {
+        // libclang keeps each precompiled preamble in a temporary file: give the parser a
+        // private folder (0700, made once per run) where it may write them, and nothing else.
+        // Removed with whatever is left in it when the program ends.
+        struct PrivateFolder {
+            std::string path;
+            PrivateFolder() {
+                std::string pattern =
+                    (std::filesystem::temp_directory_path() / "tollgate-preambles-XXXXXX").string();
+                if (::mkdtemp(pattern.data()) != nullptr) {
+                    path = pattern;
+                }
+            }
+            ~PrivateFolder() {
+                std::error_code ignored;
+                if (!path.empty()) {
+                    std::filesystem::remove_all(path, ignored);
+                }
+            }
+        };
+        static const PrivateFolder made;
+        const std::string& folder = made.path;
+        if (!folder.empty()) {
+            launch.environment.push_back("TMPDIR=" + folder);
+        }
+    }
     launch.show_errors = settings.show_worker_errors;
     return launch;
 }
 
 std::string launch_key_of(const IsolationSettings& settings) {
     return settings.worker_program + '\x1f' + std::to_string(settings.memory_mib) + '\x1f' +
-           (settings.show_worker_errors ? "v" : "q");
+           (settings.show_worker_errors ? "v" : "q") + '\x1f' +
+           std::to_string(settings.preamble_units);
 }
 
 // Start `worker`'s process and wait for it to be ready. Throws Failure when it cannot start.
@@ -203,6 +262,12 @@ FileFunctions lex_one(Worker& worker, const LexJob& job, SharedContext& context,
             WorkerReply decoded = decode_reply(reply);
             if (decoded.kind == WorkerReply::Kind::result) {
                 decoded.functions.path = job.file->path;
+                if (settings.preamble_units > 0) {
+                    worker.recent.push_front(job.file->path);
+                    if (worker.recent.size() > settings.preamble_units) {
+                        worker.recent.pop_back();
+                    }
+                }
                 return std::move(decoded.functions);
             }
             if (decoded.kind == WorkerReply::Kind::failed) {
@@ -218,6 +283,7 @@ FileFunctions lex_one(Worker& worker, const LexJob& job, SharedContext& context,
         worker.process->stop(for_time || received == WorkerProcess::Received::message);
     worker.process.reset();
     worker.contexts.clear();
+    worker.recent.clear();
     switch (end.end) {
     case WorkerEnd::out_of_memory:
         return fall_back(job, ParserStop::out_of_memory, 0);
@@ -254,11 +320,17 @@ lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const Isolatio
         }
     }
     const std::string launch_key = launch_key_of(settings);
+    std::vector<std::string> paths;
+    if (settings.preamble_units > 0) {
+        for (const LexJob& job : jobs) {
+            paths.push_back(job.file->path);
+        }
+    }
     std::atomic<std::size_t> next{0};
     std::mutex done_mutex;
     std::exception_ptr first_error;
     auto work = [&] {
-        std::unique_ptr<Worker> worker = pool().take(launch_key);
+        std::unique_ptr<Worker> worker = pool().take(launch_key, paths);
         try {
             for (std::size_t i = next++; i < jobs.size(); i = next++) {
                 results[i] = lex_one(*worker, jobs[i], *contexts.at(jobs[i].context), settings);

@@ -62,8 +62,15 @@ void limit_processor_time(unsigned seconds) {
 }
 
 // The file access a context needs: system headers, plus its cache and trusted folders.
+// The private folder the parent made for this process's preambles (TMPDIR), or empty.
+std::string g_preamble_dir; // NOLINT: set once at start
+
 isolate::PathPolicy policy_for(const ParseContext& context) {
     isolate::PathPolicy policy;
+    if (!g_preamble_dir.empty()) {
+        // libclang writes each precompiled preamble to a temporary file and reads it back.
+        policy.write_roots.push_back(g_preamble_dir);
+    }
     policy.read_roots = isolate::system_include_roots();
     policy.read_roots.insert(policy.read_roots.end(), context.trusted_dirs.begin(),
                              context.trusted_dirs.end());
@@ -123,11 +130,14 @@ bool set_up(std::uint64_t memory_mib) {
 
 int run_lex_worker(int argc, char** argv) {
     std::uint64_t memory_mib = 0;
+    std::size_t preamble_units = 0;
     bool verbose = false;
     for (int i = 2; i < argc; ++i) {
         const std::string arg = argv[i];
         if (arg == "--memory-mib" && i + 1 < argc) {
             memory_mib = std::strtoull(argv[++i], nullptr, 10);
+        } else if (arg == "--preamble-units" && i + 1 < argc) {
+            preamble_units = std::strtoull(argv[++i], nullptr, 10);
         } else if (arg == "--verbose") {
             verbose = true;
         }
@@ -141,11 +151,19 @@ int run_lex_worker(int argc, char** argv) {
     }
     try {
         Lexer lexer;
+        lexer.keep_preambles(preamble_units);
+        if (const char* folder = std::getenv("TMPDIR"); folder != nullptr && preamble_units > 0) {
+            g_preamble_dir = folder;
+        }
         if (!isolate::write_frame(k_worker_socket_fd, encode_ready())) {
             return 0;
         }
         std::map<std::uint64_t, std::unique_ptr<ParseContext>> contexts;
         isolate::PathPolicy policy{isolate::system_include_roots(), {}};
+        if (!g_preamble_dir.empty()) {
+            policy.write_roots.push_back(g_preamble_dir);
+            isolate::confine_paths(policy);
+        }
         std::string bytes;
         while (isolate::read_frame(k_worker_socket_fd, bytes)) {
             WorkerRequest request = decode_request(bytes);

@@ -18,6 +18,7 @@
 
 #include <algorithm>
 #include <cstdio>
+#include <list>
 #include <map>
 #include <spdlog/spdlog.h>
 
@@ -34,6 +35,13 @@ struct PreparedContext {
     std::vector<std::string> virtual_paths; // one per header, under k_virtual_root
     std::vector<CXUnsavedFile> unsaved;     // points into the context's headers
     std::vector<std::string> include_flags; // -I for every include folder
+    std::string header_digest;              // of every header's path
+};
+
+// A translation unit kept for reparsing, with what it was built from.
+struct LiveUnit {
+    std::string key; // main path, arguments, precompiled header, header digest
+    TranslationUnitHandle unit;
 };
 
 // One function found by libclang, before its tokens are classified.
@@ -313,6 +321,27 @@ bool from_macro(CXCursor cursor) {
 struct Lexer::Impl {
     IndexHandle index{clang_createIndex(1, 0)};
     std::map<const ParseContext*, PreparedContext> prepared;
+    std::list<LiveUnit> live; // most recently used first
+    std::size_t live_limit = 0;
+
+    // Take the live unit built under `key` out of the list, or null.
+    TranslationUnitHandle take_live(const std::string& key) {
+        for (auto it = live.begin(); it != live.end(); ++it) {
+            if (it->key == key) {
+                TranslationUnitHandle unit = std::move(it->unit);
+                live.erase(it);
+                return unit;
+            }
+        }
+        return TranslationUnitHandle();
+    }
+
+    void keep_live(std::string key, TranslationUnitHandle unit) {
+        live.push_front({std::move(key), std::move(unit)});
+        while (live.size() > live_limit) {
+            live.pop_back();
+        }
+    }
 
     const PreparedContext& prepare(const ParseContext& context) {
         PreparedContext& entry = prepared[&context];
@@ -339,6 +368,18 @@ struct Lexer::Impl {
         if (entry.include_flags.empty()) {
             entry.include_flags.push_back("-I" + std::string(k_virtual_root));
         }
+        // A digest of the header paths: a unit is reused only with the same set of in-memory
+        // files. Their contents may differ: libclang checks every file its preamble read
+        // (size and MD5 of each unsaved buffer) and builds the preamble anew when one changed;
+        // the headers after the preamble are read from the new buffers on every reparse.
+        std::uint64_t digest = 0xcbf29ce484222325ULL;
+        for (const SourceFile& header : context.headers) {
+            for (const unsigned char c : header.path) {
+                digest = (digest ^ c) * 0x100000001b3ULL;
+            }
+            digest = (digest ^ 0xffu) * 0x100000001b3ULL;
+        }
+        entry.header_digest = std::to_string(context.headers.size()) + "." + std::to_string(digest);
         return entry;
     }
 };
@@ -353,6 +394,13 @@ Lexer::~Lexer() = default;
 
 void Lexer::forget(const ParseContext& context) {
     m_impl->prepared.erase(&context);
+}
+
+void Lexer::keep_preambles(std::size_t units) {
+    m_impl->live_limit = units;
+    while (m_impl->live.size() > units) {
+        m_impl->live.pop_back();
+    }
 }
 
 FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& context) {
@@ -408,9 +456,29 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     unsaved.push_back(
         {main_path.c_str(), file.content.data(), static_cast<unsigned long>(file.content.size())});
 
-    const unsigned options =
-        CXTranslationUnit_KeepGoing | CXTranslationUnit_DetailedPreprocessingRecord;
+    const bool reuse = m_impl->live_limit > 0;
+    std::string live_key;
     TranslationUnitHandle unit;
+    if (reuse) {
+        live_key = main_path + '\x1f' + pch + '\x1f' + prepared.header_digest;
+        for (const std::string& arg : args) {
+            live_key += '\x1f' + arg;
+        }
+        unit = m_impl->take_live(live_key);
+        if (unit && clang_reparseTranslationUnit(unit.get(), static_cast<unsigned>(unsaved.size()),
+                                                 unsaved.data(),
+                                                 clang_defaultReparseOptions(unit.get())) != 0) {
+            spdlog::debug("reparse of \"{}\" failed: parsing it from scratch", file.path);
+            unit.reset(); // a unit whose reparse failed must be disposed of
+        } else if (unit) {
+            spdlog::debug("reparsed \"{}\" with its precompiled preamble", file.path);
+        }
+    }
+    const unsigned options =
+        CXTranslationUnit_KeepGoing | CXTranslationUnit_DetailedPreprocessingRecord |
+        (reuse
+             ? CXTranslationUnit_PrecompiledPreamble | CXTranslationUnit_CreatePreambleOnFirstParse
+             : 0u);
     for (int attempt = 0; attempt < 2 && !unit; ++attempt) {
         std::vector<std::string> attempt_args = args;
         if (!pch.empty()) {
@@ -594,6 +662,9 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
 
     result.functions = finish_functions(std::move(pending), file.path, tokens, &parsed.cursors,
                                         context.convention);
+    if (reuse) {
+        m_impl->keep_live(std::move(live_key), std::move(unit));
+    }
     return result;
 }
 

@@ -93,6 +93,13 @@ public:
     // is destroyed if another context may later live at the same address.
     void forget(const ParseContext& context);
 
+    // Keep up to `units` translation units alive (least recently used dropped first), each
+    // built with a precompiled preamble, and reparse one with the new main-file contents when
+    // the same path comes again with the same flags and the same headers; anything else (or a
+    // failed reparse) parses from scratch. The results are the same either way. 0 (the default)
+    // keeps none.
+    void keep_preambles(std::size_t units);
+
 private:
     struct Impl;
     std::unique_ptr<Impl> m_impl;

@@ -5,8 +5,13 @@
 grow, shrink or are added; now and then a header changes). Deterministic (fixed seed); written
 with git fast-import, so it takes seconds.
 
+With a fourth argument "heavy", the first commit also adds a header-only template library of
+our own (include/heavy/, 30 headers of about 15,000 lines in all, class and function templates
+over standard containers, instantiated in the headers) that
+every source includes, as a heavy third-party library would be: parsing it dominates each file.
+
 Invented code for benchmarking only.
-Usage: gen_history.py DIR [COMMITS] [FILES]"""
+Usage: gen_history.py DIR [COMMITS] [FILES] [heavy]"""
 import random
 import subprocess
 import sys
@@ -31,8 +36,51 @@ def body(rng, size):
     return lines
 
 
-def source(i, functions, sizes, seeds):
-    lines = [f'#include "gen{i}.hpp"', "", f"namespace gen{i} {{", ""]
+HEAVY_HEADERS = 30
+HEAVY_TABLES = 24
+
+
+def heavy_header(h):
+    """One header of the generated header-only library: class templates and function templates."""
+    lines = ["#pragma once", "#include <algorithm>", "#include <functional>", "#include <map>",
+             "#include <string>", "#include <vector>"]
+    if h > 0:
+        lines.append(f'#include "heavy/part{h - 1}.hpp"')
+    lines += ["", "namespace heavy {", ""]
+    for k in range(HEAVY_TABLES):
+        name = f"Table{h}_{k}"
+        lines += [f"template <typename K, typename V> class {name} {{",
+                  "public:",
+                  "    void put(const K& key, const V& value) { m_items[key].push_back(value); }",
+                  "    template <typename F> V fold(const K& key, V start, F f) const {",
+                  "        auto it = m_items.find(key);",
+                  "        if (it == m_items.end()) { return start; }",
+                  "        for (const auto& v : it->second) { start = f(start, v); }",
+                  "        return start;",
+                  "    }",
+                  "    std::size_t size() const { return m_items.size(); }",
+                  "private:",
+                  "    std::map<K, std::vector<V>> m_items;",
+                  "};",
+                  f"template <typename T> T blend{h}_{k}(const std::vector<T>& v, T w) {{",
+                  "    T total{};",
+                  "    std::for_each(v.begin(), v.end(), [&](const T& x) { total = total + x * w; });",
+                  f"    return std::max(total, T{{{k}}});",
+                  "}",
+                  # Instantiated in the header, as libraries that ship common specialisations do:
+                  # every file that includes it pays for the instantiation.
+                  f"template class {name}<std::string, double>;",
+                  f"template double blend{h}_{k}<double>(const std::vector<double>&, double);",
+                  ""]
+    lines += ["} // namespace heavy", ""]
+    return "\n".join(lines)
+
+
+def source(i, functions, sizes, seeds, heavy=False):
+    lines = [f'#include "gen{i}.hpp"']
+    if heavy:
+        lines.append('#include "heavy/all.hpp"')
+    lines += ["", f"namespace gen{i} {{", ""]
     for name in functions:
         rng = random.Random(seeds[name])
         lines.append(f"int {name}(int x, const std::vector<int>& values) {{")
@@ -46,6 +94,7 @@ def main():
     out = sys.argv[1]
     commits = int(sys.argv[2]) if len(sys.argv) > 2 else 300
     files = int(sys.argv[3]) if len(sys.argv) > 3 else 20
+    heavy = len(sys.argv) > 4 and sys.argv[4] == "heavy"
     rng = random.Random(20261201)
     subprocess.run(["git", "init", "-q", "-b", "main", out], check=True)
     state = {}
@@ -74,6 +123,11 @@ def main():
                  b"committer Bench <bench@example.invalid> %d +0000\n" % when, blob(message)[:-1]]
         if c > 0:
             parts.append(b"from :%d\n" % (mark - 1))
+        elif heavy:
+            for h in range(HEAVY_HEADERS):
+                parts.append(b"M 100644 inline include/heavy/part%d.hpp\n" % h + blob(heavy_header(h)))
+            parts.append(b"M 100644 inline include/heavy/all.hpp\n" +
+                         blob('#pragma once\n#include "heavy/part%d.hpp"\n' % (HEAVY_HEADERS - 1)))
         for i in touched:
             s = state[i]
             header_changed = c == 0
@@ -87,7 +141,7 @@ def main():
                     s["sizes"][name] = rng.randint(1, 10)
                     s["seeds"][name] = rng.randint(0, 10**9)
                     header_changed = True
-            parts.append(b"M 100644 inline src/gen%d.cpp\n" % i + blob(source(i, s["functions"], s["sizes"], s["seeds"])))
+            parts.append(b"M 100644 inline src/gen%d.cpp\n" % i + blob(source(i, s["functions"], s["sizes"], s["seeds"], heavy)))
             if header_changed:
                 parts.append(b"M 100644 inline src/gen%d.hpp\n" % i + blob(header(i, s["functions"])))
         parts.append(b"\n")

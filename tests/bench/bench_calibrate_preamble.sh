@@ -1,0 +1,70 @@
+#!/usr/bin/env bash
+# SPDX-License-Identifier: MIT
+# Benchmark preamble reuse in `tollgate calibrate`: a generated history (gen_history.py, invented
+# code) whose sources all include a heavy header-only library of our own generation, replayed with
+# every version parsed from scratch (--preamble-units 0) and with reuse (the default), cold and
+# warm lexed-file cache, 1 and 2 workers. Prints the ratio reuse/plain measured in the same run
+# (target: <= 0.35 cold), peak memory of the whole process tree (target: <= 500 MiB), CPU time,
+# the load average beside every figure, and whether both reports agree.
+# Run by hand after building: bash tests/bench/bench_calibrate_preamble.sh [build-dir] [COMMITS] [FILES]
+set -euo pipefail
+here=$(cd "$(dirname "$0")" && pwd)
+build=$(cd "${1:-$here/../../build}" && pwd)
+commits=${2:-300}
+files=${3:-20}
+tollgate=$build/gate/tollgate
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+export TOLLGATE_CACHE_DIR=$work/pch # precompiled standard headers, warmed once below
+
+python3 "$here/gen_history.py" "$work/repo" "$commits" "$files" heavy
+cd "$work/repo"
+echo "cores: $(nproc); heavy library: $(cat include/heavy/*.hpp | wc -l) lines in $(ls include/heavy | wc -l) headers"
+"$tollgate" calibrate --max-commits 1 --cache-dir "$work/warmup" --format json >/dev/null
+
+run() { # $1 label, $2 cache dir, rest: calibrate arguments; prints a line, keeps seconds and cpu in $work/LABEL.s(.cpu)
+    local label=$1 cache=$2; shift 2
+    local before start end
+    before=$(uptime | sed 's/.*load average: //')
+    start=$(date +%s.%N)
+    python3 "$here/tree_peak.py" "$work/peak" "$tollgate" calibrate --format json \
+        --max-commits 0 --cache-dir "$cache" "$@" >"$work/$label.json"
+    end=$(date +%s.%N)
+    python3 - "$label" "$start" "$end" "$work/peak" "$work/$label.json" "$before" \
+        "$(uptime | sed 's/.*load average: //')" "$work/$label.s" <<'PY'
+import json, sys
+label, start, end, peak, out, before, after, keep = sys.argv[1:]
+seconds = float(end) - float(start)
+mib, cpu = open(peak).read().split()
+c = json.load(open(out))["cache"]
+print(f"{label:<22} {seconds:8.2f} s  cpu {float(cpu):8.2f} s  peak {float(mib):7.1f} MiB  "
+      f"parses {c['parses']}/{c['visits']}  load {before} -> {after}")
+open(keep, "w").write(str(seconds))
+open(keep + ".cpu", "w").write(cpu)
+PY
+}
+same() { # compare two reports apart from timings and cache counts
+    python3 - "$work/$1.json" "$work/$2.json" <<'PY'
+import json, sys
+docs = [json.load(open(p)) for p in sys.argv[1:]]
+for d in docs:
+    for key in ("seconds", "threads", "cache"):
+        d.pop(key)
+print("reports identical" if docs[0] == docs[1] else "reports DIFFER")
+PY
+}
+ratio() { # $1 label, $2 reuse label, $3 plain label: wall and CPU ratios (CPU is steadier under load)
+    python3 -c "print(f'reuse/plain $1: wall {$(cat "$work/$2.s") / $(cat "$work/$3.s"):.2f}, cpu {$(cat "$work/$2.s.cpu") / $(cat "$work/$3.s.cpu"):.2f}')"
+}
+
+run plain-j1-cold "$work/c-plain1" -j 1 --preamble-units 0
+run reuse-j1-cold "$work/c-reuse1" -j 1
+ratio "1 worker, cold" reuse-j1-cold plain-j1-cold
+same plain-j1-cold reuse-j1-cold
+run plain-j2-cold "$work/c-plain2" -j 2 --preamble-units 0
+run reuse-j2-cold "$work/c-reuse2" -j 2
+ratio "2 workers, cold" reuse-j2-cold plain-j2-cold
+same plain-j2-cold reuse-j2-cold
+run plain-j2-warm "$work/c-plain2" -j 2 --preamble-units 0
+run reuse-j2-warm "$work/c-reuse2" -j 2
+ratio "2 workers, warm (nothing to parse)" reuse-j2-warm plain-j2-warm

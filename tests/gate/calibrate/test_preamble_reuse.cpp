@@ -1,0 +1,102 @@
+// SPDX-License-Identifier: MIT
+// Preamble reuse: calibrate reports exactly the same with translation units reparsed from their
+// precompiled preambles as with every version parsed from scratch, on a scripted history whose
+// headers, include blocks and flags change along the way.
+#include "support/temp_repo.hpp"
+
+#include <catch2/catch.hpp>
+#include <fmt/format.h>
+#include <nlohmann/json.hpp>
+
+using tollgate::test::commit_all;
+using tollgate::test::init_repo;
+using tollgate::test::run_tollgate;
+using tollgate::test::shell_quote;
+using tollgate::test::TempDir;
+
+namespace {
+
+// A header-only template library of our own (invented), a source that includes it and edits its
+// functions commit after commit; midway the header itself changes (its preamble must not be
+// reused), the include block gains a line, and a macro guards one function.
+std::string make_history(const TempDir& dir) {
+    const std::string repo = dir.path() + "/r";
+    init_repo(repo);
+    std::string header = "#pragma once\n"
+                         "namespace grid {\n"
+                         "template <typename T> struct Cell { T value; T twice() const { return "
+                         "value + value; } };\n"
+                         "template <typename T> T clamp(T v, T lo, T hi) { return v < lo ? lo : v "
+                         "> hi ? hi : v; }\n"
+                         "}\n";
+    dir.write("r/include/grid/cell.hpp", header);
+    for (int c = 0; c < 9; ++c) {
+        if (c == 4) { // the header changes: every unit that includes it is built anew
+            header.insert(header.rfind('}'),
+                          "template <typename T> T square(T v) { return v * v; }\n");
+            dir.write("r/include/grid/cell.hpp", header);
+        }
+        const std::string extra_include = c >= 6 ? "#include <cstddef>\n" : "";
+        dir.write("r/src/field.cpp",
+                  fmt::format("#include \"grid/cell.hpp\"\n{0}"
+                              "#define SCALE {1}\n"
+                              "int sweep(int n) {{\n"
+                              "    grid::Cell<int> cell{{n}};\n"
+                              "    int total = 0;\n"
+                              "    for (int i = 0; i < n * SCALE; ++i) {{\n"
+                              "        total += grid::clamp(cell.twice() - i, 0, {1});\n"
+                              "    }}\n"
+                              "    return total;\n"
+                              "}}\n"
+                              "#if SCALE > 3\n"
+                              "int boost(int v) {{ return v * SCALE + {1}; }}\n"
+                              "#endif\n"
+                              "double mean(const double* v, int n) {{\n"
+                              "    double s = 0;\n"
+                              "    for (int i = 0; i < n; ++i) {{ s += v[i] * {1}; }}\n"
+                              "    return n ? s / n : 0;\n"
+                              "}}\n",
+                              extra_include, c + 1));
+        commit_all(repo, fmt::format("revision {}", c));
+    }
+    return repo;
+}
+
+nlohmann::json measured(const std::string& out) {
+    auto doc = nlohmann::json::parse(out);
+    doc.erase("seconds");
+    doc.erase("threads");
+    doc.erase("cache");
+    return doc;
+}
+
+} // namespace
+
+TEST_CASE("calibrate reports the same with and without preamble reuse", "[calibrate]") {
+    TempDir dir;
+    const std::string repo = make_history(dir);
+    for (const char* jobs : {"1", "2"}) {
+        DYNAMIC_SECTION("with " << jobs << " workers") {
+            TempDir plain_cache, reuse_cache;
+            const auto plain = run_tollgate(
+                fmt::format("calibrate -v --no-pch-cache -j {} --format json --preamble-units 0 "
+                            "--cache-dir {}",
+                            jobs, shell_quote(plain_cache.path())),
+                repo);
+            INFO(plain.err);
+            REQUIRE(plain.exit_code == 0);
+            const auto reuse = run_tollgate(
+                fmt::format("calibrate -v --no-pch-cache -j {} --format json --preamble-units 4 "
+                            "--cache-dir {}",
+                            jobs, shell_quote(reuse_cache.path())),
+                repo);
+            INFO(reuse.err);
+            REQUIRE(reuse.exit_code == 0);
+            // The switch works both ways: reuse happened in one run and not in the other.
+            CHECK(reuse.err.find("with its precompiled preamble") != std::string::npos);
+            CHECK(plain.err.find("with its precompiled preamble") == std::string::npos);
+            CHECK(measured(reuse.out) == measured(plain.out));
+            CHECK(measured(plain.out)["commits"].size() == 8);
+        }
+    }
+}
