@@ -36,18 +36,7 @@ std::string format_stroud(double stroud) {
 }
 
 std::string shell_word(const std::string& text) {
-    const bool plain =
-        !text.empty() && text.find_first_not_of("abcdefghijklmnopqrstuvwxyz"
-                                                "ABCDEFGHIJKLMNOPQRSTUVWXYZ"
-                                                "0123456789_./-+:@=") == std::string::npos;
-    if (plain) {
-        return text;
-    }
-    std::string quoted = "'";
-    for (const char c : text) {
-        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
-    }
-    return quoted + "'";
+    return ::tollgate::text::shell_word(text);
 }
 
 std::string lowercase_error(int error) {

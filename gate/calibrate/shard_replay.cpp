@@ -5,6 +5,7 @@
 #include "gate/calibrate/shard_report_json.hpp"
 #include "gate/common/errors.hpp"
 #include "gate/common/text_safety.hpp"
+#include "gate/lexer/file_functions_json.hpp"
 #include "gate/policy/policy.hpp"
 
 #include <algorithm>
@@ -21,13 +22,7 @@ namespace {
 using nlohmann::json;
 using text::store_bytes;
 
-std::string stored_text(const json& stored) {
-    auto bytes = text::unstore_bytes(stored.get<std::string>());
-    if (!bytes) {
-        throw std::runtime_error("damaged text");
-    }
-    return std::move(*bytes);
-}
+using lexer::stored_text;
 
 std::string quoted(const std::string& name) {
     return "\"" + text::terminal_text(name) + "\"";

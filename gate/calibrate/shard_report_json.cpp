@@ -3,6 +3,7 @@
 #include "gate/calibrate/shard_report_json.hpp"
 
 #include "gate/common/text_safety.hpp"
+#include "gate/lexer/file_functions_json.hpp"
 
 #include <stdexcept>
 
@@ -13,13 +14,7 @@ namespace {
 using nlohmann::json;
 using text::store_bytes;
 
-std::string stored_text(const json& stored) {
-    auto bytes = text::unstore_bytes(stored.get<std::string>());
-    if (!bytes) {
-        throw std::runtime_error("damaged text");
-    }
-    return std::move(*bytes);
-}
+using lexer::stored_text;
 
 json texts_to_json(const std::vector<std::string>& texts) {
     json list = json::array();

@@ -2,6 +2,8 @@
 // Message helpers: "did you mean" suggestions by edit distance, shell words for remedies.
 #include "gate/common/errors.hpp"
 
+#include "gate/common/text_safety.hpp"
+
 #include <algorithm>
 
 namespace tollgate {
@@ -29,18 +31,7 @@ std::size_t edit_distance(const std::string& a, const std::string& b) {
 } // namespace
 
 std::string shell_word(const std::string& text) {
-    const bool plain =
-        !text.empty() && text.find_first_not_of("abcdefghijklmnopqrstuvwxyz"
-                                                "ABCDEFGHIJKLMNOPQRSTUVWXYZ"
-                                                "0123456789_./-+:@=,") == std::string::npos;
-    if (plain) {
-        return text;
-    }
-    std::string quoted = "'";
-    for (const char c : text) {
-        quoted += c == '\'' ? std::string("'\\''") : std::string(1, c);
-    }
-    return quoted + "'";
+    return ::tollgate::text::shell_word(text);
 }
 
 std::string closest_match(const std::string& word, const std::vector<std::string>& candidates) {

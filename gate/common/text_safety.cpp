@@ -292,7 +292,7 @@ std::string shell_word(std::string_view text) {
     const bool plain = !text.empty() && std::all_of(text.begin(), text.end(), [](char c) {
         return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
                c == '_' || c == '-' || c == '.' || c == '/' || c == ':' || c == '+' || c == ',' ||
-               c == '@' || c == '%';
+               c == '@' || c == '%' || c == '=';
     });
     if (plain) {
         return std::string(text);

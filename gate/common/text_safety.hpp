@@ -88,7 +88,7 @@ std::string url_text(std::string_view url);
 std::string html_text(std::string_view text);
 
 // Return `text` as one word for a POSIX shell: itself when it holds only letters, digits and
-// "_-./:+,@%", else in single quotes with each quote written '\'' (POSIX.1-2017, Shell Command
+// "_-./:+,@%=", else in single quotes with each quote written '\'' (POSIX.1-2017, Shell Command
 // Language, 2.2.2 Single-Quotes: nothing inside them is special). For commands a report shows
 // to be copied; a copied command runs nothing the text holds.
 std::string shell_word(std::string_view text);

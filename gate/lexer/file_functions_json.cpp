@@ -13,15 +13,6 @@ namespace {
 using nlohmann::json;
 using text::store_bytes;
 
-// The bytes store_bytes kept in the string `stored`; throws when the entry is damaged.
-std::string stored_text(const json& stored) {
-    auto bytes = text::unstore_bytes(stored.get<std::string>());
-    if (!bytes) {
-        throw std::runtime_error("bad stored text");
-    }
-    return std::move(*bytes);
-}
-
 ExtentMode mode_from(const std::string& name) {
     for (const ExtentMode mode :
          {ExtentMode::syntax_tree, ExtentMode::lexical, ExtentMode::parser_stopped}) {
@@ -42,6 +33,14 @@ Enum enum_from(const json& value, Enum last) {
 }
 
 } // namespace
+
+std::string stored_text(const json& stored) {
+    auto bytes = text::unstore_bytes(stored.get<std::string>());
+    if (!bytes) {
+        throw std::runtime_error("bad stored text");
+    }
+    return std::move(*bytes);
+}
 
 const char* extent_name(ExtentMode mode) {
     switch (mode) {

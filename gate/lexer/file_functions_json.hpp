@@ -6,8 +6,13 @@
 #include "gate/lexer/function_span.hpp"
 
 #include <nlohmann/json.hpp>
+#include <string>
 
 namespace tollgate::lexer {
+
+// Return the bytes text::store_bytes kept in the JSON string `stored`. Throws
+// std::runtime_error when it is damaged (nlohmann's type error when it is not a string).
+std::string stored_text(const nlohmann::json& stored);
 
 // Return `functions` as a JSON value (every field, tokens as compact arrays).
 nlohmann::json file_functions_to_json(const FileFunctions& functions);
