@@ -5,21 +5,19 @@
 
 #include "gate/baseline/snapshot_file.hpp"
 #include "gate/common/errors.hpp"
+#include "gate/common/output_file.hpp"
 #include "gate/common/text_safety.hpp"
 
 #include <algorithm>
-#include <filesystem>
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <sstream>
-#include <unistd.h>
 
 namespace tollgate::baseline {
 
 namespace {
 
 using nlohmann::json;
-namespace fs = std::filesystem;
 
 std::string quoted(const std::string& name) {
     return "\"" + text::terminal_text(name) + "\"";
@@ -91,24 +89,7 @@ SnapshotPart load_snapshot_part(const std::string& path) {
 }
 
 void save_snapshot_part(const SnapshotPart& part, const std::string& path) {
-    const std::string temporary = path + ".tollgate-tmp-" + std::to_string(::getpid());
-    {
-        std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
-        out << snapshot_part_to_json(part);
-        out.close();
-        if (!out) {
-            std::error_code ignored;
-            fs::remove(temporary, ignored);
-            throw UsageError("cannot write " + quoted(path) +
-                             " (check the folder exists and is writable)");
-        }
-    }
-    std::error_code error;
-    fs::rename(temporary, path, error);
-    if (error) {
-        fs::remove(temporary, error);
-        throw UsageError("cannot write " + quoted(path) + ": " + error.message());
-    }
+    write_output_file("snapshot part", path, snapshot_part_to_json(part));
 }
 
 Snapshot merge_snapshot_parts(std::vector<SnapshotPart> parts,

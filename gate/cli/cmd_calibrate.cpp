@@ -70,7 +70,7 @@ struct CalibrateOptions {
     double stroud = 18.0;                                  // --stroud
     std::size_t rename_limit = 400;                        // --rename-limit
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
-    unsigned preamble_units = 0;                           // --preamble-units
+    unsigned preamble_units = 8;                           // --preamble-units
     std::string shard;                                     // --shard K/N
     std::vector<std::string> merge;                        // --merge PART...
     std::uint64_t cache_max_size = calibrate::k_default_cache_bytes; // --cache-max-size
@@ -505,7 +505,9 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     auto* max_file_size = sub.get_option("--max-file-size");
     sub.add_option("--preamble-units", options->preamble_units,
                    "Translation units each parser process keeps to reparse the next version of "
-                   "a file with its precompiled preamble (0 = parse every version from scratch)")
+                   "a file with its precompiled preamble (about 7 MiB of memory each, and the "
+                   "preamble's file in the temporary folder; 0 = parse every version from "
+                   "scratch)")
         ->check(whole_number(0, 4096))
         ->capture_default_str();
     auto* shard = sub.add_option("--shard", options->shard,
@@ -522,7 +524,11 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
         ->excludes(max_commits)
         ->excludes(since)
         ->excludes(keep_vendored)
-        ->excludes(max_file_size);
+        ->excludes(max_file_size)
+        // The parts' own values decide these; a merge that took them would only seem to.
+        ->excludes(sub.get_option("--stroud"))
+        ->excludes(sub.get_option("--rename-limit"))
+        ->excludes(sub.get_option("--compile-commands"));
     sub.footer("Examples:\n"
                "  tollgate calibrate                                 the last 300 commits of "
                "the default branch\n"

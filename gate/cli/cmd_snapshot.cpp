@@ -254,7 +254,11 @@ void attach_snapshot(CLI::App& sub, const GlobalOptions& /*global*/,
         ->type_name("PART...")
         ->excludes(shard)
         ->excludes(compare)
-        ->excludes(rev);
+        ->excludes(rev)
+        // The parts' own values decide these; a merge that took them would only seem to.
+        ->excludes(sub.get_option("--stroud"))
+        ->excludes(sub.get_option("--compile-commands"))
+        ->excludes(sub.get_option("--include-dir"));
     sub.add_option("--format", options->format, "Output format of --compare")
         ->check(CLI::IsMember({"text", "json"}))
         ->capture_default_str();

@@ -3,6 +3,7 @@
 #include "gate/walker/commit_messages.hpp"
 
 #include "gate/walker/libgit2_api.hpp"
+#include "gate/walker/third_party_leak.hpp"
 
 namespace tollgate::walker {
 
@@ -30,7 +31,11 @@ std::vector<CommitMessage> commit_messages(const Repository& repository, const O
 
     std::vector<CommitMessage> messages;
     git_oid id{};
-    while (messages.size() < limit && git_revwalk_next(&id, walk.get()) == 0) {
+    const auto next = [&] {
+        const ThirdPartyLeakExemption exemption; // a shallow clone's boundary (see there)
+        return git_revwalk_next(&id, walk.get());
+    };
+    while (messages.size() < limit && next() == 0) {
         git_commit* commit_raw = nullptr;
         git::check(git_commit_lookup(&commit_raw, repo, &id), "cannot read a commit");
         const git::Owned<git_commit> commit(commit_raw);

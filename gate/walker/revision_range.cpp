@@ -4,37 +4,14 @@
 
 #include "gate/common/errors.hpp"
 #include "gate/walker/libgit2_api.hpp"
+#include "gate/walker/third_party_leak.hpp"
 
-#if defined(__SANITIZE_ADDRESS__)
-#define TOLLGATE_LSAN 1
-#include <sanitizer/lsan_interface.h>
-#endif
 #include <algorithm>
 #include <cctype>
 
 namespace tollgate::walker {
 
 namespace {
-
-// In a sanitized build, exempts the allocations made in its scope from LeakSanitizer; nothing in
-// any other build. libgit2 1.5 leaks 64 bytes inside git_merge_base when a shallow clone cuts the
-// walk; libgit2 has no frame pointers, so LeakSanitizer's fast unwinder stops inside it and no
-// suppression entry can name the call (tests/sanitizers/lsan.supp). Only libgit2 runs here.
-class ThirdPartyLeakExemption {
-public:
-    ThirdPartyLeakExemption() {
-#if defined(TOLLGATE_LSAN)
-        __lsan_disable();
-#endif
-    }
-    ~ThirdPartyLeakExemption() {
-#if defined(TOLLGATE_LSAN)
-        __lsan_enable();
-#endif
-    }
-    ThirdPartyLeakExemption(const ThirdPartyLeakExemption&) = delete;
-    ThirdPartyLeakExemption& operator=(const ThirdPartyLeakExemption&) = delete;
-};
 
 std::string quoted(const std::string& text) {
     return "\"" + text + "\"";

@@ -192,6 +192,16 @@ TEST_CASE("snapshot --merge refuses parts that do not belong together", "[baseli
     }
 }
 
+TEST_CASE("snapshot --merge refuses options that only the parts decide", "[baseline]") {
+    TempDir dir;
+    for (const std::string option :
+         {"--stroud 10", "--compile-commands cc.json", "--include-dir include"}) {
+        const auto result = snapshot(dir, "--merge a.json b.json --out s.json " + option);
+        CHECK(result.exit_code == 2);
+        CHECK(result.err.find(option.substr(0, option.find(' '))) != std::string::npos);
+    }
+}
+
 TEST_CASE("snapshot --shard needs --out", "[baseline]") {
     TempDir dir;
     make_tree(dir);

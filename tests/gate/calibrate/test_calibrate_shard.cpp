@@ -188,6 +188,13 @@ TEST_CASE("calibrate --merge refuses parts that do not belong together", "[calib
                           "tollgate ") +
                   TOLLGATE_VERSION + " (run every shard and the merge with one version)\n");
     }
+    SECTION("options that only the parts decide are refused, not ignored") {
+        for (const std::string option :
+             {"--stroud 10", "--rename-limit 5", "--compile-commands cc.json"}) {
+            const std::string err = refused("a1.json a2.json " + option);
+            CHECK(err.find(option.substr(0, option.find(' '))) != std::string::npos);
+        }
+    }
     SECTION("a whole report is not a part") {
         write(parts.path() + "/whole.json",
               require_ok(calibrate(dir, "--format json" + cache_dir)));

@@ -2,6 +2,7 @@
 // Preamble reuse: calibrate reports exactly the same with translation units reparsed from their
 // precompiled preambles as with every version parsed from scratch, on a scripted history whose
 // headers, include blocks and flags change along the way.
+#include "support/fake_forge.hpp"
 #include "support/temp_repo.hpp"
 
 #include <catch2/catch.hpp>
@@ -11,6 +12,7 @@
 using tollgate::test::commit_all;
 using tollgate::test::init_repo;
 using tollgate::test::run_tollgate;
+using tollgate::test::ScopedEnvironment;
 using tollgate::test::shell_quote;
 using tollgate::test::TempDir;
 
@@ -23,6 +25,7 @@ std::string make_history(const TempDir& dir) {
     const std::string repo = dir.path() + "/r";
     init_repo(repo);
     std::string header = "#pragma once\n"
+                         "#include <vector>\n"
                          "namespace grid {\n"
                          "template <typename T> struct Cell { T value; T twice() const { return "
                          "value + value; } };\n"
@@ -41,7 +44,8 @@ std::string make_history(const TempDir& dir) {
                   fmt::format("#include \"grid/cell.hpp\"\n{0}"
                               "#define SCALE {1}\n"
                               "int sweep(int n) {{\n"
-                              "    grid::Cell<int> cell{{n}};\n"
+                              "    std::vector<grid::Cell<int>> cells(1, {{n}});\n"
+                              "    grid::Cell<int> cell = cells.front();\n"
                               "    int total = 0;\n"
                               "    for (int i = 0; i < n * SCALE; ++i) {{\n"
                               "        total += grid::clamp(cell.twice() - i, 0, {1});\n"
@@ -73,30 +77,40 @@ nlohmann::json measured(const std::string& out) {
 } // namespace
 
 TEST_CASE("calibrate reports the same with and without preamble reuse", "[calibrate]") {
-    TempDir dir;
+    TempDir dir, pch_cache;
     const std::string repo = make_history(dir);
+    ScopedEnvironment environment;
+    environment.set("TOLLGATE_CACHE_DIR", pch_cache.path());
     for (const char* jobs : {"1", "2"}) {
-        DYNAMIC_SECTION("with " << jobs << " workers") {
-            TempDir plain_cache, reuse_cache;
-            const auto plain = run_tollgate(
-                fmt::format("calibrate -v --no-pch-cache -j {} --format json --preamble-units 0 "
-                            "--cache-dir {}",
-                            jobs, shell_quote(plain_cache.path())),
-                repo);
-            INFO(plain.err);
-            REQUIRE(plain.exit_code == 0);
-            const auto reuse = run_tollgate(
-                fmt::format("calibrate -v --no-pch-cache -j {} --format json --preamble-units 4 "
-                            "--cache-dir {}",
-                            jobs, shell_quote(reuse_cache.path())),
-                repo);
-            INFO(reuse.err);
-            REQUIRE(reuse.exit_code == 0);
-            // The switch works both ways: reuse happened in one run and not in the other.
-            CHECK(reuse.err.find("with its precompiled preamble") != std::string::npos);
-            CHECK(plain.err.find("with its precompiled preamble") == std::string::npos);
-            CHECK(measured(reuse.out) == measured(plain.out));
-            CHECK(measured(plain.out)["commits"].size() == 8);
+        // With the precompiled standard headers too: a reused unit resolves the standard headers
+        // under another path (main_file_stand_ins.hpp), which once made every file measure empty.
+        for (const char* pch : {"--no-pch-cache", ""}) {
+            DYNAMIC_SECTION("with " << jobs << " workers " << pch) {
+                TempDir plain_cache, reuse_cache;
+                const auto plain = run_tollgate(
+                    fmt::format("calibrate -v {} -j {} --format json --preamble-units 0 "
+                                "--cache-dir {}",
+                                pch, jobs, shell_quote(plain_cache.path())),
+                    repo);
+                INFO(plain.err);
+                REQUIRE(plain.exit_code == 0);
+                const auto reuse = run_tollgate(
+                    fmt::format("calibrate -v {} -j {} --format json --preamble-units 4 "
+                                "--cache-dir {}",
+                                pch, jobs, shell_quote(reuse_cache.path())),
+                    repo);
+                INFO(reuse.err);
+                REQUIRE(reuse.exit_code == 0);
+                // The switch works both ways: reuse happened in one run and not in the other.
+                CHECK(reuse.err.find("reparsed (preamble kept") != std::string::npos);
+                CHECK(plain.err.find("reparsed") == std::string::npos);
+                CHECK(measured(reuse.out) == measured(plain.out));
+                CHECK(measured(plain.out)["commits"].size() == 8);
+                // Every commit measured functions: nothing came out empty.
+                for (const auto& commit : measured(plain.out)["commits"]) {
+                    CHECK(commit["functions"].get<int>() > 0);
+                }
+            }
         }
     }
 }
