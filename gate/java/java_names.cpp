@@ -2,9 +2,10 @@
 // What both Java paths share: identity texts, the qualifier rule and the finishing steps.
 #include "gate/java/java_names.hpp"
 
+#include "tollgate/core/token_digest.hpp"
+
 #include <algorithm>
 #include <cctype>
-#include <cstdio>
 #include <map>
 
 namespace tollgate::java {
@@ -17,30 +18,6 @@ bool is_word(const std::string& spelling) {
     }
     const auto c = static_cast<unsigned char>(spelling[0]);
     return std::isalnum(c) != 0 || c == '_' || c == '$' || c >= 0x80;
-}
-
-std::string hex64(std::uint64_t value) {
-    char text[17];
-    std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(value));
-    return text;
-}
-
-// The digest of the tokens' keys and roles (lines left out), as the C/C++ front end makes it.
-std::string hash_tokens(const core::TokenList& tokens) {
-    std::uint64_t hash = 1469598103934665603ULL;
-    auto mix = [&hash](unsigned char c) {
-        hash ^= c;
-        hash *= 1099511628211ULL;
-    };
-    for (const core::Token& token : tokens) {
-        for (unsigned char c : token.key) {
-            mix(c);
-        }
-        mix(0x1f);
-        mix(token.role == core::Role::operator_token ? 'o' : 'd');
-        mix(0x1e);
-    }
-    return hex64(hash);
 }
 
 } // namespace
@@ -105,7 +82,7 @@ void finish_functions(std::vector<FoundFunction> found, const std::string& path,
         span.path = path;
         const std::string base = span.qualified_name + "(" + span.signature + ")";
         span.fallback_key = base + "#" + std::to_string(ordinals[base]++);
-        span.token_hash = hash_tokens(span.tokens);
+        span.token_hash = core::token_digest(span.tokens);
         out.functions.push_back(std::move(span));
     }
     std::stable_sort(out.functions.begin(), out.functions.end(),

@@ -2,8 +2,9 @@
 // Fallback keys, classification, digests and order of a file's functions.
 #include "gate/lexer/function_finish.hpp"
 
+#include "tollgate/core/token_digest.hpp"
+
 #include <algorithm>
-#include <cstdio>
 #include <map>
 
 namespace tollgate::lexer {
@@ -21,25 +22,6 @@ std::size_t body_open(const std::vector<SourceToken>& tokens, std::size_t first,
         }
     }
     return first;
-}
-
-std::string hash_tokens(const core::TokenList& tokens) {
-    std::uint64_t hash = 1469598103934665603ULL;
-    auto mix = [&hash](unsigned char c) {
-        hash ^= c;
-        hash *= 1099511628211ULL;
-    };
-    for (const core::Token& token : tokens) {
-        for (unsigned char c : token.key) {
-            mix(c);
-        }
-        mix(0x1f);
-        mix(token.role == core::Role::operator_token ? 'o' : 'd');
-        mix(0x1e);
-    }
-    char text[17];
-    std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(hash));
-    return text;
 }
 
 std::vector<FunctionSpan> finish_functions(std::vector<PendingFunction> pending,
@@ -62,7 +44,7 @@ std::vector<FunctionSpan> finish_functions(std::vector<PendingFunction> pending,
             range.begin = body_open(tokens, range.begin, range.end);
         }
         span.tokens = classify_tokens(tokens, item.lexical ? nullptr : cursors, range, convention);
-        span.token_hash = hash_tokens(span.tokens);
+        span.token_hash = core::token_digest(span.tokens);
         functions.push_back(std::move(span));
     }
     std::stable_sort(functions.begin(), functions.end(),

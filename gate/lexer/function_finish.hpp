@@ -22,9 +22,6 @@ struct PendingFunction {
 // braces do not match.
 std::size_t body_open(const std::vector<SourceToken>& tokens, std::size_t first, std::size_t last);
 
-// Return the digest of `tokens`' keys and roles, in order (lines left out), as 16 hex digits.
-std::string hash_tokens(const core::TokenList& tokens);
-
 // Finish `pending`, the functions of the file `path` whose tokens are `tokens` (annotated by
 // `cursors`, or null when there is no syntax tree): number same-named functions in source order
 // (the fallback key's ordinal), classify each function's tokens under `convention` (from its body
