@@ -70,7 +70,7 @@ struct CalibrateOptions {
     double stroud = 18.0;                                  // --stroud
     std::size_t rename_limit = 400;                        // --rename-limit
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
-    unsigned preamble_units = 32;                          // --preamble-units
+    unsigned preamble_units = 0;                           // --preamble-units
     std::string shard;                                     // --shard K/N
     std::vector<std::string> merge;                        // --merge PART...
     std::uint64_t cache_max_size = calibrate::k_default_cache_bytes; // --cache-max-size

@@ -2,7 +2,7 @@
 # SPDX-License-Identifier: MIT
 # Benchmark preamble reuse in `tollgate calibrate`: a generated history (gen_history.py, invented
 # code) whose sources all include a heavy header-only library of our own generation, replayed with
-# every version parsed from scratch (--preamble-units 0) and with reuse (the default), cold and
+# every version parsed from scratch (--preamble-units 0, the default) and with reuse (32 units), cold and
 # warm lexed-file cache, 1 and 2 workers. Prints the ratio reuse/plain measured in the same run
 # (target: <= 0.35 cold), peak memory of the whole process tree (target: <= 500 MiB), CPU time,
 # the load average beside every figure, and whether both reports agree.
@@ -58,13 +58,13 @@ ratio() { # $1 label, $2 reuse label, $3 plain label: wall and CPU ratios (CPU i
 }
 
 run plain-j1-cold "$work/c-plain1" -j 1 --preamble-units 0
-run reuse-j1-cold "$work/c-reuse1" -j 1
+run reuse-j1-cold "$work/c-reuse1" -j 1 --preamble-units 32
 ratio "1 worker, cold" reuse-j1-cold plain-j1-cold
 same plain-j1-cold reuse-j1-cold
 run plain-j2-cold "$work/c-plain2" -j 2 --preamble-units 0
-run reuse-j2-cold "$work/c-reuse2" -j 2
+run reuse-j2-cold "$work/c-reuse2" -j 2 --preamble-units 32
 ratio "2 workers, cold" reuse-j2-cold plain-j2-cold
 same plain-j2-cold reuse-j2-cold
 run plain-j2-warm "$work/c-plain2" -j 2 --preamble-units 0
-run reuse-j2-warm "$work/c-reuse2" -j 2
+run reuse-j2-warm "$work/c-reuse2" -j 2 --preamble-units 32
 ratio "2 workers, warm (nothing to parse)" reuse-j2-warm plain-j2-warm
