@@ -22,6 +22,7 @@
 #include <cstdio>
 #include <list>
 #include <map>
+#include <set>
 #include <spdlog/spdlog.h>
 
 namespace tollgate::lexer {
@@ -323,8 +324,13 @@ bool from_macro(CXCursor cursor) {
 struct Lexer::Impl {
     IndexHandle index{clang_createIndex(1, 0)};
     std::map<const ParseContext*, PreparedContext> prepared;
-    MainFileStandIns stand_ins; // outlives the live units that read its files
-    std::list<LiveUnit> live;   // most recently used first
+    MainFileStandIns stand_ins;    // outlives the live units that read its files
+    std::set<std::string> seen;    // main paths parsed before (reuse starts at a path's second
+                                   // version: a file seen once would pay for a preamble for
+                                   // nothing)
+    std::set<std::string> refused; // main paths with errors before their main code
+                                   // (errors_before_main_code): never reparsed from a preamble
+    std::list<LiveUnit> live;      // most recently used first
     std::size_t live_limit = 0;
 
     // Take the live unit built under `key` out of the list, or null.
@@ -444,7 +450,8 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     // (main_file_stand_ins.hpp); without a stand-in the unit would be kept for nothing.
     const std::string main_path = k_virtual_root + file.path;
     std::optional<std::string> overlay;
-    if (m_impl->live_limit > 0 && !chooses_toolchain(other_flags)) {
+    const bool seen_before = m_impl->live_limit > 0 && !m_impl->seen.insert(main_path).second;
+    if (seen_before && m_impl->refused.count(main_path) == 0 && !chooses_toolchain(other_flags)) {
         overlay = m_impl->stand_ins.overlay_for(main_path);
     }
     if (overlay) {
@@ -548,6 +555,17 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
 
     // Parse errors become warnings, in words that never quote a header outside the revision.
     CXFile main_file = clang_getFile(unit.get(), main_path.c_str());
+    if (m_impl->live_limit > 0 && errors_before_main_code(unit.get(), main_file, file.content)) {
+        // With such errors a preamble could change how the rest parses: this path is parsed
+        // from scratch from now on, this version too.
+        m_impl->refused.insert(main_path);
+        if (reuse) {
+            spdlog::debug("\"{}\" has errors before its code: parsed again without a preamble",
+                          file.path);
+            unit.reset();
+            return lex_functions(file, context);
+        }
+    }
     result.warnings = diagnostics_as_warnings(unit.get(), main_file, file.path);
 
     const ParsedFile parsed = tokenize_file(unit.get(), main_file, file.content);

@@ -114,4 +114,35 @@ std::vector<LexWarning> diagnostics_as_warnings(CXTranslationUnit unit, CXFile m
     return warnings;
 }
 
+bool errors_before_main_code(CXTranslationUnit unit, CXFile main_file, const std::string& content) {
+    // The first character of every line that starts (after blanks) with '#'.
+    const auto directive_line = [&content](unsigned line) {
+        std::size_t at = 0;
+        for (unsigned l = 1; l < line && at != std::string::npos; ++l) {
+            at = content.find('\n', at);
+            at = at == std::string::npos ? at : at + 1;
+        }
+        if (at == std::string::npos) {
+            return false;
+        }
+        at = content.find_first_not_of(" \t", at);
+        return at != std::string::npos && content[at] == '#';
+    };
+    const unsigned count = clang_getNumDiagnostics(unit);
+    for (unsigned i = 0; i < count; ++i) {
+        const DiagnosticHandle diagnostic(clang_getDiagnostic(unit, i));
+        if (clang_getDiagnosticSeverity(diagnostic.get()) < CXDiagnostic_Error) {
+            continue;
+        }
+        CXFile file = nullptr;
+        unsigned line = 0;
+        clang_getExpansionLocation(clang_getDiagnosticLocation(diagnostic.get()), &file, &line,
+                                   nullptr, nullptr);
+        if (file == nullptr || !clang_File_isEqual(file, main_file) || directive_line(line)) {
+            return true;
+        }
+    }
+    return false;
+}
+
 } // namespace tollgate::lexer

@@ -24,4 +24,12 @@ std::string strip_virtual_root(std::string text);
 std::vector<LexWarning> diagnostics_as_warnings(CXTranslationUnit unit, CXFile main_file,
                                                 const std::string& path);
 
+// Return true when `unit` has an error (or fatal error) outside the main file `main_file`, or on
+// a main-file line that is a preprocessor directive (`content` is the main file's text): the
+// errors a precompiled preamble would hold. A preamble is a separate compilation whose scopes
+// close at its end, so after such an error the rest of the file can parse differently with a
+// preamble than without one (seen on googletest sources whose headers fail without their build
+// flags): a unit with such errors is not reparsed from a preamble.
+bool errors_before_main_code(CXTranslationUnit unit, CXFile main_file, const std::string& content);
+
 } // namespace tollgate::lexer
