@@ -4,6 +4,7 @@
 
 #include "gate/common/errors.hpp"
 #include "gate/lexer/clang_handles.hpp"
+#include "gate/lexer/cursor_facts.hpp"
 #include "gate/lexer/extent_check.hpp"
 #include "gate/lexer/function_finish.hpp"
 #include "gate/lexer/inactive_code.hpp"
@@ -16,6 +17,7 @@
 #include "gate/lexer/source_lines.hpp"
 #include "gate/lexer/source_token.hpp"
 #include "gate/lexer/token_classifier.hpp"
+#include "gate/lexer/unit_tokens.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -58,164 +60,6 @@ struct FoundFunction {
 std::string folder_of(const std::string& path) {
     const auto slash = path.find_last_of('/');
     return slash == std::string::npos ? std::string() : path.substr(0, slash);
-}
-
-bool is_function_cursor(CXCursorKind kind) {
-    return kind == CXCursor_FunctionDecl || kind == CXCursor_CXXMethod ||
-           kind == CXCursor_FunctionTemplate || kind == CXCursor_Constructor ||
-           kind == CXCursor_Destructor || kind == CXCursor_ConversionFunction;
-}
-
-bool is_container_cursor(CXCursorKind kind) {
-    return kind == CXCursor_Namespace || kind == CXCursor_ClassDecl ||
-           kind == CXCursor_StructDecl || kind == CXCursor_UnionDecl ||
-           kind == CXCursor_ClassTemplate || kind == CXCursor_ClassTemplatePartialSpecialization ||
-           kind == CXCursor_LinkageSpec || kind == CXCursor_UnexposedDecl ||
-           kind == CXCursor_FriendDecl;
-}
-
-// Return the enclosing namespaces and classes of `cursor` joined with "::", then its name.
-std::string qualified_name(CXCursor cursor) {
-    std::string name = take_string(clang_getCursorSpelling(cursor));
-    CXCursor parent = clang_getCursorSemanticParent(cursor);
-    while (!clang_Cursor_isNull(parent) && parent.kind != CXCursor_TranslationUnit &&
-           !clang_isInvalid(parent.kind)) {
-        if (is_container_cursor(parent.kind) && parent.kind != CXCursor_LinkageSpec &&
-            parent.kind != CXCursor_UnexposedDecl) {
-            std::string part = take_string(clang_getCursorSpelling(parent));
-            if (part.empty()) {
-                part = parent.kind == CXCursor_Namespace ? "(anonymous namespace)" : "(anonymous)";
-            }
-            name = part + "::" + name;
-        }
-        parent = clang_getCursorSemanticParent(parent);
-    }
-    return name;
-}
-
-struct ParameterList {
-    std::vector<std::string> types;
-};
-
-// Return the parameter type spellings of `cursor`.
-std::vector<std::string> parameter_types(CXCursor cursor) {
-    ParameterList list;
-    const int count = clang_Cursor_getNumArguments(cursor);
-    if (count >= 0) {
-        for (int i = 0; i < count; ++i) {
-            list.types.push_back(take_string(clang_getTypeSpelling(
-                clang_getCursorType(clang_Cursor_getArgument(cursor, static_cast<unsigned>(i))))));
-        }
-        return list.types;
-    }
-    clang_visitChildren(
-        cursor,
-        [](CXCursor child, CXCursor, CXClientData data) {
-            if (child.kind == CXCursor_ParmDecl) {
-                static_cast<ParameterList*>(data)->types.push_back(
-                    take_string(clang_getTypeSpelling(clang_getCursorType(child))));
-            }
-            return CXChildVisit_Continue;
-        },
-        &list);
-    return list.types;
-}
-
-bool has_result(CXCursor cursor) {
-    if (cursor.kind == CXCursor_Constructor || cursor.kind == CXCursor_Destructor) {
-        return false;
-    }
-    CXType result = clang_getCursorResultType(cursor);
-    if (result.kind == CXType_Invalid) {
-        result = clang_getResultType(clang_getCursorType(cursor));
-    }
-    return result.kind != CXType_Void && result.kind != CXType_Invalid;
-}
-
-core::LexKind lex_kind(CXTokenKind kind) {
-    switch (kind) {
-    case CXToken_Keyword:
-        return core::LexKind::keyword;
-    case CXToken_Identifier:
-        return core::LexKind::identifier;
-    case CXToken_Literal:
-        return core::LexKind::literal;
-    case CXToken_Punctuation:
-    case CXToken_Comment:
-        break;
-    }
-    return core::LexKind::punctuation;
-}
-
-// Everything one parse of one file produced.
-struct ParsedFile {
-    std::vector<SourceToken> tokens;
-    std::vector<CXCursor> cursors;
-    std::vector<DirectiveMark> directives;
-    std::vector<unsigned> lines;
-};
-
-// Tokenize and annotate the whole main file once; drop comments and directive lines.
-ParsedFile tokenize_file(CXTranslationUnit unit, CXFile main_file, const std::string& content) {
-    ParsedFile parsed;
-    parsed.lines = line_starts(content);
-    if (content.empty() || main_file == nullptr) {
-        return parsed;
-    }
-    const CXSourceRange whole = clang_getRange(
-        clang_getLocationForOffset(unit, main_file, 0),
-        clang_getLocationForOffset(unit, main_file, static_cast<unsigned>(content.size())));
-    TokenArray tokens(unit, whole);
-    std::vector<CXCursor> cursors(tokens.size());
-    if (tokens.size() > 0) {
-        clang_annotateTokens(unit, tokens.data(), tokens.size(), cursors.data());
-    }
-    parsed.tokens.reserve(tokens.size());
-    parsed.cursors.reserve(tokens.size());
-    unsigned previous_line = 0;
-    unsigned directive_end = 0; // last line of the directive being skipped
-    for (unsigned i = 0; i < tokens.size(); ++i) {
-        const CXToken token = tokens.data()[i];
-        const CXTokenKind kind = clang_getTokenKind(token);
-        if (kind == CXToken_Comment) {
-            continue;
-        }
-        const CXSourceRange extent = clang_getTokenExtent(unit, token);
-        unsigned begin = 0;
-        unsigned end = 0;
-        clang_getSpellingLocation(clang_getRangeStart(extent), nullptr, nullptr, nullptr, &begin);
-        clang_getSpellingLocation(clang_getRangeEnd(extent), nullptr, nullptr, nullptr, &end);
-        if (end < begin || end > content.size()) {
-            end = begin;
-        }
-        const unsigned line = line_of(parsed.lines, begin);
-        if (line <= directive_end) {
-            continue;
-        }
-        if (kind == CXToken_Punctuation && line != previous_line && end == begin + 1 &&
-            content[begin] == '#') {
-            directive_end = line;
-            while (continues(content, parsed.lines, directive_end)) {
-                ++directive_end;
-            }
-            std::string word;
-            if (i + 1 < tokens.size()) {
-                word = take_string(clang_getTokenSpelling(unit, tokens.data()[i + 1]));
-            }
-            parsed.directives.push_back({parsed.tokens.size(), directive_kind(word)});
-            previous_line = line;
-            continue;
-        }
-        previous_line = line;
-        SourceToken source;
-        source.kind = lex_kind(kind);
-        source.spelling = content.substr(begin, end - begin);
-        source.offset = begin;
-        source.line = line;
-        parsed.tokens.push_back(std::move(source));
-        parsed.cursors.push_back(cursors[i]);
-    }
-    return parsed;
 }
 
 struct Collector {
