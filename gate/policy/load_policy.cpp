@@ -65,11 +65,6 @@ const std::vector<std::string> k_scope_keys = {"glob", "rules"};
 const std::vector<std::string> k_waiver_keys = {"file", "function", "rules", "reason", "expires"};
 const std::vector<std::string> k_baseline_keys = {"path", "tolerate-existing"};
 
-// Keys of earlier drafts of the schema, with the key that replaced each. There were no releases,
-// so they are not read; naming the new key saves a search.
-const std::map<std::string, std::string> k_renamed_keys = {
-    {"overrides", "scopes"}, {"match", "glob"}, {"grandfather", "tolerate-existing"}};
-
 // The limit keys each kind of rule takes.
 std::vector<std::string> limit_keys(RuleKind kind) {
     switch (kind) {
@@ -210,13 +205,6 @@ std::vector<Entry> PolicyReader::entries(const YAML::Node& map,
         }
         first_line[key] = key_node.Mark().line + 1;
         if (std::find(known.begin(), known.end(), key) == known.end()) {
-            if (const auto renamed = k_renamed_keys.find(key);
-                renamed != k_renamed_keys.end() &&
-                std::find(known.begin(), known.end(), renamed->second) != known.end()) {
-                error(key_node.Mark(), "unknown key \"" + key + "\"" + context +
-                                           " (it is now called \"" + renamed->second + "\")");
-                continue;
-            }
             const std::string suggestion = closest_match(key, known);
             error(key_node.Mark(),
                   "unknown key \"" + key + "\"" + context +

@@ -105,18 +105,9 @@ TEST_CASE("load_policy fills defaults for keys left out", "[policy]") {
     CHECK(policy.baseline.tolerate_existing == Tolerance::on);
 }
 
-TEST_CASE("load_policy names the new key when a key of an earlier draft is used", "[policy]") {
+TEST_CASE("load_policy names the value to write for on and off in a scope", "[policy]") {
     const std::string rules =
         "tollgate-policy: 1\nrules: [{id: g, kind: growth, measure: effort, max-increase: 1}]\n";
-    SECTION("the per-path block and its glob key") {
-        CHECK(
-            problems(rules + "paths:\n  overrides:\n    - {match: \"t/**\", rules: {g: skip}}\n") ==
-            std::vector<std::string>{".tollgate.yaml:4:3: unknown key \"overrides\" in \"paths\" "
-                                     "(it is now called \"scopes\")"});
-        CHECK(problems(rules + "paths:\n  scopes:\n    - {match: \"t/**\", rules: {g: skip}}\n") ==
-              std::vector<std::string>{".tollgate.yaml:5:8: unknown key \"match\" in a scope (it "
-                                       "is now called \"glob\")"});
-    }
     SECTION("the rule values of a scope") {
         CHECK(problems(rules + "paths:\n  scopes:\n    - {glob: \"t/**\", rules: {g: off}}\n") ==
               std::vector<std::string>{".tollgate.yaml:5:33: \"g\" must be \"skip\" or "
@@ -129,11 +120,6 @@ TEST_CASE("load_policy names the new key when a key of an earlier draft is used"
               std::vector<std::string>{".tollgate.yaml:5:48: \"max-increase\" must be a number "
                                        "or \"none\", not \"off\" (write \"none\" to remove the "
                                        "limit on these paths)"});
-    }
-    SECTION("the baseline's switch") {
-        CHECK(problems("tollgate-policy: 1\nbaseline: {grandfather: true}\n") ==
-              std::vector<std::string>{".tollgate.yaml:2:12: unknown key \"grandfather\" in "
-                                       "\"baseline\" (it is now called \"tolerate-existing\")"});
     }
 }
 
