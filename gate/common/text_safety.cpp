@@ -105,15 +105,19 @@ int hex_value(char c) {
 
 } // namespace
 
-bool is_valid_utf8(std::string_view text) {
+std::size_t first_invalid_utf8(std::string_view text) {
     for (std::size_t i = 0; i < text.size();) {
         const Step step = decode(text, i);
         if (!step.valid) {
-            return false;
+            return i;
         }
         i += step.length;
     }
-    return true;
+    return std::string_view::npos;
+}
+
+bool is_valid_utf8(std::string_view text) {
+    return first_invalid_utf8(text) == std::string_view::npos;
 }
 
 std::string to_valid_utf8(std::string_view text) {

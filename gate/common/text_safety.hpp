@@ -17,6 +17,10 @@ inline constexpr std::string_view k_replacement = "\xEF\xBF\xBD";
 // forms, no surrogates, nothing above U+10FFFF).
 bool is_valid_utf8(std::string_view text);
 
+// Return the offset of the first byte of `text` that starts no well-formed UTF-8 sequence (the
+// same rule as is_valid_utf8), or npos when all of it is well formed.
+std::size_t first_invalid_utf8(std::string_view text);
+
 // Return `text` with every maximal ill-formed subsequence replaced by one U+FFFD (Unicode 15,
 // section 3.9, "U+FFFD Substitution of Maximal Subparts"): the rule nlohmann::json's
 // error_handler_t::replace and Python's bytes.decode("utf-8", "replace") follow. Valid text is

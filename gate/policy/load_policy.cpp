@@ -1,8 +1,10 @@
 // SPDX-License-Identifier: MIT
 // Load a policy from YAML and validate every key, collecting all problems with file:line:column.
 #include "gate/common/input_file.hpp"
+#include "gate/common/text_safety.hpp"
 #include "gate/policy/calendar_date.hpp"
 #include "gate/policy/policy.hpp"
+#include "gate/policy/policy_reader.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -42,7 +44,7 @@ const char* inactive_code_name(InactiveCode inactive_code) {
     return "judge";
 }
 
-namespace {
+namespace detail {
 
 const std::vector<std::string> k_top_keys = {"tollgate-policy",
                                              "judge-with",
@@ -60,10 +62,6 @@ const std::vector<std::string> k_rule_keys = {"id",           "kind",
                                               "measure",      "level",
                                               "max-increase", "max-increase-percent",
                                               "ceiling",      "max-total-increase"};
-const std::vector<std::string> k_path_keys = {"include", "exclude", "scopes"};
-const std::vector<std::string> k_scope_keys = {"glob", "rules"};
-const std::vector<std::string> k_waiver_keys = {"file", "function", "rules", "reason", "expires"};
-const std::vector<std::string> k_baseline_keys = {"path", "tolerate-existing"};
 
 // The limit keys each kind of rule takes.
 std::vector<std::string> limit_keys(RuleKind kind) {
@@ -99,78 +97,6 @@ std::vector<std::string> measure_names() {
     }
     return names;
 }
-
-// One key of a YAML map with its value.
-struct Entry {
-    std::string key;     // the key's text
-    YAML::Node key_node; // for its position
-    YAML::Node value;    // the value
-};
-
-// Reads one document into a Policy, collecting every problem instead of stopping at the first.
-class PolicyReader {
-public:
-    explicit PolicyReader(const std::string& origin) : m_origin(origin) {}
-
-    Policy read(const YAML::Node& root);
-    void error(const YAML::Mark& mark, const std::string& message) {
-        std::string where = m_origin;
-        const bool placed = mark.line >= 0 && mark.column >= 0;
-        if (placed) {
-            // yaml-cpp counts from 0; editors and compilers count from 1.
-            where += ":" + std::to_string(mark.line + 1) + ":" + std::to_string(mark.column + 1);
-        }
-        m_problems.push_back(
-            Problem{placed ? mark.line : -1, placed ? mark.column : -1, where + ": " + message});
-    }
-    // Return every problem in file order (unplaced ones first).
-    std::vector<std::string> errors() const {
-        std::vector<Problem> sorted = m_problems;
-        std::stable_sort(sorted.begin(), sorted.end(), [](const Problem& a, const Problem& b) {
-            return std::tie(a.line, a.column) < std::tie(b.line, b.column);
-        });
-        std::vector<std::string> texts;
-        for (const auto& problem : sorted) {
-            texts.push_back(problem.text);
-        }
-        return texts;
-    }
-
-private:
-    std::vector<Entry> entries(const YAML::Node& map, const std::vector<std::string>& known,
-                               const std::string& context);
-    bool expect_map(const YAML::Node& node, const std::string& key);
-    bool expect_sequence(const YAML::Node& node, const std::string& key);
-    std::optional<std::string> text(const YAML::Node& node, const std::string& key);
-    std::optional<double> number(const YAML::Node& node, const std::string& key);
-    std::optional<std::string> choice(const YAML::Node& node, const std::string& key,
-                                      const std::vector<std::string>& allowed);
-    std::optional<core::MeasureId> measure(const YAML::Node& node);
-    std::vector<std::string> globs(const YAML::Node& node, const std::string& key);
-    std::optional<std::string> rule_reference(const YAML::Node& node);
-
-    void read_noise_floor(const YAML::Node& node, Policy& policy);
-    void read_rules(const YAML::Node& node, Policy& policy);
-    std::optional<Rule> read_rule(const YAML::Node& node, std::string& id);
-    void read_paths(const YAML::Node& node, Policy& policy);
-    std::optional<Scope> read_scope(const YAML::Node& node);
-    std::optional<ScopedRule> read_scoped_rule(const std::string& rule_id, const YAML::Node& node);
-    std::optional<Waiver> read_waiver(const YAML::Node& node);
-    void read_baseline(const YAML::Node& node, Policy& policy);
-    void read_unmeasured_lines(const YAML::Node& node, Policy& policy);
-
-    std::string m_origin;
-    std::map<std::string, const Rule*> m_rules_by_id; // valid rules, filled once rules are read
-    std::vector<std::string> m_all_ids;               // every rule id given, broken rules included
-    std::vector<Rule> m_rules;
-    // Problems with their position, sorted into file order when reported.
-    struct Problem {
-        int line;
-        int column;
-        std::string text;
-    };
-    std::vector<Problem> m_problems;
-};
 
 std::string shape_of(const YAML::Node& node) {
     if (node.IsSequence()) {
@@ -610,290 +536,16 @@ std::optional<Rule> PolicyReader::read_rule(const YAML::Node& node, std::string&
     return rule;
 }
 
-void PolicyReader::read_paths(const YAML::Node& node, Policy& policy) {
-    if (!expect_map(node, "paths")) {
-        return;
-    }
-    for (const auto& entry : entries(node, k_path_keys, " in \"paths\"")) {
-        if (entry.key == "include") {
-            policy.paths.include = globs(entry.value, "include");
-        } else if (entry.key == "exclude") {
-            policy.paths.exclude = globs(entry.value, "exclude");
-        } else if (expect_sequence(entry.value, "scopes")) {
-            for (const auto& item : entry.value) {
-                if (auto scope = read_scope(item)) {
-                    policy.paths.scopes.push_back(std::move(*scope));
-                }
-            }
-        }
-    }
-}
+} // namespace detail
 
-std::optional<Scope> PolicyReader::read_scope(const YAML::Node& node) {
-    if (!node.IsMap()) {
-        error(node.Mark(),
-              "a scope must be a map with \"glob\" and \"rules\", not " + shape_of(node));
-        return std::nullopt;
-    }
-    Scope result;
-    bool has_glob = false;
-    YAML::Node rules;
-    for (const auto& entry : entries(node, k_scope_keys, " in a scope")) {
-        if (entry.key == "glob") {
-            if (const auto pattern = text(entry.value, "glob")) {
-                result.glob = *pattern;
-                has_glob = true;
-            }
-        } else if (expect_map(entry.value, "rules")) {
-            rules = entry.value;
-        }
-    }
-    // Rule ids are the team's own words, so the keys are checked against the rules read above.
-    if (rules.IsDefined() && rules.IsMap()) {
-        std::map<std::string, int> first_line;
-        for (auto it = rules.begin(); it != rules.end(); ++it) {
-            const auto id = rule_reference(it->first);
-            if (!id) {
-                continue;
-            }
-            if (const auto seen = first_line.find(*id); seen != first_line.end()) {
-                error(it->first.Mark(), "duplicate key \"" + *id +
-                                            "\" in a scope (first given at line " +
-                                            std::to_string(seen->second) + ")");
-                continue;
-            }
-            first_line[*id] = it->first.Mark().line + 1;
-            if (auto scoped = read_scoped_rule(*id, it->second)) {
-                result.rules.push_back(std::move(*scoped));
-            }
-        }
-    }
-    if (!has_glob) {
-        if (node["glob"].IsDefined() || node["match"].IsDefined()) {
-            return std::nullopt;
-        }
-        error(node.Mark(), "a scope has no \"glob\" (a glob such as \"tests/**\")");
-        return std::nullopt;
-    }
-    if (!node["rules"].IsDefined()) {
-        error(node.Mark(), "scope \"" + result.glob +
-                               "\" has no \"rules\" (a map of rule ids to changes or \"skip\")");
-        return std::nullopt;
-    }
-    return result;
-}
-
-std::optional<ScopedRule> PolicyReader::read_scoped_rule(const std::string& rule_id,
-                                                         const YAML::Node& node) {
-    const Rule& rule = *m_rules_by_id.at(rule_id);
-    ScopedRule result;
-    result.rule_id = rule_id;
-    if (node.IsScalar()) {
-        if (node.Scalar() == "off" || node.Scalar() == "on") {
-            // The words of an earlier draft: say which word replaced each.
-            error(node.Mark(), "\"" + rule_id + "\" must be \"skip\" or \"judge\", not \"" +
-                                   node.Scalar() + "\" (write \"" +
-                                   (node.Scalar() == "off" ? "skip" : "judge") + "\")");
-            return std::nullopt;
-        }
-        if (const auto value = choice(node, rule_id, {"skip", "judge"})) {
-            result.state = *value == "skip" ? RuleSwitch::skip : RuleSwitch::judge;
-            return result;
-        }
-        return std::nullopt;
-    }
-    if (rule.kind == RuleKind::budget) {
-        error(node.Mark(), "rule \"" + rule_id +
-                               "\" is a budget on the whole change: a scope can only \"skip\" "
-                               "or \"judge\" it for the matched paths");
-        return std::nullopt;
-    }
-    if (!node.IsMap()) {
-        error(node.Mark(), "\"" + rule_id +
-                               "\" must be \"skip\", \"judge\" or a map of changes, not " +
-                               shape_of(node));
-        return std::nullopt;
-    }
-    std::vector<std::string> known = limit_keys(rule.kind);
-    known.push_back("level");
-    bool complete = true;
-    for (const auto& entry : entries(node, known, " for rule \"" + rule_id + "\"")) {
-        if (entry.key == "level") {
-            if (const auto value = choice(entry.value, "level", {"blocking", "warning"})) {
-                result.level = *value == "warning" ? Level::warning : Level::blocking;
-            } else {
-                complete = false;
-            }
-            continue;
-        }
-        ScopedLimit limit;
-        if (entry.value.IsScalar() && entry.value.Scalar() == "none") {
-            limit.setting = LimitSetting::remove;
-        } else if (entry.value.IsScalar() && entry.value.Scalar() == "off") {
-            error(entry.value.Mark(), "\"" + entry.key +
-                                          "\" must be a number or \"none\", not \"off\" (write "
-                                          "\"none\" to remove the limit on these paths)");
-            complete = false;
-            continue;
-        } else if (const auto value = number(entry.value, entry.key)) {
-            limit.setting = LimitSetting::set;
-            limit.value = *value;
-        } else {
-            complete = false;
-            continue;
-        }
-        if (entry.key == "max-increase") {
-            result.max_increase = limit;
-        } else if (entry.key == "max-increase-percent") {
-            result.max_increase_percent = limit;
-        } else {
-            result.ceiling = limit;
-        }
-    }
-    if (!complete) {
-        return std::nullopt;
-    }
-    return result;
-}
-
-std::optional<Waiver> PolicyReader::read_waiver(const YAML::Node& node) {
-    if (!node.IsMap()) {
-        error(node.Mark(), "a waiver must be a map with \"file\", \"function\", \"rules\" and "
-                           "\"reason\", not " +
-                               shape_of(node));
-        return std::nullopt;
-    }
-    Waiver waiver;
-    bool complete = true;
-    bool seen_file = false, seen_function = false, seen_rules = false, seen_reason = false;
-    for (const auto& entry : entries(node, k_waiver_keys, " in a waiver")) {
-        if (entry.key == "file" || entry.key == "function" || entry.key == "reason") {
-            const auto value = text(entry.value, entry.key);
-            if (!value) {
-                complete = false;
-                continue;
-            }
-            if (entry.key == "file") {
-                waiver.file = *value;
-                seen_file = true;
-            } else if (entry.key == "function") {
-                waiver.function = *value;
-                seen_function = true;
-            } else {
-                waiver.reason = *value;
-                seen_reason = true;
-            }
-        } else if (entry.key == "expires") {
-            if (entry.value.IsScalar() && is_calendar_date(entry.value.Scalar())) {
-                waiver.expires = entry.value.Scalar();
-            } else {
-                error(entry.value.Mark(), "invalid date " + shape_of(entry.value) +
-                                              " for \"expires\" (expected YYYY-MM-DD, the last "
-                                              "day the waiver applies)");
-                complete = false;
-            }
-        } else {
-            seen_rules = true;
-            std::vector<YAML::Node> items;
-            if (entry.value.IsSequence()) {
-                for (const auto& item : entry.value) {
-                    items.push_back(item);
-                }
-            } else {
-                items.push_back(entry.value);
-            }
-            if (items.empty()) {
-                error(entry.value.Mark(), "a waiver's \"rules\" must name at least one rule");
-                complete = false;
-            }
-            for (const auto& item : items) {
-                if (const auto id = rule_reference(item)) {
-                    waiver.rules.push_back(*id);
-                } else {
-                    complete = false;
-                }
-            }
-        }
-    }
-    const auto missing = [&](bool seen, const char* key, const char* hint) {
-        if (!seen && !node[key].IsDefined()) {
-            error(node.Mark(), std::string("a waiver has no \"") + key + "\" (" + hint + ")");
-        }
-        if (!seen) {
-            complete = false;
-        }
-    };
-    missing(seen_file, "file", "a glob on the path, e.g. \"src/legacy/**\"");
-    missing(seen_function, "function", "a glob on the qualified name, e.g. \"Parser::*\"");
-    missing(seen_rules, "rules", "the rule ids it exempts from, e.g. [effort-growth]");
-    missing(seen_reason, "reason", "say why the function is exempt; a waiver needs a reason");
-    if (!complete) {
-        return std::nullopt;
-    }
-    return waiver;
-}
-
-void PolicyReader::read_baseline(const YAML::Node& node, Policy& policy) {
-    if (!expect_map(node, "baseline")) {
-        return;
-    }
-    for (const auto& entry : entries(node, k_baseline_keys, " in \"baseline\"")) {
-        if (entry.key == "path") {
-            if (const auto value = text(entry.value, "path")) {
-                policy.baseline.path = *value;
-            }
-        } else if (const auto value = choice(entry.value, "tolerate-existing", {"true", "false"})) {
-            policy.baseline.tolerate_existing = *value == "true" ? Tolerance::on : Tolerance::off;
-        }
-    }
-}
-
-// Return the offset of the first byte of `text` that is not well-formed UTF-8 (RFC 3629: no
-// overlong forms, no surrogates, nothing above U+10FFFF), or npos when all of it is.
-std::size_t first_bad_utf8(const std::string& text) {
-    std::size_t i = 0;
-    while (i < text.size()) {
-        const auto lead = static_cast<unsigned char>(text[i]);
-        std::size_t length = 0;
-        unsigned low = 0x80, high = 0xBF; // allowed range of the second byte
-        if (lead < 0x80) {
-            ++i;
-            continue;
-        } else if (lead >= 0xC2 && lead <= 0xDF) {
-            length = 2;
-        } else if (lead >= 0xE0 && lead <= 0xEF) {
-            length = 3;
-            low = lead == 0xE0 ? 0xA0 : 0x80;
-            high = lead == 0xED ? 0x9F : 0xBF;
-        } else if (lead >= 0xF0 && lead <= 0xF4) {
-            length = 4;
-            low = lead == 0xF0 ? 0x90 : 0x80;
-            high = lead == 0xF4 ? 0x8F : 0xBF;
-        } else {
-            return i;
-        }
-        if (i + length > text.size()) {
-            return i;
-        }
-        for (std::size_t k = 1; k < length; ++k) {
-            const auto byte = static_cast<unsigned char>(text[i + k]);
-            if (k == 1 ? (byte < low || byte > high) : (byte < 0x80 || byte > 0xBF)) {
-                return i;
-            }
-        }
-        i += length;
-    }
-    return std::string::npos;
-}
-
-} // namespace
+using detail::PolicyReader;
 
 Policy load_policy(const std::string& text, const std::string& origin) {
     PolicyReader reader(origin);
     Policy policy;
     // yaml-cpp passes stray bytes through but writes them back as U+FFFD, so a policy that is
     // not UTF-8 would not describe itself faithfully: reject it with the byte's position.
-    if (const std::size_t bad = first_bad_utf8(text); bad != std::string::npos) {
+    if (const std::size_t bad = text::first_invalid_utf8(text); bad != std::string::npos) {
         YAML::Mark mark;
         mark.pos = static_cast<int>(bad);
         const std::size_t newline = bad == 0 ? std::string::npos : text.rfind('\n', bad - 1);
