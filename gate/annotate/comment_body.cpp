@@ -2,6 +2,8 @@
 // Composing comment bodies: marker line first, the report through its own renderer, size cuts.
 #include "gate/annotate/comment_body.hpp"
 
+#include "gate/common/fnv_digest.hpp"
+
 #include <algorithm>
 #include <cctype>
 #include <cstdint>
@@ -189,19 +191,12 @@ std::string compose_now_passes(const delta::ChangeReport& report, const std::str
 }
 
 std::string finding_key(const policy::Finding& finding) {
-    std::uint64_t hash = 0xcbf29ce484222325ULL; // FNV-1a, 64-bit offset basis and prime
-    const auto mix = [&hash](const std::string& text) {
-        for (const unsigned char c : text) {
-            hash ^= c;
-            hash *= 0x100000001b3ULL;
-        }
-        hash ^= 0xff; // a separator no UTF-8 text contains
-        hash *= 0x100000001b3ULL;
-    };
+    FnvDigest digest;
+    const auto mix = [&digest](const std::string& text) { digest.add_field(text); };
     mix(finding.rule_id);
     mix(finding.function);
     mix(finding.signature);
-    return fmt::format("{:016x}", hash);
+    return fmt::format("{:016x}", digest.value());
 }
 
 std::string compose_line_note(const policy::Finding& finding, const std::string& slot) {

@@ -3,6 +3,7 @@
 #include "gate/baseline/snapshot_text.hpp"
 
 #include "gate/baseline/snapshot.hpp"
+#include "gate/common/fnv_digest.hpp"
 #include "gate/common/text_safety.hpp"
 
 #include <cctype>
@@ -23,12 +24,7 @@ std::string dump(const Json& value, int indent) {
 std::string content_digest(Json document) {
     document.erase("created");
     document.erase("content_digest");
-    std::uint64_t hash = 0xcbf29ce484222325ull;
-    for (const unsigned char c : dump(document, -1)) {
-        hash ^= c;
-        hash *= 0x100000001b3ull;
-    }
-    return fmt::format("{}{:016x}", k_digest_prefix, hash);
+    return fmt::format("{}{:016x}", k_digest_prefix, fnv_digest(dump(document, -1)));
 }
 
 std::string format_stroud(double stroud) {

@@ -71,6 +71,7 @@ struct CalibrateOptions {
     std::size_t rename_limit = 400;                        // --rename-limit
     std::uint64_t max_file_size = k_default_max_file_size; // --max-file-size
     unsigned preamble_units = 0;                           // --preamble-units
+    bool no_shared_headers = false;                        // --no-shared-headers
     std::string shard;                                     // --shard K/N
     std::vector<std::string> merge;                        // --merge PART...
     std::uint64_t cache_max_size = calibrate::k_default_cache_bytes; // --cache-max-size
@@ -222,6 +223,8 @@ int run_calibrate(const CalibrateOptions& options) {
     apply_isolation_options(options.isolation);
     lexer::IsolationSettings isolation = lexer::current_isolation();
     isolation.preamble_units = options.preamble_units;
+    isolation.shared_headers = !options.no_shared_headers;
+    isolation.preamble_homes = lexer::effective_jobs(options.jobs);
     lexer::set_isolation(isolation);
     if (options.format != "text" && options.format != "json") {
         throw UsageError("unknown format \"" + options.format + "\" (give text or json)");
@@ -503,6 +506,10 @@ void attach_calibrate(CLI::App& sub, const GlobalOptions& /*global*/,
     add_rename_limit_option(sub, options->rename_limit);
     add_max_file_size_option(sub, options->max_file_size);
     auto* max_file_size = sub.get_option("--max-file-size");
+    sub.add_flag("--no-shared-headers", options->no_shared_headers,
+                 "Parse every version after the precompiled standard headers only, not also "
+                 "after its own leading #include lines precompiled once per set of their "
+                 "contents (same results, slower with heavy header-only libraries)");
     sub.add_option("--preamble-units", options->preamble_units,
                    "Translation units each parser process keeps to reparse the next version of "
                    "a file with its precompiled preamble (about 7 MiB of memory each, and the "

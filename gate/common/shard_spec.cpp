@@ -3,6 +3,7 @@
 #include "gate/common/shard_spec.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/fnv_digest.hpp"
 
 #include <cstdint>
 
@@ -42,14 +43,7 @@ ShardSpec parse_shard_spec(const std::string& text, const std::string& option) {
 }
 
 unsigned shard_of_path(const std::string& path, unsigned count) {
-    // FNV-1a, 64 bits: offset basis 0xcbf29ce484222325, prime 0x100000001b3 (Fowler, Noll, Vo;
-    // the published parameters, from memory).
-    std::uint64_t hash = 0xcbf29ce484222325ULL;
-    for (const unsigned char c : path) {
-        hash ^= c;
-        hash *= 0x100000001b3ULL;
-    }
-    return count == 0 ? 0 : static_cast<unsigned>(hash % count);
+    return count == 0 ? 0 : static_cast<unsigned>(fnv_digest(path) % count);
 }
 
 std::size_t shard_begin(std::size_t total, unsigned index, unsigned count) {

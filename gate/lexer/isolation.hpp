@@ -21,6 +21,14 @@ struct IsolationSettings {
                                      // reparse a later version of the same file with its
                                      // precompiled preamble (least recently used dropped
                                      // first); 0 parses every file from scratch
+    bool shared_headers = false;     // precompile each file's leading #include lines (but its
+                                     // own header) with the standard headers, once per set of
+                                     // their contents, in a private folder of the run
+                                     // (shared_headers.hpp); the results are the same
+    unsigned preamble_homes = 0;     // with preamble_units: how many parser processes the paths
+                                     // are spread over; each path is parsed only in its home
+                                     // process, the one holding its preamble (a call waits for
+                                     // it); 0: any idle process, preferring recent paths
 };
 
 // Use `settings` for every later lex_jobs and lex_files call of this process.

@@ -12,6 +12,7 @@
 
 #include <algorithm>
 #include <atomic>
+#include <condition_variable>
 #include <cstdlib>
 #include <deque>
 #include <exception>
@@ -93,9 +94,80 @@ public:
         m_idle.push_back(std::move(worker));
     }
 
+    // Return the home (0 .. homes-1) of `path` among the processes started with `launch_key`:
+    // fixed on first sight, the home with the fewest paths then (ties: the lowest), so that each
+    // path's preamble lives in one process only.
+    std::size_t home_of(const std::string& launch_key, const std::string& path, unsigned homes) {
+        std::lock_guard<std::mutex> lock(m_mutex);
+        Homes& set = homes_of(launch_key, homes);
+        const auto found = set.home_of.find(path);
+        if (found != set.home_of.end()) {
+            return found->second;
+        }
+        const auto fewest = std::min_element(set.paths.begin(), set.paths.end());
+        const auto home = static_cast<std::size_t>(fewest - set.paths.begin());
+        ++*fewest;
+        set.home_of.emplace(path, home);
+        return home;
+    }
+
+    // Take the worker of `home`, waiting while another call has it.
+    std::unique_ptr<Worker> take_home(const std::string& launch_key, std::size_t home) {
+        std::unique_lock<std::mutex> lock(m_mutex);
+        Homes& set = m_homes.at(launch_key);
+        m_home_free.wait(lock, [&] { return set.workers[home] != nullptr; });
+        return std::move(set.workers[home]);
+    }
+
+    void give_home(const std::string& launch_key, std::size_t home,
+                   std::unique_ptr<Worker> worker) {
+        {
+            std::lock_guard<std::mutex> lock(m_mutex);
+            m_homes.at(launch_key).workers[home] = std::move(worker);
+        }
+        m_home_free.notify_all();
+    }
+
 private:
+    struct Homes {
+        std::vector<std::unique_ptr<Worker>> workers; // null while a call has it
+        std::vector<std::size_t> paths;               // paths at home in each
+        std::map<std::string, std::size_t> home_of;
+    };
+
+    Homes& homes_of(const std::string& launch_key, unsigned homes) {
+        Homes& set = m_homes[launch_key];
+        while (set.workers.size() < homes) {
+            set.workers.push_back(std::make_unique<Worker>());
+            set.workers.back()->launch_key = launch_key;
+            set.paths.push_back(0);
+        }
+        return set;
+    }
+
     std::mutex m_mutex;
     std::vector<std::unique_ptr<Worker>> m_idle;
+    std::map<std::string, Homes> m_homes; // by launch key
+    std::condition_variable m_home_free;
+};
+
+// Gives a home's worker back however the job ends.
+class HomeLoan {
+public:
+    HomeLoan(Pool& pool, const std::string& launch_key, std::size_t home)
+        : m_pool(pool), m_launch_key(launch_key), m_home(home),
+          m_worker(pool.take_home(launch_key, home)) {}
+    ~HomeLoan() { m_pool.give_home(m_launch_key, m_home, std::move(m_worker)); }
+    HomeLoan(const HomeLoan&) = delete;
+    HomeLoan& operator=(const HomeLoan&) = delete;
+
+    Worker& worker() { return *m_worker; }
+
+private:
+    Pool& m_pool;
+    const std::string& m_launch_key;
+    std::size_t m_home;
+    std::unique_ptr<Worker> m_worker;
 };
 
 Pool& pool() {
@@ -135,14 +207,18 @@ isolate::WorkerLaunch launch_of(const IsolationSettings& settings) {
     launch.program = settings.worker_program.empty() ? "/proc/self/exe" : settings.worker_program;
     launch.arguments = {k_worker_command, "--memory-mib", std::to_string(settings.memory_mib),
                         "--preamble-units", std::to_string(settings.preamble_units)};
+    if (settings.shared_headers) {
+        launch.arguments.push_back("--shared-headers");
+    }
     if (settings.show_worker_errors) {
         launch.arguments.push_back("--verbose");
     }
     // A clean environment: no include paths from variables, crashes end the process.
     launch.environment = {"LIBCLANG_DISABLE_CRASH_RECOVERY=1"};
-    if (settings.preamble_units > 0) {
-        // libclang keeps each precompiled preamble in a temporary file: give the parser a
-        // private folder (0700, made once per run) where it may write them, and nothing else.
+    if (settings.preamble_units > 0 || settings.shared_headers) {
+        // libclang keeps each precompiled preamble in a temporary file, and shared headers are
+        // precompiled: give the parser a private folder (0700, made once per run, shared by the
+        // run's parser processes) where it may write them, and nothing else.
         // Removed with whatever is left in it when the program ends.
         struct PrivateFolder {
             std::string path;
@@ -173,7 +249,7 @@ isolate::WorkerLaunch launch_of(const IsolationSettings& settings) {
 std::string launch_key_of(const IsolationSettings& settings) {
     return settings.worker_program + '\x1f' + std::to_string(settings.memory_mib) + '\x1f' +
            (settings.show_worker_errors ? "v" : "q") + '\x1f' +
-           std::to_string(settings.preamble_units);
+           std::to_string(settings.preamble_units) + (settings.shared_headers ? "s" : "");
 }
 
 // Start `worker`'s process and wait for it to be ready. Throws Failure when it cannot start.
@@ -321,7 +397,7 @@ lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const Isolatio
     }
     const std::string launch_key = launch_key_of(settings);
     std::vector<std::string> paths;
-    if (settings.preamble_units > 0) {
+    if (settings.preamble_units > 0 && settings.preamble_homes == 0) {
         for (const LexJob& job : jobs) {
             paths.push_back(job.file->path);
         }
@@ -329,11 +405,21 @@ lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const Isolatio
     std::atomic<std::size_t> next{0};
     std::mutex done_mutex;
     std::exception_ptr first_error;
+    const bool by_home = settings.preamble_units > 0 && settings.preamble_homes > 0;
     auto work = [&] {
-        std::unique_ptr<Worker> worker = pool().take(launch_key, paths);
+        // A thread keeps one worker for the whole call, or with homes borrows each job's home.
+        std::unique_ptr<Worker> held = by_home ? nullptr : pool().take(launch_key, paths);
         try {
             for (std::size_t i = next++; i < jobs.size(); i = next++) {
-                results[i] = lex_one(*worker, jobs[i], *contexts.at(jobs[i].context), settings);
+                SharedContext& context = *contexts.at(jobs[i].context);
+                if (by_home) {
+                    HomeLoan loan(
+                        pool(), launch_key,
+                        pool().home_of(launch_key, jobs[i].file->path, settings.preamble_homes));
+                    results[i] = lex_one(loan.worker(), jobs[i], context, settings);
+                } else {
+                    results[i] = lex_one(*held, jobs[i], context, settings);
+                }
                 if (on_done) {
                     std::lock_guard<std::mutex> lock(done_mutex);
                     on_done(results[i]);
@@ -346,7 +432,9 @@ lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const Isolatio
             }
             next = jobs.size(); // stop the other threads early
         }
-        pool().give(std::move(worker));
+        if (held) {
+            pool().give(std::move(held));
+        }
     };
     run_workers(std::min<unsigned>(std::max(1u, threads), static_cast<unsigned>(jobs.size())),
                 work);

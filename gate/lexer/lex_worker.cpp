@@ -62,13 +62,15 @@ void limit_processor_time(unsigned seconds) {
 }
 
 // The file access a context needs: system headers, plus its cache and trusted folders.
-// The private folder the parent made for this process's preambles (TMPDIR), or empty.
+// The private folder the parent made for this process's preambles and shared precompiled
+// headers (TMPDIR), or empty.
 std::string g_preamble_dir; // NOLINT: set once at start
 
 isolate::PathPolicy policy_for(const ParseContext& context) {
     isolate::PathPolicy policy;
     if (!g_preamble_dir.empty()) {
-        // libclang writes each precompiled preamble to a temporary file and reads it back.
+        // libclang writes each precompiled preamble to a temporary file and reads it back;
+        // shared precompiled headers are kept there too.
         policy.write_roots.push_back(g_preamble_dir);
     }
     policy.read_roots = isolate::system_include_roots();
@@ -131,6 +133,7 @@ bool set_up(std::uint64_t memory_mib) {
 int run_lex_worker(int argc, char** argv) {
     std::uint64_t memory_mib = 0;
     std::size_t preamble_units = 0;
+    bool shared_headers = false;
     bool verbose = false;
     for (int i = 2; i < argc; ++i) {
         const std::string arg = argv[i];
@@ -138,6 +141,8 @@ int run_lex_worker(int argc, char** argv) {
             memory_mib = std::strtoull(argv[++i], nullptr, 10);
         } else if (arg == "--preamble-units" && i + 1 < argc) {
             preamble_units = std::strtoull(argv[++i], nullptr, 10);
+        } else if (arg == "--shared-headers") {
+            shared_headers = true;
         } else if (arg == "--verbose") {
             verbose = true;
         }
@@ -152,8 +157,12 @@ int run_lex_worker(int argc, char** argv) {
     try {
         Lexer lexer;
         lexer.keep_preambles(preamble_units);
-        if (const char* folder = std::getenv("TMPDIR"); folder != nullptr && preamble_units > 0) {
+        if (const char* folder = std::getenv("TMPDIR");
+            folder != nullptr && (preamble_units > 0 || shared_headers)) {
             g_preamble_dir = folder;
+            if (shared_headers) {
+                lexer.share_headers(folder);
+            }
         }
         if (!isolate::write_frame(k_worker_socket_fd, encode_ready())) {
             return 0;

@@ -3,6 +3,7 @@
 #include "gate/lexer/lexer.hpp"
 
 #include "gate/common/errors.hpp"
+#include "gate/common/fnv_digest.hpp"
 #include "gate/lexer/clang_handles.hpp"
 #include "gate/lexer/cursor_facts.hpp"
 #include "gate/lexer/extent_check.hpp"
@@ -14,6 +15,7 @@
 #include "gate/lexer/main_file_stand_ins.hpp"
 #include "gate/lexer/parse_diagnostics.hpp"
 #include "gate/lexer/pch_cache.hpp"
+#include "gate/lexer/shared_headers.hpp"
 #include "gate/lexer/source_lines.hpp"
 #include "gate/lexer/source_token.hpp"
 #include "gate/lexer/token_classifier.hpp"
@@ -176,6 +178,8 @@ struct Lexer::Impl {
                                    // (errors_before_main_code): never reparsed from a preamble
     std::list<LiveUnit> live;      // most recently used first
     std::size_t live_limit = 0;
+    std::string shared_folder;                      // share_headers
+    std::map<std::uint64_t, unsigned> shared_asked; // how often each shared header was asked for
 
     // Take the live unit built under `key` out of the list, or null.
     TranslationUnitHandle take_live(const std::string& key) {
@@ -194,6 +198,35 @@ struct Lexer::Impl {
         while (live.size() > live_limit) {
             live.pop_back();
         }
+    }
+
+    // The shared precompiled header of `file` (shared_headers.hpp) from the second time the same
+    // one is asked for, or nothing (then the standard headers alone serve).
+    std::optional<std::string> shared_pch(const SourceFile& file, const ParseContext& context,
+                                          const std::vector<std::string>& language_flags,
+                                          const std::vector<std::string>& other_args,
+                                          const std::vector<CXUnsavedFile>& unsaved) {
+        const std::optional<SharedIncludes> shared = shared_includes(file, context.headers);
+        if (!shared) {
+            return std::nullopt;
+        }
+        FnvDigest key;
+        for (const std::string& arg : language_flags) {
+            key.add_field(arg);
+        }
+        for (const std::string& arg : other_args) {
+            key.add_field(arg);
+        }
+        key.add_field(std::to_string(shared->digest));
+        if (++shared_asked[key.value()] < 2) {
+            return std::nullopt;
+        }
+        std::string path =
+            shared_header_pch(language_flags, other_args, *shared, unsaved, shared_folder);
+        if (path.empty()) {
+            return std::nullopt;
+        }
+        return path;
     }
 
     const PreparedContext& prepare(const ParseContext& context) {
@@ -225,14 +258,12 @@ struct Lexer::Impl {
         // files. Their contents may differ: libclang checks every file its preamble read
         // (size and MD5 of each unsaved buffer) and builds the preamble anew when one changed;
         // the headers after the preamble are read from the new buffers on every reparse.
-        std::uint64_t digest = 0xcbf29ce484222325ULL;
+        FnvDigest digest;
         for (const SourceFile& header : context.headers) {
-            for (const unsigned char c : header.path) {
-                digest = (digest ^ c) * 0x100000001b3ULL;
-            }
-            digest = (digest ^ 0xffu) * 0x100000001b3ULL;
+            digest.add_field(header.path);
         }
-        entry.header_digest = std::to_string(context.headers.size()) + "." + std::to_string(digest);
+        entry.header_digest =
+            std::to_string(context.headers.size()) + "." + std::to_string(digest.value());
         return entry;
     }
 };
@@ -254,6 +285,10 @@ void Lexer::keep_preambles(std::size_t units) {
     while (m_impl->live.size() > units) {
         m_impl->live.pop_back();
     }
+}
+
+void Lexer::share_headers(const std::string& folder) {
+    m_impl->shared_folder = folder;
 }
 
 FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& context) {
@@ -319,6 +354,16 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
             unsaved.push_back(prepared.unsaved[i]);
         }
     }
+    bool with_shared = false;
+    if (!pch.empty() && !m_impl->shared_folder.empty()) {
+        if (auto shared = m_impl->shared_pch(
+                file, context, language_flags,
+                {args.begin() + static_cast<std::ptrdiff_t>(language_flags.size()), args.end()},
+                unsaved)) {
+            pch = std::move(*shared);
+            with_shared = true;
+        }
+    }
     unsaved.push_back(
         {main_path.c_str(), file.content.data(), static_cast<unsigned long>(file.content.size())});
 
@@ -326,7 +371,9 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     std::string live_key;
     TranslationUnitHandle unit;
     const auto started = std::chrono::steady_clock::now();
-    const char* how = reuse ? "parsed with a new preamble" : "parsed";
+    const char* how = reuse         ? "parsed with a new preamble"
+                      : with_shared ? "parsed after its precompiled shared headers"
+                                    : "parsed";
     if (reuse) {
         args.insert(args.end(), {"-ivfsoverlay", *overlay});
         live_key = main_path + '\x1f' + pch + '\x1f' + prepared.header_digest;

@@ -100,6 +100,11 @@ public:
     // keeps none.
     void keep_preambles(std::size_t units);
 
+    // Precompile the shared headers of a file (shared_headers.hpp) in `folder` the second time a
+    // parse asks for the same ones, and parse with them instead of the standard headers alone.
+    // The results are the same (a header refused by libclang is parsed without). Empty: never.
+    void share_headers(const std::string& folder);
+
 private:
     struct Impl;
     std::unique_ptr<Impl> m_impl;

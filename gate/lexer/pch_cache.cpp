@@ -2,6 +2,7 @@
 // Precompiled standard headers: built once per libclang version, language and flags, reused.
 #include "gate/lexer/pch_cache.hpp"
 
+#include "gate/common/fnv_digest.hpp"
 #include "gate/lexer/clang_handles.hpp"
 
 #include <atomic>
@@ -61,15 +62,6 @@ private:
     int m_fd;
 };
 
-std::uint64_t fnv1a(const std::string& text) {
-    std::uint64_t hash = 1469598103934665603ULL;
-    for (unsigned char c : text) {
-        hash ^= c;
-        hash *= 1099511628211ULL;
-    }
-    return hash;
-}
-
 bool is_cxx(const std::vector<std::string>& flags) {
     for (std::size_t i = 0; i + 1 < flags.size(); ++i) {
         if (flags[i] == "-x") {
@@ -94,9 +86,11 @@ std::string prefix_text(bool cxx) {
     return out.str();
 }
 
-// Build the header at `path` from the prefix at `prefix_path`; return true on success.
+// Build the header at `path` from the prefix at `prefix_path` with `flags` and then `more`
+// arguments, over the in-memory `unsaved` files; return true on success.
 bool build(const std::vector<std::string>& flags, bool cxx, const std::string& prefix_path,
-           const std::string& path) {
+           const std::string& path, const std::vector<std::string>& more = {},
+           const std::vector<CXUnsavedFile>& unsaved = {}) {
     std::vector<std::string> args;
     for (std::size_t i = 0; i < flags.size(); ++i) {
         if (flags[i] == "-x" && i + 1 < flags.size()) {
@@ -108,6 +102,7 @@ bool build(const std::vector<std::string>& flags, bool cxx, const std::string& p
         args.push_back(flags[i]);
     }
     args.push_back("-w");
+    args.insert(args.end(), more.begin(), more.end());
     std::vector<const char*> argv;
     for (const std::string& arg : args) {
         argv.push_back(arg.c_str());
@@ -115,7 +110,8 @@ bool build(const std::vector<std::string>& flags, bool cxx, const std::string& p
     IndexHandle index(clang_createIndex(0, 0));
     CXTranslationUnit raw = nullptr;
     const CXErrorCode code = clang_parseTranslationUnit2(
-        index.get(), prefix_path.c_str(), argv.data(), static_cast<int>(argv.size()), nullptr, 0,
+        index.get(), prefix_path.c_str(), argv.data(), static_cast<int>(argv.size()),
+        const_cast<CXUnsavedFile*>(unsaved.data()), static_cast<unsigned>(unsaved.size()),
         CXTranslationUnit_ForSerialization | CXTranslationUnit_DetailedPreprocessingRecord, &raw);
     TranslationUnitHandle unit(raw);
     if (code != CXError_Success || !unit) {
@@ -156,6 +152,29 @@ bool build(const std::vector<std::string>& flags, bool cxx, const std::string& p
     return true;
 }
 
+// Write `text` to `prefix_path` unless it holds it already (a precompiled header records and
+// checks its input files, so the prefix lives on disk); false when it cannot be written.
+bool write_prefix(const std::string& prefix_path, const std::string& text) {
+    std::ifstream existing(prefix_path, std::ios::binary);
+    std::ostringstream current;
+    current << existing.rdbuf();
+    if (existing && current.str() == text) {
+        return true;
+    }
+    existing.close();
+    const std::string temporary = prefix_path + ".tmp." + std::to_string(::getpid());
+    std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
+    out << text;
+    out.close();
+    std::error_code error;
+    fs::rename(temporary, prefix_path, error);
+    if (!out || error) {
+        spdlog::debug("precompiled header: cannot write \"{}\"", prefix_path);
+        return false;
+    }
+    return true;
+}
+
 } // namespace
 
 std::string precompiled_header(const std::vector<std::string>& language_flags,
@@ -174,7 +193,7 @@ std::string precompiled_header(const std::vector<std::string>& language_flags,
     }
     std::string& result = g_known[memo_key];
     char name[32];
-    std::snprintf(name, sizeof name, "%016llx", static_cast<unsigned long long>(fnv1a(key)));
+    std::snprintf(name, sizeof name, "%016llx", static_cast<unsigned long long>(fnv_digest(key)));
     std::error_code error;
     fs::create_directories(cache_dir, error);
     if (error) {
@@ -195,26 +214,63 @@ std::string precompiled_header(const std::vector<std::string>& language_flags,
     }
     const bool cxx = is_cxx(language_flags);
     const std::string prefix_path = base + (cxx ? ".hpp" : ".h");
-    {
-        // The prefix lives on disk: a precompiled header records and checks its input files.
-        const std::string text = prefix_text(cxx);
-        std::ifstream existing(prefix_path, std::ios::binary);
-        std::ostringstream current;
-        current << existing.rdbuf();
-        if (!existing || current.str() != text) {
-            existing.close();
-            const std::string temporary = prefix_path + ".tmp." + std::to_string(::getpid());
-            std::ofstream out(temporary, std::ios::binary | std::ios::trunc);
-            out << text;
-            out.close();
-            fs::rename(temporary, prefix_path, error);
-            if (!out || error) {
-                spdlog::debug("precompiled header: cannot write \"{}\"", prefix_path);
-                return result;
-            }
-        }
+    if (!write_prefix(prefix_path, prefix_text(cxx))) {
+        return result;
     }
     if (build(language_flags, cxx, prefix_path, path)) {
+        result = path;
+    }
+    return result;
+}
+
+std::string shared_header_pch(const std::vector<std::string>& language_flags,
+                              const std::vector<std::string>& other_args,
+                              const SharedIncludes& shared,
+                              const std::vector<CXUnsavedFile>& unsaved,
+                              const std::string& folder) {
+    if (folder.empty()) {
+        return {};
+    }
+    FnvDigest key;
+    key.add_field(take_string(clang_getClangVersion()));
+    for (const std::string& flag : language_flags) {
+        key.add_field(flag);
+    }
+    key.add_field("\x1e");
+    for (const std::string& arg : other_args) {
+        key.add_field(arg);
+    }
+    key.add_field(std::to_string(shared.digest));
+    char name[48];
+    std::snprintf(name, sizeof name, "tollgate-shared-%016llx",
+                  static_cast<unsigned long long>(key.value()));
+    const std::string base = (fs::path(folder) / name).string();
+    std::lock_guard<std::mutex> lock(g_mutex);
+    const std::string memo_key = base;
+    if (auto found = g_known.find(memo_key); found != g_known.end()) {
+        return found->second;
+    }
+    std::string& result = g_known[memo_key];
+    const std::string path = base + ".pch";
+    std::error_code error;
+    if (fs::exists(path, error)) {
+        result = path;
+        return result;
+    }
+    const FolderLock folder_lock(base + ".lock"); // another parser process may be building it
+    if (fs::exists(path, error)) {
+        result = path;
+        return result;
+    }
+    const bool cxx = is_cxx(language_flags);
+    std::string text = prefix_text(cxx);
+    text += "// The file's shared headers.\n";
+    for (const std::string& line : shared.lines) {
+        text += line + '\n';
+    }
+    const std::string prefix_path = base + (cxx ? ".hpp" : ".h");
+    if (write_prefix(prefix_path, text) &&
+        build(language_flags, cxx, prefix_path, path, other_args, unsaved)) {
         result = path;
     }
     return result;
