@@ -1,7 +1,8 @@
 // SPDX-License-Identifier: MIT
-// Preamble reuse: calibrate reports exactly the same with translation units reparsed from their
-// precompiled preambles as with every version parsed from scratch, on a scripted history whose
-// headers, include blocks and flags change along the way.
+// Reuse of parsed headers: calibrate reports exactly the same with translation units reparsed
+// from their precompiled preambles, or parsed after their precompiled shared headers, as with
+// every version parsed from scratch, on a scripted history whose headers, include blocks and
+// flags change along the way.
 #include "support/fake_forge.hpp"
 #include "support/temp_repo.hpp"
 
@@ -76,7 +77,8 @@ nlohmann::json measured(const std::string& out) {
 
 } // namespace
 
-TEST_CASE("calibrate reports the same with and without preamble reuse", "[calibrate]") {
+TEST_CASE("calibrate reports the same with and without preamble reuse and shared headers",
+          "[calibrate]") {
     TempDir dir, pch_cache;
     const std::string repo = make_history(dir);
     ScopedEnvironment environment;
@@ -86,26 +88,42 @@ TEST_CASE("calibrate reports the same with and without preamble reuse", "[calibr
         // under another path (main_file_stand_ins.hpp), which once made every file measure empty.
         for (const char* pch : {"--no-pch-cache", ""}) {
             DYNAMIC_SECTION("with " << jobs << " workers " << pch) {
-                TempDir plain_cache, reuse_cache;
+                TempDir plain_cache;
                 const auto plain = run_tollgate(
                     fmt::format("calibrate -v {} -j {} --format json --preamble-units 0 "
-                                "--cache-dir {}",
+                                "--no-shared-headers --cache-dir {}",
                                 pch, jobs, shell_quote(plain_cache.path())),
                     repo);
                 INFO(plain.err);
                 REQUIRE(plain.exit_code == 0);
-                const auto reuse = run_tollgate(
-                    fmt::format("calibrate -v {} -j {} --format json --preamble-units 4 "
-                                "--cache-dir {}",
-                                pch, jobs, shell_quote(reuse_cache.path())),
-                    repo);
-                INFO(reuse.err);
-                REQUIRE(reuse.exit_code == 0);
-                // The switch works both ways: reuse happened in one run and not in the other.
-                CHECK(reuse.err.find("reparsed (preamble kept") != std::string::npos);
                 CHECK(plain.err.find("reparsed") == std::string::npos);
+                CHECK(plain.err.find("shared headers") == std::string::npos);
                 const nlohmann::json plain_report = measured(plain.out);
-                CHECK(measured(reuse.out) == plain_report);
+                // Each way of reusing parsed headers, alone and together.
+                for (const char* reuse_options : {"--preamble-units 4 --no-shared-headers",
+                                                  "--preamble-units 0", "--preamble-units 4"}) {
+                    TempDir reuse_cache;
+                    const auto reuse = run_tollgate(
+                        fmt::format("calibrate -v {} -j {} --format json {} --cache-dir {}", pch,
+                                    jobs, reuse_options, shell_quote(reuse_cache.path())),
+                        repo);
+                    INFO(reuse_options << "\n" << reuse.err);
+                    REQUIRE(reuse.exit_code == 0);
+                    // The switches work both ways: reuse happened here and not in the plain run.
+                    const bool preambles =
+                        std::string(reuse_options).find("units 4") != std::string::npos;
+                    const bool shared =
+                        std::string(reuse_options).find("--no-shared") == std::string::npos;
+                    if (preambles) {
+                        CHECK(reuse.err.find("reparsed (preamble kept") != std::string::npos);
+                    }
+                    if (shared && !preambles && std::string(pch).empty()) {
+                        // The shared headers ride on the precompiled standard headers.
+                        CHECK(reuse.err.find("after its precompiled shared headers") !=
+                              std::string::npos);
+                    }
+                    CHECK(measured(reuse.out) == plain_report);
+                }
                 CHECK(plain_report["commits"].size() == 8);
                 // Every commit measured functions: nothing came out empty.
                 for (const auto& commit : plain_report["commits"]) {
