@@ -33,6 +33,11 @@ namespace tollgate::lexer {
 
 namespace {
 
+// A shared header is precompiled on its third request: building costs about two plain parses, and
+// on real histories most include sets come back once or twice (a googletest history spent more
+// on builds it used once than it saved).
+constexpr unsigned k_shared_asks = 3;
+
 constexpr std::size_t k_npos = static_cast<std::size_t>(-1);
 
 // The unsaved-file list and include flags of one ParseContext, built once.
@@ -180,6 +185,7 @@ struct Lexer::Impl {
     std::size_t live_limit = 0;
     std::string shared_folder;                      // share_headers
     std::map<std::uint64_t, unsigned> shared_asked; // how often each shared header was asked for
+    std::set<std::uint64_t> shared_failed; // include lines and flags whose header did not build
 
     // Take the live unit built under `key` out of the list, or null.
     TranslationUnitHandle take_live(const std::string& key) {
@@ -201,29 +207,43 @@ struct Lexer::Impl {
     }
 
     // The shared precompiled header of `file` (shared_headers.hpp) from the second time the same
-    // one is asked for, or nothing (then the standard headers alone serve).
+    // one is asked for, or nothing (then the standard headers alone serve). `lines_key` is set
+    // to what identifies the include lines and flags (0: the file has none to share).
     std::optional<std::string> shared_pch(const SourceFile& file, const ParseContext& context,
                                           const std::vector<std::string>& language_flags,
                                           const std::vector<std::string>& other_args,
-                                          const std::vector<CXUnsavedFile>& unsaved) {
+                                          const std::vector<CXUnsavedFile>& unsaved,
+                                          std::uint64_t& lines_key) {
+        lines_key = 0;
         const std::optional<SharedIncludes> shared = shared_includes(file, context.headers);
         if (!shared) {
             return std::nullopt;
         }
-        FnvDigest key;
+        FnvDigest lines;
         for (const std::string& arg : language_flags) {
-            key.add_field(arg);
+            lines.add_field(arg);
         }
         for (const std::string& arg : other_args) {
-            key.add_field(arg);
+            lines.add_field(arg);
         }
-        key.add_field(std::to_string(shared->digest));
-        if (++shared_asked[key.value()] < 2) {
+        for (const std::string& line : shared->lines) {
+            lines.add_field(line);
+        }
+        lines_key = lines.value();
+        if (shared_failed.count(lines.value()) != 0) {
+            return std::nullopt;
+        }
+        const std::uint64_t key =
+            FnvDigest(lines).add_field(std::to_string(shared->digest)).value();
+        if (++shared_asked[key] < k_shared_asks) {
             return std::nullopt;
         }
         std::string path =
             shared_header_pch(language_flags, other_args, *shared, unsaved, shared_folder);
         if (path.empty()) {
+            // Those headers did not compile alone (they need flags the file does not give, say):
+            // later versions are not tried either, each try costs more than a parse.
+            shared_failed.insert(lines.value());
             return std::nullopt;
         }
         return path;
@@ -355,11 +375,12 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         }
     }
     bool with_shared = false;
+    std::uint64_t shared_lines = 0;
     if (!pch.empty() && !m_impl->shared_folder.empty()) {
         if (auto shared = m_impl->shared_pch(
                 file, context, language_flags,
                 {args.begin() + static_cast<std::ptrdiff_t>(language_flags.size()), args.end()},
-                unsaved)) {
+                unsaved, shared_lines)) {
             pch = std::move(*shared);
             with_shared = true;
         }
@@ -446,7 +467,13 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
 
     // Parse errors become warnings, in words that never quote a header outside the revision.
     CXFile main_file = clang_getFile(unit.get(), main_path.c_str());
-    if (m_impl->live_limit > 0 && errors_before_main_code(unit.get(), main_file, file.content)) {
+    const bool header_errors = (m_impl->live_limit > 0 || shared_lines != 0) &&
+                               errors_before_main_code(unit.get(), main_file, file.content);
+    if (header_errors && shared_lines != 0 && !with_shared) {
+        // Headers that show errors here would not precompile either: never try.
+        m_impl->shared_failed.insert(shared_lines);
+    }
+    if (m_impl->live_limit > 0 && header_errors) {
         // With such errors a preamble could change how the rest parses: this path is parsed
         // from scratch from now on, this version too.
         m_impl->refused.insert(main_path);

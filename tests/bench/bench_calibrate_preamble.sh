@@ -1,11 +1,13 @@
 #!/usr/bin/env bash
 # SPDX-License-Identifier: MIT
-# Benchmark preamble reuse in `tollgate calibrate`: a generated history (gen_history.py, invented
-# code) whose sources all include a heavy header-only library of our own generation, replayed with
-# every version parsed from scratch (--preamble-units 0, the default) and with reuse (32 units), cold and
-# warm lexed-file cache, 1 and 2 workers. Prints the ratio reuse/plain measured in the same run
-# (target: <= 0.35 cold), peak memory of the whole process tree (target: <= 500 MiB), CPU time,
-# the load average beside every figure, and whether both reports agree.
+# Benchmark reuse of parsed headers in `tollgate calibrate`: a generated history (gen_history.py,
+# invented code) whose sources all include a heavy header-only library of our own generation,
+# replayed with every version parsed from scratch after the precompiled standard headers only
+# (--preamble-units 0 --no-shared-headers), after its precompiled shared headers (the default),
+# and with kept preambles (--preamble-units 32 --no-shared-headers), cold and warm lexed-file
+# cache, 1 and 2 workers. Prints the ratios reuse/plain measured in the same run (target: <= 0.35
+# cold), peak memory of the whole process tree (target: <= 500 MiB), CPU time, the load average
+# beside every figure, and whether the reports agree.
 # Run by hand after building: bash tests/bench/bench_calibrate_preamble.sh [build-dir] [COMMITS] [FILES]
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
@@ -57,14 +59,23 @@ ratio() { # $1 label, $2 reuse label, $3 plain label: wall and CPU ratios (CPU i
     python3 -c "print(f'reuse/plain $1: wall {$(cat "$work/$2.s") / $(cat "$work/$3.s"):.2f}, cpu {$(cat "$work/$2.s.cpu") / $(cat "$work/$3.s.cpu"):.2f}')"
 }
 
-run plain-j1-cold "$work/c-plain1" -j 1 --preamble-units 0
-run reuse-j1-cold "$work/c-reuse1" -j 1 --preamble-units 32
-ratio "1 worker, cold" reuse-j1-cold plain-j1-cold
-same plain-j1-cold reuse-j1-cold
-run plain-j2-cold "$work/c-plain2" -j 2 --preamble-units 0
-run reuse-j2-cold "$work/c-reuse2" -j 2 --preamble-units 32
-ratio "2 workers, cold" reuse-j2-cold plain-j2-cold
-same plain-j2-cold reuse-j2-cold
-run plain-j2-warm "$work/c-plain2" -j 2 --preamble-units 0
-run reuse-j2-warm "$work/c-reuse2" -j 2 --preamble-units 32
-ratio "2 workers, warm (nothing to parse)" reuse-j2-warm plain-j2-warm
+plain=(--preamble-units 0 --no-shared-headers)
+preambles=(--preamble-units 32 --no-shared-headers)
+shared=(--preamble-units 0)
+run plain-j1-cold "$work/c-plain1" -j 1 "${plain[@]}"
+run shared-j1-cold "$work/c-shared1" -j 1 "${shared[@]}"
+run preambles-j1-cold "$work/c-pre1" -j 1 "${preambles[@]}"
+ratio "shared headers, 1 worker, cold" shared-j1-cold plain-j1-cold
+ratio "preambles, 1 worker, cold" preambles-j1-cold plain-j1-cold
+same plain-j1-cold shared-j1-cold
+same plain-j1-cold preambles-j1-cold
+run plain-j2-cold "$work/c-plain2" -j 2 "${plain[@]}"
+run shared-j2-cold "$work/c-shared2" -j 2 "${shared[@]}"
+run preambles-j2-cold "$work/c-pre2" -j 2 "${preambles[@]}"
+ratio "shared headers, 2 workers, cold" shared-j2-cold plain-j2-cold
+ratio "preambles, 2 workers, cold" preambles-j2-cold plain-j2-cold
+same plain-j2-cold shared-j2-cold
+same plain-j2-cold preambles-j2-cold
+run plain-j2-warm "$work/c-plain2" -j 2 "${plain[@]}"
+run shared-j2-warm "$work/c-shared2" -j 2 "${shared[@]}"
+ratio "2 workers, warm (nothing to parse)" shared-j2-warm plain-j2-warm
