@@ -209,8 +209,9 @@ std::optional<SharedIncludes> shared_includes(const SourceFile& file,
         if (rest.empty() || rest.rfind("//", 0) == 0) {
             continue;
         }
-        if (rest.back() == '\\') {
-            break; // a continued line: doubt
+        if (rest.back() == '\\' ||
+            rest.find_first_of(std::string_view("\r\f\v\0", 4)) != std::string_view::npos) {
+            break; // a continued line, or a character a compiler may take as a line end: doubt
         }
         const Directive directive = directive_of(rest);
         if (directive.name == "pragma" && directive.rest == "once") {

@@ -50,6 +50,11 @@ TEST_CASE("shared_includes stops at the first directive or code that is not an i
     CHECK_FALSE(
         lexer::shared_includes({"src/a.cpp", "#define X 1\n#include <vector>\n"}, headers()));
     CHECK_FALSE(lexer::shared_includes({"src/b.cpp", "int b() { return 1; }\n"}, headers()));
+    // A carriage return inside a line may end it for the compiler: the run stops before it.
+    const auto returned = lexer::shared_includes(
+        {"src/d.cpp", "#include <vector>\n#include <map> // x\r#define Y 1\n"}, headers());
+    REQUIRE(returned);
+    CHECK(returned->lines == std::vector<std::string>{"#include <vector>"});
     // An include of a macro is a doubt: the run stops before it.
     CHECK_FALSE(lexer::shared_includes({"src/c.cpp", "#include HEADER_OF_C\n"}, headers()));
 }
