@@ -12,6 +12,7 @@
 #include <csignal>
 #include <cstdio>
 #include <cstring>
+#include <malloc.h>
 #include <map>
 #include <memory>
 #include <new>
@@ -206,6 +207,10 @@ int run_lex_worker(int argc, char** argv) {
             if (!isolate::write_frame(k_worker_socket_fd, reply)) {
                 break;
             }
+            // A parse frees most of what it took; give it back between files, so that the
+            // run's peak is what its parser processes hold at once, not the sum of each one's
+            // largest file ever.
+            ::malloc_trim(0);
         }
     } catch (const std::bad_alloc&) {
         out_of_memory();
