@@ -6,8 +6,8 @@
 # (--preamble-units 0 --no-shared-headers), after its precompiled shared headers (the default),
 # and with kept preambles (--preamble-units 32 --no-shared-headers), cold and warm lexed-file
 # cache, 1 and 2 workers. Prints the ratios reuse/plain measured in the same run (target: <= 0.35
-# cold), peak memory of the whole process tree (target: <= 500 MiB), CPU time, the load average
-# beside every figure, and whether the reports agree.
+# cold), peak memory of the whole process tree, resident and proportional (target: <= 500 MiB),
+# CPU time, the load average beside every figure, and whether the reports agree.
 # Run by hand after building: bash tests/bench/bench_calibrate_preamble.sh [build-dir] [COMMITS] [FILES]
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
@@ -37,9 +37,9 @@ run() { # $1 label, $2 cache dir, rest: calibrate arguments; prints a line, keep
 import json, sys
 label, start, end, peak, out, before, after, keep = sys.argv[1:]
 seconds = float(end) - float(start)
-mib, cpu = open(peak).read().split()
+mib, cpu, pss = open(peak).read().split()
 c = json.load(open(out))["cache"]
-print(f"{label:<22} {seconds:8.2f} s  cpu {float(cpu):8.2f} s  peak {float(mib):7.1f} MiB  "
+print(f"{label:<22} {seconds:8.2f} s  cpu {float(cpu):8.2f} s  peak {float(mib):7.1f} MiB (pss {float(pss):7.1f})  "
       f"parses {c['parses']}/{c['visits']}  load {before} -> {after}")
 open(keep, "w").write(str(seconds))
 open(keep + ".cpu", "w").write(cpu)

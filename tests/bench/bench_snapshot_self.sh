@@ -30,9 +30,9 @@ run() { # $1 label, rest: snapshot arguments
 import sys
 label, start, end, use, files, before, after = sys.argv[1:]
 seconds = float(end) - float(start)
-mib, cpu = open(use).read().split()
+mib, cpu, pss = open(use).read().split()
 print(f"{label:<26} {seconds:7.2f} s  {int(files) / seconds:6.2f} files/s  cpu {float(cpu):7.2f} s"
-      f"  peak {float(mib):7.1f} MiB  load {before} -> {after}")
+      f"  peak {float(mib):7.1f} MiB (pss {float(pss):7.1f})  load {before} -> {after}")
 PY
 }
 run "1 parser process" -j 1 --out "$work/one.json"

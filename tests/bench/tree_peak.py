@@ -2,8 +2,12 @@
 # SPDX-License-Identifier: MIT
 """Run a command and report the peak of the summed resident memory of it and all its descendants
 (tollgate and its parser processes), and its CPU time (user + system of it and every descendant
-it waited for), polling /proc every 50 ms (a peak shorter than that can be missed).
-Usage: tree_peak.py OUT_FILE COMMAND [ARGS...]; OUT_FILE gets "PEAK_MIB CPU_SECONDS"."""
+it waited for), polling /proc every 50 ms (a peak shorter than that can be missed). The resident
+sum counts pages the processes share (libclang's code, say) once per process; the proportional
+sum (Pss of /proc/PID/smaps_rollup, each shared page split among its sharers) is what the tree
+takes from the machine.
+Usage: tree_peak.py OUT_FILE COMMAND [ARGS...]; OUT_FILE gets
+"PEAK_RSS_MIB CPU_SECONDS PEAK_PSS_MIB"."""
 import os
 import resource
 import subprocess
@@ -25,9 +29,10 @@ def children_map():
     return kids
 
 
-def tree_rss_kib(root):
+def tree_kib(root):
+    """Return the summed resident and proportional memory of `root` and its descendants, in KiB."""
     kids = children_map()
-    total, todo = 0, [root]
+    rss, pss, todo = 0, 0, [root]
     while todo:
         pid = todo.pop()
         todo += kids.get(pid, [])
@@ -35,22 +40,27 @@ def tree_rss_kib(root):
             with open(f"/proc/{pid}/status") as f:
                 for line in f:
                     if line.startswith("VmRSS:"):
-                        total += int(line.split()[1])
+                        rss += int(line.split()[1])
+            with open(f"/proc/{pid}/smaps_rollup") as f:
+                for line in f:
+                    if line.startswith("Pss:"):
+                        pss += int(line.split()[1])
         except OSError:
             pass
-    return total
+    return rss, pss
 
 
 def main():
     out, command = sys.argv[1], sys.argv[2:]
     process = subprocess.Popen(command)
-    peak = 0
+    peak, peak_pss = 0, 0
     while process.poll() is None:
-        peak = max(peak, tree_rss_kib(process.pid))
+        rss, pss = tree_kib(process.pid)
+        peak, peak_pss = max(peak, rss), max(peak_pss, pss)
         time.sleep(0.05)
     usage = resource.getrusage(resource.RUSAGE_CHILDREN)
     with open(out, "w") as f:
-        f.write(f"{peak / 1024:.1f} {usage.ru_utime + usage.ru_stime:.2f}\n")
+        f.write(f"{peak / 1024:.1f} {usage.ru_utime + usage.ru_stime:.2f} {peak_pss / 1024:.1f}\n")
     sys.exit(process.returncode)
 
 
