@@ -377,6 +377,18 @@ FileFunctions lex_one(Worker& worker, const LexJob& job, SharedContext& context,
     return fall_back(job, ParserStop::crashed, 0);
 }
 
+// Lex `job` in `held`, the calling thread's worker, or when null in the home process of the
+// job's path (waiting while another call has it).
+FileFunctions lex_job(Worker* held, const LexJob& job, SharedContext& context,
+                      const IsolationSettings& settings, const std::string& launch_key) {
+    if (held != nullptr) {
+        return lex_one(*held, job, context, settings);
+    }
+    HomeLoan loan(pool(), launch_key,
+                  pool().home_of(launch_key, job.file->path, settings.preamble_homes));
+    return lex_one(loan.worker(), job, context, settings);
+}
+
 } // namespace
 
 std::vector<FileFunctions>
@@ -397,7 +409,7 @@ lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const Isolatio
     }
     const std::string launch_key = launch_key_of(settings);
     std::vector<std::string> paths;
-    if (settings.preamble_units > 0 && settings.preamble_homes == 0) {
+    if (settings.preamble_units > 0) {
         for (const LexJob& job : jobs) {
             paths.push_back(job.file->path);
         }
@@ -411,15 +423,8 @@ lex_in_workers(const std::vector<LexJob>& jobs, unsigned threads, const Isolatio
         std::unique_ptr<Worker> held = by_home ? nullptr : pool().take(launch_key, paths);
         try {
             for (std::size_t i = next++; i < jobs.size(); i = next++) {
-                SharedContext& context = *contexts.at(jobs[i].context);
-                if (by_home) {
-                    HomeLoan loan(
-                        pool(), launch_key,
-                        pool().home_of(launch_key, jobs[i].file->path, settings.preamble_homes));
-                    results[i] = lex_one(loan.worker(), jobs[i], context, settings);
-                } else {
-                    results[i] = lex_one(*held, jobs[i], context, settings);
-                }
+                results[i] = lex_job(held.get(), jobs[i], *contexts.at(jobs[i].context), settings,
+                                     launch_key);
                 if (on_done) {
                     std::lock_guard<std::mutex> lock(done_mutex);
                     on_done(results[i]);

@@ -129,42 +129,57 @@ bool set_up(std::uint64_t memory_mib) {
     return true;
 }
 
-} // namespace
-
-int run_lex_worker(int argc, char** argv) {
+// The parser process's arguments, as lex_pool's launch_of writes them.
+struct WorkerArguments {
     std::uint64_t memory_mib = 0;
     std::size_t preamble_units = 0;
     bool shared_headers = false;
     bool verbose = false;
+};
+
+WorkerArguments read_arguments(int argc, char** argv) {
+    WorkerArguments read;
     for (int i = 2; i < argc; ++i) {
         const std::string arg = argv[i];
         if (arg == "--memory-mib" && i + 1 < argc) {
-            memory_mib = std::strtoull(argv[++i], nullptr, 10);
+            read.memory_mib = std::strtoull(argv[++i], nullptr, 10);
         } else if (arg == "--preamble-units" && i + 1 < argc) {
-            preamble_units = std::strtoull(argv[++i], nullptr, 10);
-        } else if (arg == "--shared-headers") {
-            shared_headers = true;
-        } else if (arg == "--verbose") {
-            verbose = true;
+            read.preamble_units = std::strtoull(argv[++i], nullptr, 10);
+        } else {
+            read.shared_headers = read.shared_headers || arg == "--shared-headers";
+            read.verbose = read.verbose || arg == "--verbose";
         }
     }
+    return read;
+}
+
+// Keep preambles and shared headers as `arguments` ask, in the private folder the parent gave.
+void set_up_reuse(Lexer& lexer, const WorkerArguments& arguments) {
+    lexer.keep_preambles(arguments.preamble_units);
+    const char* folder = std::getenv("TMPDIR");
+    if (folder == nullptr || (arguments.preamble_units == 0 && !arguments.shared_headers)) {
+        return;
+    }
+    g_preamble_dir = folder;
+    if (arguments.shared_headers) {
+        lexer.share_headers(folder);
+    }
+}
+
+} // namespace
+
+int run_lex_worker(int argc, char** argv) {
+    const WorkerArguments arguments = read_arguments(argc, argv);
     auto logger = spdlog::stderr_color_st("tollgate-parser");
     logger->set_pattern("tollgate parser: %l: %v");
-    logger->set_level(verbose ? spdlog::level::debug : spdlog::level::off);
+    logger->set_level(arguments.verbose ? spdlog::level::debug : spdlog::level::off);
     spdlog::set_default_logger(logger);
-    if (!set_up(memory_mib)) {
+    if (!set_up(arguments.memory_mib)) {
         return k_exit_cannot_start;
     }
     try {
         Lexer lexer;
-        lexer.keep_preambles(preamble_units);
-        if (const char* folder = std::getenv("TMPDIR");
-            folder != nullptr && (preamble_units > 0 || shared_headers)) {
-            g_preamble_dir = folder;
-            if (shared_headers) {
-                lexer.share_headers(folder);
-            }
-        }
+        set_up_reuse(lexer, arguments);
         if (!isolate::write_frame(k_worker_socket_fd, encode_ready())) {
             return 0;
         }

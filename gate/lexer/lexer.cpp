@@ -170,6 +170,58 @@ bool from_macro(CXCursor cursor) {
     return spelling != expansion || spelling_file != expansion_file;
 }
 
+// A file's flags from the compile database, split: the language flags (-x, -std, -D, -U) also
+// key the precompiled headers.
+struct FileFlags {
+    std::vector<std::string> language;
+    std::vector<std::string> other;
+    bool has_include = false; // an -include flag: no precompiled header then
+};
+
+FileFlags file_flags(Language language, const ParseContext& context, const std::string& path) {
+    FileFlags split;
+    split.language = {"-x", language == Language::c ? "c" : "c++"};
+    bool has_std = false;
+    if (const auto* found = flags_for(context, path)) {
+        for (const std::string& flag : *found) {
+            if (flag.rfind("-std=", 0) == 0) {
+                has_std = true;
+                split.language.push_back(flag);
+            } else if (flag.rfind("-D", 0) == 0 || flag.rfind("-U", 0) == 0) {
+                split.language.push_back(flag);
+            } else {
+                split.has_include = split.has_include || flag == "-include";
+                split.other.push_back(flag);
+            }
+        }
+    }
+    if (!has_std) {
+        split.language.insert(split.language.begin() + 2,
+                              language == Language::c ? "-std=gnu11" : "-std=c++17");
+    }
+    return split;
+}
+
+// True when libclang refused the precompiled header `unit` was parsed with (a fatal error
+// about it), or gave no unit at all.
+bool pch_refused(CXTranslationUnit unit) {
+    if (unit == nullptr) {
+        return true;
+    }
+    for (unsigned i = 0; i < clang_getNumDiagnostics(unit); ++i) {
+        DiagnosticHandle diagnostic(clang_getDiagnostic(unit, i));
+        if (clang_getDiagnosticSeverity(diagnostic.get()) != CXDiagnostic_Fatal) {
+            continue;
+        }
+        const std::string text = take_string(clang_getDiagnosticSpelling(diagnostic.get()));
+        if (text.find("precompiled") != std::string::npos ||
+            text.find("PCH") != std::string::npos || text.find("AST file") != std::string::npos) {
+            return true;
+        }
+    }
+    return false;
+}
+
 } // namespace
 
 struct Lexer::Impl {
@@ -206,9 +258,50 @@ struct Lexer::Impl {
         }
     }
 
-    // The shared precompiled header of `file` (shared_headers.hpp) from the second time the same
-    // one is asked for, or nothing (then the standard headers alone serve). `lines_key` is set
-    // to what identifies the include lines and flags (0: the file has none to share).
+    // Parse `main_path` from scratch with `args` and `pch` (when not empty) over `unsaved`; a
+    // precompiled header libclang refuses is discarded (`pch` cleared) and the file parsed
+    // without it. Null when libclang gives no unit.
+    TranslationUnitHandle parse_fresh(const std::string& main_path,
+                                      const std::vector<std::string>& args, std::string& pch,
+                                      std::vector<CXUnsavedFile>& unsaved, unsigned options,
+                                      const std::string& path) {
+        TranslationUnitHandle unit;
+        for (int attempt = 0; attempt < 2 && !unit; ++attempt) {
+            std::vector<std::string> attempt_args = args;
+            if (!pch.empty()) {
+                attempt_args.push_back("-include-pch");
+                attempt_args.push_back(pch);
+            }
+            std::vector<const char*> argv;
+            for (const std::string& arg : attempt_args) {
+                argv.push_back(arg.c_str());
+            }
+            CXTranslationUnit raw = nullptr;
+            const CXErrorCode code = clang_parseTranslationUnit2(
+                index.get(), main_path.c_str(), argv.data(), static_cast<int>(argv.size()),
+                unsaved.data(), static_cast<unsigned>(unsaved.size()), options, &raw);
+            unit.reset(code == CXError_Success ? raw : nullptr);
+            if (code != CXError_Success && raw != nullptr) {
+                clang_disposeTranslationUnit(raw);
+            }
+            if (pch.empty()) {
+                break;
+            }
+            if (pch_refused(unit.get())) {
+                spdlog::debug("precompiled header \"{}\" refused for \"{}\": parsing without it",
+                              pch, path);
+                discard_precompiled_header(pch);
+                pch.clear();
+                unit.reset();
+            }
+        }
+        return unit;
+    }
+
+    // The shared precompiled header of `file` (shared_headers.hpp) once the same one has been
+    // asked for k_shared_asks times, or nothing (then the standard headers alone serve).
+    // `lines_key` is set to what identifies the include lines and flags (0: the file has none to
+    // share).
     std::optional<std::string> shared_pch(const SourceFile& file, const ParseContext& context,
                                           const std::vector<std::string>& language_flags,
                                           const std::vector<std::string>& other_args,
@@ -321,30 +414,10 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     }
     const PreparedContext& prepared = m_impl->prepare(context);
 
-    // Language flags first: they also key the precompiled header.
-    std::vector<std::string> language_flags = {"-x", *language == Language::c ? "c" : "c++"};
-    std::vector<std::string> other_flags;
-    bool has_std = false;
-    bool has_include = false;
-    if (const auto* found = flags_for(context, file.path)) {
-        const auto& flags = *found;
-        for (std::size_t i = 0; i < flags.size(); ++i) {
-            const std::string& flag = flags[i];
-            if (flag.rfind("-std=", 0) == 0) {
-                has_std = true;
-                language_flags.push_back(flag);
-            } else if (flag.rfind("-D", 0) == 0 || flag.rfind("-U", 0) == 0) {
-                language_flags.push_back(flag);
-            } else {
-                has_include = has_include || flag == "-include";
-                other_flags.push_back(flag);
-            }
-        }
-    }
-    if (!has_std) {
-        language_flags.insert(language_flags.begin() + 2,
-                              *language == Language::c ? "-std=gnu11" : "-std=c++17");
-    }
+    FileFlags flags = file_flags(*language, context, file.path);
+    std::vector<std::string>& language_flags = flags.language;
+    const std::vector<std::string>& other_flags = flags.other;
+    const bool has_include = flags.has_include;
     // Reuse needs the main path on disk and, with it, the GCC headers under their own path
     // (main_file_stand_ins.hpp); without a stand-in the unit would be kept for nothing.
     const std::string main_path = k_virtual_root + file.path;
@@ -416,47 +489,8 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
         (reuse
              ? CXTranslationUnit_PrecompiledPreamble | CXTranslationUnit_CreatePreambleOnFirstParse
              : 0u);
-    for (int attempt = 0; attempt < 2 && !unit; ++attempt) {
-        std::vector<std::string> attempt_args = args;
-        if (!pch.empty()) {
-            attempt_args.push_back("-include-pch");
-            attempt_args.push_back(pch);
-        }
-        std::vector<const char*> argv;
-        for (const std::string& arg : attempt_args) {
-            argv.push_back(arg.c_str());
-        }
-        CXTranslationUnit raw = nullptr;
-        const CXErrorCode code = clang_parseTranslationUnit2(
-            m_impl->index.get(), main_path.c_str(), argv.data(), static_cast<int>(argv.size()),
-            unsaved.data(), static_cast<unsigned>(unsaved.size()), options, &raw);
-        unit.reset(code == CXError_Success ? raw : nullptr);
-        if (code != CXError_Success && raw != nullptr) {
-            clang_disposeTranslationUnit(raw);
-        }
-        if (pch.empty()) {
-            break;
-        }
-        bool pch_refused = !unit;
-        for (unsigned i = 0; unit && i < clang_getNumDiagnostics(unit.get()); ++i) {
-            DiagnosticHandle diagnostic(clang_getDiagnostic(unit.get(), i));
-            if (clang_getDiagnosticSeverity(diagnostic.get()) != CXDiagnostic_Fatal) {
-                continue;
-            }
-            const std::string text = take_string(clang_getDiagnosticSpelling(diagnostic.get()));
-            if (text.find("precompiled") != std::string::npos ||
-                text.find("PCH") != std::string::npos ||
-                text.find("AST file") != std::string::npos) {
-                pch_refused = true;
-            }
-        }
-        if (pch_refused) {
-            spdlog::debug("precompiled header \"{}\" refused for \"{}\": parsing without it", pch,
-                          file.path);
-            discard_precompiled_header(pch);
-            pch.clear();
-            unit.reset();
-        }
+    if (!unit) {
+        unit = m_impl->parse_fresh(main_path, args, pch, unsaved, options, file.path);
     }
     if (!unit) {
         throw Failure("libclang could not parse \"" + file.path +

@@ -86,11 +86,10 @@ std::string prefix_text(bool cxx) {
     return out.str();
 }
 
-// Build the header at `path` from the prefix at `prefix_path` with `flags` and then `more`
-// arguments, over the in-memory `unsaved` files; return true on success.
-bool build(const std::vector<std::string>& flags, bool cxx, const std::string& prefix_path,
-           const std::string& path, const std::vector<std::string>& more = {},
-           const std::vector<CXUnsavedFile>& unsaved = {}) {
+// The arguments that precompile a header for parses with `flags` and then `more`: the language
+// of `-x` as a header, warnings off.
+std::vector<std::string> header_arguments(const std::vector<std::string>& flags, bool cxx,
+                                          const std::vector<std::string>& more) {
     std::vector<std::string> args;
     for (std::size_t i = 0; i < flags.size(); ++i) {
         if (flags[i] == "-x" && i + 1 < flags.size()) {
@@ -103,6 +102,15 @@ bool build(const std::vector<std::string>& flags, bool cxx, const std::string& p
     }
     args.push_back("-w");
     args.insert(args.end(), more.begin(), more.end());
+    return args;
+}
+
+// Build the header at `path` from the prefix at `prefix_path` with `flags` and then `more`
+// arguments, over the in-memory `unsaved` files; return true on success.
+bool build(const std::vector<std::string>& flags, bool cxx, const std::string& prefix_path,
+           const std::string& path, const std::vector<std::string>& more = {},
+           const std::vector<CXUnsavedFile>& unsaved = {}) {
+    const std::vector<std::string> args = header_arguments(flags, cxx, more);
     std::vector<const char*> argv;
     for (const std::string& arg : args) {
         argv.push_back(arg.c_str());
