@@ -180,15 +180,16 @@ bool defines_macros(std::string_view text) {
     return defines > (guard_macro(directives).empty() ? 0 : 1);
 }
 
-} // namespace
-
-std::optional<SharedIncludes> shared_includes(const SourceFile& file,
-                                              const std::vector<SourceFile>& headers) {
-    // The leading run of #include lines.
+// The leading run of #include lines of a file: as written, and what each names.
+struct Leading {
     std::vector<std::string> lines;
     std::vector<Included> names;
+};
+
+Leading leading_includes(std::string_view content) {
+    Leading found;
     bool in_comment = false;
-    for (const std::string_view line : lines_of(file.content)) {
+    for (const std::string_view line : lines_of(content)) {
         std::string_view rest = trim(line);
         if (in_comment) {
             const std::size_t end = rest.find("*/");
@@ -217,54 +218,62 @@ std::optional<SharedIncludes> shared_includes(const SourceFile& file,
         if (directive.name == "pragma" && directive.rest == "once") {
             continue;
         }
-        if (directive.name != "include") {
-            break;
-        }
-        const auto included = included_of(directive.rest);
+        const auto included =
+            directive.name == "include" ? included_of(directive.rest) : std::nullopt;
         if (!included) {
             break;
         }
-        lines.emplace_back(rest);
-        names.push_back(*included);
+        found.lines.emplace_back(rest);
+        found.names.push_back(*included);
     }
-    if (names.empty()) {
-        return std::nullopt;
+    return found;
+}
+
+// Leave out the file's own header (first, quoted, named like `path`) when moving it after the
+// others can change nothing; false when it cannot be left out safely.
+bool drop_own_header(Leading& leading, const std::string& path,
+                     const std::vector<SourceFile>& headers) {
+    const Included& first = leading.names.front();
+    if (first.delimiter != '"' || stem(first.name) != stem(path)) {
+        return true;
     }
-    // The file's own header, first and named like it, changes with it: left out, when moving it
-    // after the others can change nothing.
-    if (names.front().delimiter == '"' && stem(names.front().name) == stem(file.path)) {
-        const std::vector<const SourceFile*> own = matches(names.front().name, headers);
-        if (own.empty()) {
-            return std::nullopt;
-        }
-        for (const SourceFile* header : own) {
-            if (defines_macros(header->content)) {
-                return std::nullopt;
-            }
-        }
-        lines.erase(lines.begin());
-        names.erase(names.begin());
-        if (names.empty()) {
-            return std::nullopt;
+    const std::vector<const SourceFile*> own = matches(first.name, headers);
+    if (own.empty()) {
+        return false;
+    }
+    for (const SourceFile* header : own) {
+        if (defines_macros(header->content)) {
+            return false;
         }
     }
-    // Included again after the precompiled header: each must be guarded.
+    leading.lines.erase(leading.lines.begin());
+    leading.names.erase(leading.names.begin());
+    return true;
+}
+
+// True when every header of `headers` that `names` may mean has an include guard.
+bool all_guarded(const std::vector<Included>& names, const std::vector<SourceFile>& headers) {
     for (const Included& name : names) {
         for (const SourceFile* header : matches(name.name, headers)) {
             if (!has_guard(header->content)) {
-                return std::nullopt;
+                return false;
             }
         }
     }
-    // Every header a chain of includes may reach from the lines.
+    return true;
+}
+
+// The headers of `headers` a chain of #include lines may reach from `names`; all of them when
+// one of those includes names a macro.
+std::set<const SourceFile*> reachable(const std::vector<Included>& names,
+                                      const std::vector<SourceFile>& headers) {
     std::set<const SourceFile*> reached;
     std::vector<std::string> pending;
     for (const Included& name : names) {
         pending.push_back(name.name);
     }
     std::set<std::string> asked;
-    bool everything = false;
-    while (!pending.empty() && !everything) {
+    while (!pending.empty()) {
         const std::string name = pending.back();
         pending.pop_back();
         if (!asked.insert(name).second) {
@@ -280,29 +289,42 @@ std::optional<SharedIncludes> shared_includes(const SourceFile& file,
                     continue;
                 }
                 const auto included = included_of(directive.rest);
-                if (!included) {
-                    everything = true; // an #include of a macro: it may mean any header
-                    break;
+                if (!included) { // an #include of a macro: it may mean any header
+                    for (const SourceFile& any : headers) {
+                        reached.insert(&any);
+                    }
+                    return reached;
                 }
                 pending.push_back(included->name);
             }
         }
     }
-    SharedIncludes shared;
-    shared.lines = lines;
+    return reached;
+}
+
+} // namespace
+
+std::optional<SharedIncludes> shared_includes(const SourceFile& file,
+                                              const std::vector<SourceFile>& headers) {
+    Leading leading = leading_includes(file.content);
+    if (leading.names.empty() || !drop_own_header(leading, file.path, headers) ||
+        leading.names.empty() || !all_guarded(leading.names, headers)) {
+        return std::nullopt;
+    }
+    const std::set<const SourceFile*> reached = reachable(leading.names, headers);
     FnvDigest digest;
-    for (const std::string& line : lines) {
+    for (const std::string& line : leading.lines) {
         digest.add_field(line);
     }
     std::map<std::string_view, const SourceFile*> ordered; // by path, whatever the scan order
-    for (const SourceFile& header : headers) {
-        if (everything || reached.count(&header) != 0) {
-            ordered.emplace(header.path, &header);
-        }
+    for (const SourceFile* header : reached) {
+        ordered.emplace(header->path, header);
     }
     for (const auto& [path, header] : ordered) {
         digest.add_field(path).add_field(header->content);
     }
+    SharedIncludes shared;
+    shared.lines = std::move(leading.lines);
     shared.digest = digest.value();
     return shared;
 }
