@@ -62,20 +62,15 @@ ratio() { # $1 label, $2 reuse label, $3 plain label: wall and CPU ratios (CPU i
 plain=(--preamble-units 0 --no-shared-headers)
 preambles=(--preamble-units 32 --no-shared-headers)
 shared=(--preamble-units 0)
-run plain-j1-cold "$work/c-plain1" -j 1 "${plain[@]}"
-run shared-j1-cold "$work/c-shared1" -j 1 "${shared[@]}"
-run preambles-j1-cold "$work/c-pre1" -j 1 "${preambles[@]}"
-ratio "shared headers, 1 worker, cold" shared-j1-cold plain-j1-cold
-ratio "preambles, 1 worker, cold" preambles-j1-cold plain-j1-cold
-same plain-j1-cold shared-j1-cold
-same plain-j1-cold preambles-j1-cold
-run plain-j2-cold "$work/c-plain2" -j 2 "${plain[@]}"
-run shared-j2-cold "$work/c-shared2" -j 2 "${shared[@]}"
-run preambles-j2-cold "$work/c-pre2" -j 2 "${preambles[@]}"
-ratio "shared headers, 2 workers, cold" shared-j2-cold plain-j2-cold
-ratio "preambles, 2 workers, cold" preambles-j2-cold plain-j2-cold
-same plain-j2-cold shared-j2-cold
-same plain-j2-cold preambles-j2-cold
+for j in 1 2; do
+    run "plain-j$j-cold" "$work/c-plain$j" -j "$j" "${plain[@]}"
+    run "shared-j$j-cold" "$work/c-shared$j" -j "$j" "${shared[@]}"
+    run "preambles-j$j-cold" "$work/c-pre$j" -j "$j" "${preambles[@]}"
+    ratio "shared headers, $j worker(s), cold" "shared-j$j-cold" "plain-j$j-cold"
+    ratio "preambles, $j worker(s), cold" "preambles-j$j-cold" "plain-j$j-cold"
+    same "plain-j$j-cold" "shared-j$j-cold"
+    same "plain-j$j-cold" "preambles-j$j-cold"
+done
 run plain-j2-warm "$work/c-plain2" -j 2 "${plain[@]}"
 run shared-j2-warm "$work/c-shared2" -j 2 "${shared[@]}"
 ratio "2 workers, warm (nothing to parse)" shared-j2-warm plain-j2-warm

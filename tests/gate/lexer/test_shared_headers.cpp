@@ -104,6 +104,40 @@ TEST_CASE("the shared digest follows every header the includes may reach, and on
     CHECK(wide_changed->digest != wide->digest);
 }
 
+// A plain lexer and one with shared headers, over one revision.
+struct SideBySide {
+    test::TempDir cache;
+    test::TempDir folder;
+    lexer::ParseContext context;
+    lexer::Lexer plain;
+    lexer::Lexer shared;
+
+    explicit SideBySide(const std::vector<SourceFile>& files)
+        : context(lexer::make_parse_context(files)) {
+        context.cache_dir = cache.path() + "/pch";
+        shared.share_headers(folder.path());
+    }
+
+    // Lex `file` both ways; the results must agree.
+    void compare(const SourceFile& file) {
+        const auto expected = plain.lex_functions(file, context);
+        const auto got = shared.lex_functions(file, context);
+        REQUIRE_FALSE(expected.functions.empty());
+        CHECK(got.functions == expected.functions);
+        CHECK(got.warnings.size() == expected.warnings.size());
+    }
+
+    // How many shared headers were precompiled.
+    std::size_t built() const {
+        std::size_t count = 0;
+        for (const auto& entry : std::filesystem::directory_iterator(folder.path())) {
+            const std::string name = entry.path().filename().string();
+            count += name.rfind("tollgate-shared-", 0) == 0 && entry.path().extension() == ".pch";
+        }
+        return count;
+    }
+};
+
 TEST_CASE("lex_functions gives the same results after precompiled shared headers",
           "[lexer][shared]") {
     // common practice, no source: a precompiled header must not change what is parsed.
@@ -113,29 +147,12 @@ TEST_CASE("lex_functions gives the same results after precompiled shared headers
         "#include \"meter.hpp\"\n#include \"lib/big.hpp\"\n#include <vector>\n\nint "
         "meter_total(const std::vector<int>& raw) {\n    Big<long> sum{0};\n    for (int r : raw) "
         "{ sum.value += meter_reading(r); }\n    return static_cast<int>(sum.value);\n}\n";
-    test::TempDir cache;
-    test::TempDir folder;
-    lexer::ParseContext context = lexer::make_parse_context(files);
-    context.cache_dir = cache.path() + "/pch";
-
-    lexer::Lexer plain;
-    lexer::Lexer shared;
-    shared.share_headers(folder.path());
+    SideBySide lexers(files);
     for (const std::string& source : {k_source, second_source, k_source}) {
-        const SourceFile file{"src/meter.cpp", source};
-        const auto expected = plain.lex_functions(file, context);
-        const auto got = shared.lex_functions(file, context);
-        REQUIRE_FALSE(expected.functions.empty());
-        CHECK(got.functions == expected.functions);
-        CHECK(got.warnings.size() == expected.warnings.size());
+        lexers.compare({"src/meter.cpp", source});
     }
     // Asked for three times with the same headers: built once, on the third.
-    std::size_t built = 0;
-    for (const auto& entry : std::filesystem::directory_iterator(folder.path())) {
-        const std::string name = entry.path().filename().string();
-        built += name.rfind("tollgate-shared-", 0) == 0 && entry.path().extension() == ".pch";
-    }
-    CHECK(built == 1);
+    CHECK(lexers.built() == 1);
 }
 
 TEST_CASE("shared headers with an error are not precompiled and the file parses as before",
@@ -143,22 +160,9 @@ TEST_CASE("shared headers with an error are not precompiled and the file parses 
     std::vector<SourceFile> files = headers();
     files[0].content = "#pragma once\nstruct Big { int value; } // the semicolon is missing\n";
     files.push_back({"src/meter.cpp", k_source});
-    test::TempDir cache;
-    test::TempDir folder;
-    lexer::ParseContext context = lexer::make_parse_context(files);
-    context.cache_dir = cache.path() + "/pch";
-    lexer::Lexer plain;
-    lexer::Lexer shared;
-    shared.share_headers(folder.path());
+    SideBySide lexers(files);
     for (int round = 0; round < 3; ++round) {
-        const auto expected = plain.lex_functions(files.back(), context);
-        const auto got = shared.lex_functions(files.back(), context);
-        CHECK(got.functions == expected.functions);
-        CHECK(got.warnings.size() == expected.warnings.size());
+        lexers.compare(files.back());
     }
-    std::size_t built = 0;
-    for (const auto& entry : std::filesystem::directory_iterator(folder.path())) {
-        built += entry.path().extension() == ".pch";
-    }
-    CHECK(built == 0);
+    CHECK(lexers.built() == 0);
 }
