@@ -15,7 +15,7 @@
 #include "gate/lexer/main_file_stand_ins.hpp"
 #include "gate/lexer/parse_diagnostics.hpp"
 #include "gate/lexer/pch_cache.hpp"
-#include "gate/lexer/shared_headers.hpp"
+#include "gate/lexer/shared_header_cache.hpp"
 #include "gate/lexer/source_lines.hpp"
 #include "gate/lexer/source_token.hpp"
 #include "gate/lexer/token_classifier.hpp"
@@ -32,11 +32,6 @@
 namespace tollgate::lexer {
 
 namespace {
-
-// A shared header is precompiled on its third request: building costs about two plain parses, and
-// on real histories most include sets come back once or twice (a googletest history spent more
-// on builds it used once than it saved).
-constexpr unsigned k_shared_asks = 3;
 
 constexpr std::size_t k_npos = static_cast<std::size_t>(-1);
 
@@ -202,26 +197,6 @@ FileFlags file_flags(Language language, const ParseContext& context, const std::
     return split;
 }
 
-// True when libclang refused the precompiled header `unit` was parsed with (a fatal error
-// about it), or gave no unit at all.
-bool pch_refused(CXTranslationUnit unit) {
-    if (unit == nullptr) {
-        return true;
-    }
-    for (unsigned i = 0; i < clang_getNumDiagnostics(unit); ++i) {
-        DiagnosticHandle diagnostic(clang_getDiagnostic(unit, i));
-        if (clang_getDiagnosticSeverity(diagnostic.get()) != CXDiagnostic_Fatal) {
-            continue;
-        }
-        const std::string text = take_string(clang_getDiagnosticSpelling(diagnostic.get()));
-        if (text.find("precompiled") != std::string::npos ||
-            text.find("PCH") != std::string::npos || text.find("AST file") != std::string::npos) {
-            return true;
-        }
-    }
-    return false;
-}
-
 } // namespace
 
 struct Lexer::Impl {
@@ -235,9 +210,7 @@ struct Lexer::Impl {
                                    // (errors_before_main_code): never reparsed from a preamble
     std::list<LiveUnit> live;      // most recently used first
     std::size_t live_limit = 0;
-    std::string shared_folder;                      // share_headers
-    std::map<std::uint64_t, unsigned> shared_asked; // how often each shared header was asked for
-    std::set<std::uint64_t> shared_failed; // include lines and flags whose header did not build
+    SharedHeaderCache shared_headers;
 
     // Take the live unit built under `key` out of the list, or null.
     TranslationUnitHandle take_live(const std::string& key) {
@@ -296,50 +269,6 @@ struct Lexer::Impl {
             }
         }
         return unit;
-    }
-
-    // The shared precompiled header of `file` (shared_headers.hpp) once the same one has been
-    // asked for k_shared_asks times, or nothing (then the standard headers alone serve).
-    // `lines_key` is set to what identifies the include lines and flags (0: the file has none to
-    // share).
-    std::optional<std::string> shared_pch(const SourceFile& file, const ParseContext& context,
-                                          const std::vector<std::string>& language_flags,
-                                          const std::vector<std::string>& other_args,
-                                          const std::vector<CXUnsavedFile>& unsaved,
-                                          std::uint64_t& lines_key) {
-        lines_key = 0;
-        const std::optional<SharedIncludes> shared = shared_includes(file, context.headers);
-        if (!shared) {
-            return std::nullopt;
-        }
-        FnvDigest lines;
-        for (const std::string& arg : language_flags) {
-            lines.add_field(arg);
-        }
-        for (const std::string& arg : other_args) {
-            lines.add_field(arg);
-        }
-        for (const std::string& line : shared->lines) {
-            lines.add_field(line);
-        }
-        lines_key = lines.value();
-        if (shared_failed.count(lines.value()) != 0) {
-            return std::nullopt;
-        }
-        const std::uint64_t key =
-            FnvDigest(lines).add_field(std::to_string(shared->digest)).value();
-        if (++shared_asked[key] < k_shared_asks) {
-            return std::nullopt;
-        }
-        std::string path =
-            shared_header_pch(language_flags, other_args, *shared, unsaved, shared_folder);
-        if (path.empty()) {
-            // Those headers did not compile alone (they need flags the file does not give, say):
-            // later versions are not tried either, each try costs more than a parse.
-            shared_failed.insert(lines.value());
-            return std::nullopt;
-        }
-        return path;
     }
 
     const PreparedContext& prepare(const ParseContext& context) {
@@ -401,7 +330,7 @@ void Lexer::keep_preambles(std::size_t units) {
 }
 
 void Lexer::share_headers(const std::string& folder) {
-    m_impl->shared_folder = folder;
+    m_impl->shared_headers.set_folder(folder);
 }
 
 FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& context) {
@@ -449,9 +378,9 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
     }
     bool with_shared = false;
     std::uint64_t shared_lines = 0;
-    if (!pch.empty() && !m_impl->shared_folder.empty()) {
-        if (auto shared = m_impl->shared_pch(
-                file, context, language_flags,
+    if (!pch.empty() && m_impl->shared_headers.enabled()) {
+        if (auto shared = m_impl->shared_headers.pch_for(
+                file, context.headers, language_flags,
                 {args.begin() + static_cast<std::ptrdiff_t>(language_flags.size()), args.end()},
                 unsaved, shared_lines)) {
             pch = std::move(*shared);
@@ -505,7 +434,7 @@ FileFunctions Lexer::lex_functions(const SourceFile& file, const ParseContext& c
                                errors_before_main_code(unit.get(), main_file, file.content);
     if (header_errors && shared_lines != 0 && !with_shared) {
         // Headers that show errors here would not precompile either: never try.
-        m_impl->shared_failed.insert(shared_lines);
+        m_impl->shared_headers.refuse(shared_lines);
     }
     if (m_impl->live_limit > 0 && header_errors) {
         // With such errors a preamble could change how the rest parses: this path is parsed

@@ -284,6 +284,26 @@ std::string shared_header_pch(const std::vector<std::string>& language_flags,
     return result;
 }
 
+// True when libclang refused the precompiled header `unit` was parsed with (a fatal error
+// about it), or gave no unit at all.
+bool pch_refused(CXTranslationUnit unit) {
+    if (unit == nullptr) {
+        return true;
+    }
+    for (unsigned i = 0; i < clang_getNumDiagnostics(unit); ++i) {
+        DiagnosticHandle diagnostic(clang_getDiagnostic(unit, i));
+        if (clang_getDiagnosticSeverity(diagnostic.get()) != CXDiagnostic_Fatal) {
+            continue;
+        }
+        const std::string text = take_string(clang_getDiagnosticSpelling(diagnostic.get()));
+        if (text.find("precompiled") != std::string::npos ||
+            text.find("PCH") != std::string::npos || text.find("AST file") != std::string::npos) {
+            return true;
+        }
+    }
+    return false;
+}
+
 void discard_precompiled_header(const std::string& path) {
     std::lock_guard<std::mutex> lock(g_mutex);
     for (auto& [key, known] : g_known) {

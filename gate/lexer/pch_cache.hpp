@@ -30,6 +30,10 @@ std::string shared_header_pch(const std::vector<std::string>& language_flags,
                               const SharedIncludes& shared,
                               const std::vector<CXUnsavedFile>& unsaved, const std::string& folder);
 
+// True when libclang refused the precompiled header `unit` was parsed with (a fatal error
+// about it), or gave no unit at all.
+bool pch_refused(CXTranslationUnit unit);
+
 // Forget `path` for the rest of this process and remove it, after libclang refused to load it.
 void discard_precompiled_header(const std::string& path);
 
