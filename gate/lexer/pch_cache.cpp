@@ -39,7 +39,7 @@ constexpr const char* k_cxx_headers[] = {
     "cassert",    "cstddef",  "string_view",   "variant",   "fstream",   "thread"};
 
 std::mutex g_mutex;
-std::map<std::string, std::string> g_known; // key -> path, empty when it could not be built
+std::map<std::string, std::string> g_known; // base path -> path, empty when it could not be built
 std::atomic<unsigned> g_builds{0};
 
 // An exclusive flock on a file, held for the object's life (no lock when the file cannot be made).
@@ -183,6 +183,45 @@ bool write_prefix(const std::string& prefix_path, const std::string& text) {
     return true;
 }
 
+// Return `base`.pch: remembered for this process, reused when on disk, else built from `text`
+// (written to `base`.hpp or .h) with `flags`, `more` and `unsaved` (see build) while holding
+// `base`.lock, so that parser processes sharing the folder build it once. Return an empty string
+// when it cannot be built, and remember that too. Call with g_mutex held.
+std::string reuse_or_build(const std::string& base, const std::string& text,
+                           const std::vector<std::string>& flags,
+                           const std::vector<std::string>& more,
+                           const std::vector<CXUnsavedFile>& unsaved) {
+    if (auto found = g_known.find(base); found != g_known.end()) {
+        return found->second;
+    }
+    std::string& result = g_known[base];
+    const std::string path = base + ".pch";
+    std::error_code error;
+    const fs::path folder = fs::path(base).parent_path();
+    fs::create_directories(folder, error);
+    if (error) {
+        spdlog::debug("precompiled header: cannot create \"{}\": {}", folder.string(),
+                      error.message());
+        return result;
+    }
+    if (fs::exists(path, error)) {
+        result = path;
+        return result;
+    }
+    // Parser processes share the folder: one builds, the others wait and then reuse its file.
+    const FolderLock folder_lock(base + ".lock");
+    if (fs::exists(path, error)) {
+        result = path;
+        return result;
+    }
+    const bool cxx = is_cxx(flags);
+    const std::string prefix_path = base + (cxx ? ".hpp" : ".h");
+    if (write_prefix(prefix_path, text) && build(flags, cxx, prefix_path, path, more, unsaved)) {
+        result = path;
+    }
+    return result;
+}
+
 } // namespace
 
 std::string precompiled_header(const std::vector<std::string>& language_flags,
@@ -194,41 +233,11 @@ std::string precompiled_header(const std::vector<std::string>& language_flags,
     for (const std::string& flag : language_flags) {
         key += '\x1f' + flag;
     }
-    std::lock_guard<std::mutex> lock(g_mutex);
-    const std::string memo_key = cache_dir + '\x1e' + key;
-    if (auto found = g_known.find(memo_key); found != g_known.end()) {
-        return found->second;
-    }
-    std::string& result = g_known[memo_key];
     char name[32];
     std::snprintf(name, sizeof name, "%016llx", static_cast<unsigned long long>(fnv_digest(key)));
-    std::error_code error;
-    fs::create_directories(cache_dir, error);
-    if (error) {
-        spdlog::debug("precompiled header: cannot create \"{}\": {}", cache_dir, error.message());
-        return result;
-    }
+    std::lock_guard<std::mutex> lock(g_mutex);
     const std::string base = (fs::path(cache_dir) / (std::string("tollgate-std-") + name)).string();
-    const std::string path = base + ".pch";
-    if (fs::exists(path, error)) {
-        result = path;
-        return result;
-    }
-    // Parser processes share the folder: one builds, the others wait and then reuse its file.
-    const FolderLock folder_lock(base + ".lock");
-    if (fs::exists(path, error)) {
-        result = path;
-        return result;
-    }
-    const bool cxx = is_cxx(language_flags);
-    const std::string prefix_path = base + (cxx ? ".hpp" : ".h");
-    if (!write_prefix(prefix_path, prefix_text(cxx))) {
-        return result;
-    }
-    if (build(language_flags, cxx, prefix_path, path)) {
-        result = path;
-    }
-    return result;
+    return reuse_or_build(base, prefix_text(is_cxx(language_flags)), language_flags, {}, {});
 }
 
 std::string shared_header_pch(const std::vector<std::string>& language_flags,
@@ -252,36 +261,14 @@ std::string shared_header_pch(const std::vector<std::string>& language_flags,
     char name[48];
     std::snprintf(name, sizeof name, "tollgate-shared-%016llx",
                   static_cast<unsigned long long>(key.value()));
-    const std::string base = (fs::path(folder) / name).string();
-    std::lock_guard<std::mutex> lock(g_mutex);
-    const std::string memo_key = base;
-    if (auto found = g_known.find(memo_key); found != g_known.end()) {
-        return found->second;
-    }
-    std::string& result = g_known[memo_key];
-    const std::string path = base + ".pch";
-    std::error_code error;
-    if (fs::exists(path, error)) {
-        result = path;
-        return result;
-    }
-    const FolderLock folder_lock(base + ".lock"); // another parser process may be building it
-    if (fs::exists(path, error)) {
-        result = path;
-        return result;
-    }
-    const bool cxx = is_cxx(language_flags);
-    std::string text = prefix_text(cxx);
+    std::string text = prefix_text(is_cxx(language_flags));
     text += "// The file's shared headers.\n";
     for (const std::string& line : shared.lines) {
         text += line + '\n';
     }
-    const std::string prefix_path = base + (cxx ? ".hpp" : ".h");
-    if (write_prefix(prefix_path, text) &&
-        build(language_flags, cxx, prefix_path, path, other_args, unsaved)) {
-        result = path;
-    }
-    return result;
+    std::lock_guard<std::mutex> lock(g_mutex);
+    return reuse_or_build((fs::path(folder) / name).string(), text, language_flags, other_args,
+                          unsaved);
 }
 
 // True when libclang refused the precompiled header `unit` was parsed with (a fatal error
